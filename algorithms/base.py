@@ -1,0 +1,75 @@
+"""What every Sectionwright algorithm shares: naming, help, the section-line
+parameters and the SKIPPED output."""
+from qgis.core import (QgsFeature, QgsFeatureSink, QgsFields, QgsField,
+                       QgsProcessingAlgorithm, QgsProcessingParameterFeatureSink,
+                       QgsProcessingParameterFeatureSource, QgsProcessingParameterField)
+from qgis.PyQt.QtCore import QCoreApplication
+
+from . import fields as F
+from .help import help_text
+from .qgis_compat import LONG, SOURCE_LINES, STRING
+
+INPUT = "INPUT"
+LINE_ID_FIELD = "LINE_ID_FIELD"
+SKIPPED = "SKIPPED"
+
+
+class SectionwrightAlgorithm(QgsProcessingAlgorithm):
+    """Base of the provider's algorithms; subclasses set ``ALGORITHM_ID``,
+    ``DISPLAY_NAME`` and ``GROUP_ID``."""
+
+    GROUPS = {"sectiondata": "Section data", "sectiondrawing": "Section drawing"}
+    ALGORITHM_ID = ""
+    DISPLAY_NAME = ""
+    GROUP_ID = "sectiondata"
+
+    def tr(self, text):
+        return QCoreApplication.translate(type(self).__name__, text)
+
+    def createInstance(self):
+        return type(self)()
+
+    def name(self):
+        return self.ALGORITHM_ID
+
+    def displayName(self):
+        return self.tr(self.DISPLAY_NAME)
+
+    def group(self):
+        return self.tr(self.GROUPS[self.GROUP_ID])
+
+    def groupId(self):
+        return self.GROUP_ID
+
+    def shortHelpString(self):
+        return self.tr(help_text(self.ALGORITHM_ID))
+
+    def add_section_line_parameters(self):
+        self.addParameter(QgsProcessingParameterFeatureSource(
+            INPUT, self.tr("Section lines"), [SOURCE_LINES]))
+        self.addParameter(QgsProcessingParameterField(
+            LINE_ID_FIELD, self.tr("Section label field (empty: feature id)"),
+            parentLayerParameterName=INPUT, optional=True))
+
+    def add_skipped_output(self):
+        self.addParameter(QgsProcessingParameterFeatureSink(
+            SKIPPED, self.tr("Skipped"), optional=True, createByDefault=False))
+
+
+def skipped_fields():
+    fields = QgsFields()
+    fields.append(QgsField(F.SECTION, STRING))
+    fields.append(QgsField(F.SOURCE_FID, LONG))
+    fields.append(QgsField(F.REASON, STRING))
+    return fields
+
+
+def add_skipped_section(sink, section):
+    """One SKIPPED row for a section line part (sink may be None: not asked)."""
+    if sink is None:
+        return
+    feature = QgsFeature(skipped_fields())
+    if section.geometry is not None:
+        feature.setGeometry(section.geometry)
+    feature.setAttributes([section.label, section.fid, section.reason])
+    sink.addFeature(feature, QgsFeatureSink.FastInsert)

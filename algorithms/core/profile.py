@@ -1,0 +1,44 @@
+"""Topographic profile along one section line: samples and drawable runs."""
+import numpy as np
+
+from .lines import drop_repeated_vertices, positions_at, sample_chainages, vertex_chainage
+
+
+def profile_samples(coords, step):
+    """Chainages and map positions of the samples of one line part.
+
+    Samples are every ``step`` from the start plus every vertex and the end;
+    ``step`` 0 gives the vertices only.
+
+    >>> ch, xy = profile_samples(np.array([[0.0, 0], [3, 4], [3, 6]]), 2.0)
+    >>> ch.tolist()
+    [0.0, 2.0, 4.0, 5.0, 6.0, 7.0]
+    >>> xy[-1].tolist()
+    [3.0, 6.0]
+    """
+    coords = drop_repeated_vertices(coords)
+    vertex_ch = vertex_chainage(coords)
+    chainages = sample_chainages(vertex_ch, step)
+    return chainages, positions_at(coords, vertex_ch, chainages)
+
+
+def section_runs(chainage, elevation, exaggeration):
+    """Section-space polylines (x = chainage, y = elevation x exaggeration)
+    through consecutive samples that have an elevation.
+
+    A gap in the data splits the profile; a lone sample between two gaps
+    cannot make a line and is left out of the drawing (it stays in the
+    sample points).
+
+    >>> runs = section_runs(np.arange(5.0), np.array([1, 2, np.nan, 4, 5.0]), 2)
+    >>> [r.tolist() for r in runs]
+    [[[0.0, 2.0], [1.0, 4.0]], [[3.0, 8.0], [4.0, 10.0]]]
+    """
+    chainage = np.asarray(chainage, dtype=float)
+    elevation = np.asarray(elevation, dtype=float)
+    valid = ~np.isnan(elevation)
+    edges = np.diff(np.r_[0, valid.astype(np.int8), 0])
+    starts = np.flatnonzero(edges == 1)
+    ends = np.flatnonzero(edges == -1)
+    points = np.column_stack((chainage, elevation * exaggeration))
+    return [points[s:e] for s, e in zip(starts, ends) if e - s >= 2]

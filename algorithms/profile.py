@@ -1,0 +1,176 @@
+"""sectionwright:profile — the topographic profile along each section line."""
+import numpy as np
+import shapely
+from qgis.core import (QgsCoordinateReferenceSystem, QgsCoordinateTransform, QgsFeature, QgsFeatureSink, QgsField,
+                       QgsFields, QgsGeometry, QgsPoint,
+                       QgsProcessingException, QgsProcessingParameterBand,
+                       QgsProcessingParameterDistance, QgsProcessingParameterFeatureSink,
+                       QgsProcessingParameterNumber, QgsProcessingParameterRasterLayer)
+
+from . import fields as F
+from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, add_skipped_section, skipped_fields
+from .core.crs import transformer
+from .core.profile import profile_samples, section_runs
+from .dem import DemSampler, bounded_gdal_cache
+from .ledger import RunLedger
+from .qgis_compat import (DOUBLE, MULTI_LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES,
+                          SOURCE_POINTS, STRING)
+from .section_lines import crs_wkt, read_section_parts, working_crs
+from .section_space import SECTION_CRS_WKT
+
+DEM = "DEM"
+DEM_BAND = "DEM_BAND"
+Z_FACTOR = "Z_FACTOR"
+STEP = "STEP"
+VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
+OUTPUT = "OUTPUT"
+OUTPUT_SECTION = "OUTPUT_SECTION"
+
+BATCH = 5000
+
+
+def sample_fields():
+    fields = QgsFields()
+    fields.append(QgsField(F.SECTION, STRING))
+    for name in (F.CHAINAGE, F.ELEVATION, F.X, F.Y):
+        fields.append(QgsField(name, DOUBLE))
+    return fields
+
+
+def section_fields():
+    fields = QgsFields()
+    fields.append(QgsField(F.SECTION, STRING))
+    for name in (F.LENGTH, F.MIN_ELEVATION, F.MAX_ELEVATION, F.EXAGGERATION):
+        fields.append(QgsField(name, DOUBLE))
+    return fields
+
+
+def _nullable(values):
+    """Python floats with None where NaN, for QGIS attributes."""
+    return [None if v != v else v for v in values.tolist()]
+
+
+class ProfileAlgorithm(SectionwrightAlgorithm):
+    ALGORITHM_ID = "profile"
+    DISPLAY_NAME = "Topographic profile"
+
+    def initAlgorithm(self, config=None):
+        self.add_section_line_parameters()
+        self.addParameter(QgsProcessingParameterRasterLayer(DEM, self.tr("DEM")))
+        self.addParameter(QgsProcessingParameterBand(
+            DEM_BAND, self.tr("DEM band"), defaultValue=1, parentLayerParameterName=DEM,
+            optional=True))
+        self.addParameter(QgsProcessingParameterNumber(
+            Z_FACTOR, self.tr("Z factor (DEM values × factor = metres)"),
+            NUMBER_DOUBLE, defaultValue=1.0))
+        self.addParameter(QgsProcessingParameterDistance(
+            STEP, self.tr("Sampling step (0: the DEM's cell size)"),
+            defaultValue=0.0, parentParameterName=INPUT, minValue=0.0))
+        self.addParameter(QgsProcessingParameterNumber(
+            VERTICAL_EXAGGERATION, self.tr("Vertical exaggeration"),
+            NUMBER_DOUBLE, defaultValue=1.0, minValue=0.001))
+        self.addParameter(QgsProcessingParameterFeatureSink(
+            OUTPUT, self.tr("Profile points (map)"), SOURCE_POINTS))
+        self.addParameter(QgsProcessingParameterFeatureSink(
+            OUTPUT_SECTION, self.tr("Profile (section view)"), SOURCE_LINES))
+        self.add_skipped_output()
+
+    def processAlgorithm(self, parameters, context, feedback):
+        source = self.parameterAsSource(parameters, INPUT, context)
+        if source is None:
+            raise QgsProcessingException(self.invalidSourceError(parameters, INPUT))
+        id_field = self.parameterAsString(parameters, LINE_ID_FIELD, context)
+        dem = self.parameterAsRasterLayer(parameters, DEM, context)
+        if dem is None:
+            raise QgsProcessingException(
+                self.tr("DEM: the layer given is not a raster that can be read."))
+        band = self.parameterAsInt(parameters, DEM_BAND, context)
+        z_factor = self.parameterAsDouble(parameters, Z_FACTOR, context)
+        step = self.parameterAsDouble(parameters, STEP, context)
+        exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
+
+        work_crs = working_crs(source, context, feedback)
+        sampler = DemSampler(dem, band, z_factor, work_crs)
+        if step <= 0:
+            step = self._cell_step(sampler, source, work_crs, context)
+            feedback.pushInfo(f"Sampling step: {step:.3f} (the DEM's cell size).")
+
+        (points, points_id) = self.parameterAsSink(
+            parameters, OUTPUT, context, sample_fields(), POINT_Z, source.sourceCrs())
+        section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+        (sections, sections_id) = self.parameterAsSink(
+            parameters, OUTPUT_SECTION, context, section_fields(), MULTI_LINE_STRING, section_crs)
+        (skipped, skipped_id) = self.parameterAsSink(
+            parameters, SKIPPED, context, skipped_fields(), source.wkbType(), source.sourceCrs())
+        if points is None:
+            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
+        if sections is None:
+            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT_SECTION))
+
+        parts = read_section_parts(source, id_field, work_crs, context, feedback)
+        to_map = transformer(crs_wkt(work_crs), crs_wkt(source.sourceCrs()))
+        ledger = RunLedger(feedback)
+        with bounded_gdal_cache():
+            for index, part in enumerate(parts):
+                if feedback.isCanceled():
+                    break
+                ledger.read += 1
+                if part.coords is not None:
+                    chainage, xy = profile_samples(part.coords, step)
+                    elevation = sampler.elevations(xy)
+                    if np.isnan(elevation).all():
+                        part.reason = "no DEM coverage"
+                if part.reason:
+                    ledger.skip(part.reason)
+                    add_skipped_section(skipped, part)
+                    feedback.pushInfo(f"Section {part.label} skipped: {part.reason}.")
+                else:
+                    self._write_samples(points, part.label, chainage, elevation, to_map(*xy.T))
+                    self._write_section(sections, part.label, chainage, elevation, exaggeration)
+                    ledger.written += 1
+                    feedback.pushInfo(f"Section {part.label}: length {chainage[-1]:.1f}, "
+                                      f"{len(chainage)} samples, "
+                                      f"{int(np.isnan(elevation).sum())} without elevation.")
+                feedback.setProgress(100.0 * (index + 1) / max(len(parts), 1))
+        ledger.close()
+        results = {OUTPUT: points_id, OUTPUT_SECTION: sections_id}
+        if skipped is not None:
+            results[SKIPPED] = skipped_id
+        return results
+
+    @staticmethod
+    def _cell_step(sampler, source, work_crs, context):
+        centre = QgsCoordinateTransform(source.sourceCrs(), work_crs,
+                                        context.transformContext()).transform(
+            source.sourceExtent().center())
+        return sampler.cell_size((centre.x(), centre.y()))
+
+    @staticmethod
+    def _write_samples(sink, label, chainage, elevation, map_xy):
+        map_x, map_y = map_xy
+        fields = sample_fields()
+        z_values = elevation.tolist()
+        rows = zip(chainage.tolist(), _nullable(elevation), map_x.tolist(),
+                   map_y.tolist(), z_values)
+        batch = []
+        for ch, elev, x, y, z in rows:
+            feature = QgsFeature(fields)
+            feature.setGeometry(QgsGeometry(QgsPoint(x, y, z)))
+            feature.setAttributes([label, ch, elev, x, y])
+            batch.append(feature)
+            if len(batch) == BATCH:
+                sink.addFeatures(batch, QgsFeatureSink.FastInsert)
+                batch = []
+        sink.addFeatures(batch, QgsFeatureSink.FastInsert)
+
+    @staticmethod
+    def _write_section(sink, label, chainage, elevation, exaggeration):
+        runs = section_runs(chainage, elevation, exaggeration)
+        geometry = QgsGeometry()
+        geometry.fromWkb(shapely.to_wkb(shapely.MultiLineString(runs)))
+        feature = QgsFeature(section_fields())
+        feature.setGeometry(geometry)
+        valid = elevation[~np.isnan(elevation)]
+        feature.setAttributes([label, float(chainage[-1]), float(valid.min()),
+                               float(valid.max()), exaggeration])
+        sink.addFeature(feature, QgsFeatureSink.FastInsert)

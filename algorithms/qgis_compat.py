@@ -1,0 +1,49 @@
+"""The few QGIS names that differ between releases, resolved once.
+
+QGIS moved many enums into the scoped ``Qgis`` namespace (3.30 and later)
+and field types from ``QVariant`` to ``QMetaType`` (3.38); QGIS 4 drops the
+old spellings. Everything else imports these names from here.
+"""
+from qgis.core import Qgis, QgsProcessing, QgsProcessingParameterNumber, QgsUnitTypes, QgsWkbTypes
+from qgis.PyQt.QtCore import QVariant
+
+
+def _scoped(scope, member, legacy):
+    """``Qgis.<scope>.<member>`` where it exists, else the legacy value."""
+    return getattr(getattr(Qgis, scope, None), member, legacy)
+
+
+POINT_Z = _scoped("WkbType", "PointZ", QgsWkbTypes.PointZ)
+LINE_STRING = _scoped("WkbType", "LineString", QgsWkbTypes.LineString)
+MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", QgsWkbTypes.MultiLineString)
+NO_GEOMETRY = _scoped("WkbType", "NoGeometry", QgsWkbTypes.NoGeometry)
+
+SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", QgsProcessing.TypeVectorLine)
+SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.TypeVectorPoint)
+
+NUMBER_DOUBLE = _scoped("ProcessingNumberParameterType", "Double",
+                        QgsProcessingParameterNumber.Double)
+
+CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
+
+UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
+
+if Qgis.QGIS_VERSION_INT >= 33800:
+    from qgis.PyQt.QtCore import QMetaType
+    DOUBLE = QMetaType.Type.Double
+    INTEGER = QMetaType.Type.Int
+    LONG = QMetaType.Type.LongLong
+    STRING = QMetaType.Type.QString
+else:
+    DOUBLE = QVariant.Double
+    INTEGER = QVariant.Int
+    LONG = QVariant.LongLong
+    STRING = QVariant.String
+
+
+def is_curved(wkb_type):
+    return QgsWkbTypes.isCurvedType(wkb_type)
+
+
+def unit_name(unit):
+    return QgsUnitTypes.toString(unit)

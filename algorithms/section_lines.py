@@ -1,0 +1,108 @@
+"""Reading the section lines: working CRS, labels, parts, bad geometry."""
+from dataclasses import dataclass
+from typing import Optional
+
+import numpy as np
+import shapely
+from qgis.core import (NULL, QgsCoordinateReferenceSystem, QgsCoordinateTransform,
+                       QgsCsException, QgsGeometry, QgsProcessingException)
+
+from .core.crs import utm_epsg
+from .core.lines import drop_repeated_vertices
+from .qgis_compat import UNIT_METERS, is_curved, unit_name
+
+WKT2 = getattr(QgsCoordinateReferenceSystem, "WKT2_2019",
+               QgsCoordinateReferenceSystem.WKT_PREFERRED)
+WGS84 = QgsCoordinateReferenceSystem("EPSG:4326")
+
+
+@dataclass
+class SectionPart:
+    """One single-part section line in the working CRS, or why it is unusable."""
+    label: str
+    fid: int
+    geometry: QgsGeometry          # the input feature's geometry, as read
+    coords: Optional[np.ndarray]   # (n, 2) working-CRS vertices; None when skipped
+    reason: str = ""
+
+
+def crs_wkt(crs):
+    return crs.toWkt(WKT2)
+
+
+def working_crs(source, context, feedback):
+    """The section lines' CRS when projected, else the UTM zone of the centre
+    of their extent (one CRS per run); the log says which and in what unit."""
+    crs = source.sourceCrs()
+    if not crs.isValid():
+        raise QgsProcessingException(
+            "INPUT: the section lines have no coordinate reference system. "
+            "Set one in the layer's properties (Source) and run again.")
+    if not crs.isGeographic():
+        if crs.mapUnits() != UNIT_METERS:
+            feedback.pushInfo(f"Chainages and distances are in "
+                              f"{unit_name(crs.mapUnits())}, the unit of {crs.authid()}.")
+        return crs
+    centre = QgsCoordinateTransform(crs, WGS84, context.transformContext()).transform(
+        source.sourceExtent().center())
+    work = QgsCoordinateReferenceSystem(f"EPSG:{utm_epsg(centre.x(), centre.y())}")
+    feedback.pushInfo(f"The section lines are in a geographic CRS ({crs.authid()}); "
+                      f"working CRS: {work.authid()} {work.description()}, in metres.")
+    return work
+
+
+def section_label(feature, id_field):
+    """The section's label: the LINE_ID_FIELD value, else the feature id."""
+    if id_field:
+        value = feature[id_field]
+        if value is not None and value != NULL and str(value).strip():
+            return str(value).strip()
+    return str(feature.id())
+
+
+def _single_parts(geometry, to_working):
+    """Working-CRS vertex arrays of each part, or a reason for the feature."""
+    if geometry is None or geometry.isNull():
+        return None, "null geometry"
+    if geometry.isEmpty():
+        return None, "empty geometry"
+    working = QgsGeometry(geometry)
+    if is_curved(working.wkbType()):
+        working.convertToStraightSegment()
+    try:
+        working.transform(to_working)
+    except QgsCsException:
+        return None, "cannot be transformed to the working CRS"
+    parts = shapely.get_parts(shapely.force_2d(shapely.from_wkb(bytes(working.asWkb()))))
+    return [drop_repeated_vertices(shapely.get_coordinates(p)) for p in parts], ""
+
+
+def read_section_parts(source, id_field, work_crs, context, feedback):
+    """Every section line part, labelled, in the working CRS.
+
+    Unusable parts come back with ``coords`` None and a reason, so that the
+    caller accounts for them in SKIPPED.
+    """
+    to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs,
+                                        context.transformContext())
+    sections = []
+    for feature in source.getFeatures():
+        if feedback.isCanceled():
+            break
+        label = section_label(feature, id_field)
+        geometry = feature.geometry()
+        parts, reason = _single_parts(geometry, to_working)
+        if parts is None:
+            sections.append(SectionPart(label, feature.id(), geometry, None, reason))
+            continue
+        if len(parts) > 1:
+            feedback.pushInfo(f"Section {label} has {len(parts)} parts: "
+                              f"processed as {label}#1 … {label}#{len(parts)}.")
+        for number, coords in enumerate(parts, start=1):
+            part_label = f"{label}#{number}" if len(parts) > 1 else label
+            if len(coords) < 2:
+                sections.append(SectionPart(part_label, feature.id(), geometry, None,
+                                            "zero-length line"))
+            else:
+                sections.append(SectionPart(part_label, feature.id(), geometry, coords))
+    return sections

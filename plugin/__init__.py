@@ -1,0 +1,1 @@
+"""QGIS glue: the plugin class, the Processing provider, icons."""
