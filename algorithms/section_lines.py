@@ -5,7 +5,8 @@ from typing import Optional
 import numpy as np
 import shapely
 from qgis.core import (NULL, QgsCoordinateReferenceSystem, QgsCoordinateTransform,
-                       QgsCsException, QgsGeometry, QgsProcessingException)
+                       QgsCsException, QgsFeatureRequest, QgsGeometry,
+                       QgsProcessingException, QgsProcessingFeatureSource)
 
 from .core.crs import utm_epsg
 from .core.lines import drop_repeated_vertices
@@ -86,7 +87,10 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
     to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs,
                                         context.transformContext())
     sections = []
-    for feature in source.getFeatures():
+    # Degenerate lines are ours to report in SKIPPED, not Processing's to refuse.
+    features = source.getFeatures(QgsFeatureRequest(),
+                                  QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks)
+    for feature in features:
         if feedback.isCanceled():
             break
         label = section_label(feature, id_field)

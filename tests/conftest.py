@@ -14,6 +14,7 @@ PACKAGE = "sectionwright"
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 os.environ.setdefault("PROJ_DATA", "/usr/share/proj")
 sys.path.insert(0, str(ROOT / "test_data"))
+sys.path.insert(0, str(ROOT / "tests"))
 
 
 def _import_plugin_package():
