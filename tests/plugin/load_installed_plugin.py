@@ -1,0 +1,58 @@
+"""Run in a fresh interpreter by test_install.py: loads the installed plugin
+from a throwaway profile with qgis.utils, as QGIS does, and prints JSON.
+
+    python load_installed_plugin.py PROFILE_DIR [--without shapely]
+"""
+import importlib.abc
+import json
+import sys
+from pathlib import Path
+
+from qgis.core import QgsApplication
+
+
+class Refuse(importlib.abc.MetaPathFinder):
+    """Makes a package look uninstalled."""
+
+    def __init__(self, name):
+        self.name = name
+
+    def find_spec(self, fullname, path, target=None):
+        if fullname.split(".")[0] == self.name:
+            raise ImportError(f"No module named '{fullname}'")
+        return None
+
+
+def main():
+    profile = Path(sys.argv[1])
+    if "--without" in sys.argv:
+        sys.meta_path.insert(0, Refuse(sys.argv[sys.argv.index("--without") + 1]))
+    app = QgsApplication([], False, str(profile))
+    app.initQgis()
+    messages = []
+    QgsApplication.messageLog().messageReceived.connect(
+        lambda message, tag, level: messages.append([tag, message]))
+    sys.path.append(str(Path(QgsApplication.pkgDataPath()) / "python" / "plugins"))
+    from processing.core.Processing import Processing
+    Processing.initialize()
+    import qgis.utils
+    plugins = profile / "python" / "plugins"
+    sys.path.insert(0, str(plugins))
+    qgis.utils.plugin_paths = [str(plugins)]
+    qgis.utils.updateAvailablePlugins()
+    loaded = qgis.utils.loadPlugin("sectionwright") and qgis.utils.startProcessingPlugin("sectionwright")
+    registry = QgsApplication.processingRegistry()
+    provider = registry.providerById("sectionwright")
+    report = {
+        "available": "sectionwright" in qgis.utils.available_plugins,
+        "started": bool(loaded),
+        "provider": provider.name() if provider else None,
+        "algorithms": sorted(a.id() for a in provider.algorithms()) if provider else [],
+        "messages": messages,
+    }
+    qgis.utils.unloadPlugin("sectionwright")
+    report["unloaded"] = registry.providerById("sectionwright") is None
+    print(json.dumps(report))
+
+
+main()
