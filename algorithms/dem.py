@@ -1,5 +1,6 @@
 """Reading a DEM layer window by window: through GDAL where the layer is a
 GDAL source, through the layer's data provider otherwise."""
+from concurrent.futures import ThreadPoolExecutor
 from contextlib import contextmanager
 
 import numpy as np
@@ -7,9 +8,11 @@ from osgeo import gdal
 from qgis.core import QgsProcessingException, QgsRectangle
 
 from .core.crs import cell_size_on_ground, transformer
-from .core.raster_sampling import TileCache, bilinear, centre_index
+from .core.raster_sampling import TiledRaster, bilinear, centre_index
 from .section_lines import crs_wkt
 
+READERS = 2              # GDAL handles decoding tiles concurrently
+BATCH_SAMPLES = 100_000  # positions sampled together (~20 MB of working arrays)
 PROVIDER_TILE = 256       # window side for sources without a useful block size
 LARGEST_TILE = 1024       # blocks larger than this (strips, whole images) are windowed
 GDAL_CACHE_CAP = 64 * 2 ** 20
@@ -17,6 +20,16 @@ GDAL_CACHE_CAP = 64 * 2 ** 20
 _NUMPY_TYPES = {"Byte": np.uint8, "Int8": np.int8, "UInt16": np.uint16, "Int16": np.int16,
                 "UInt32": np.uint32, "Int32": np.int32, "Float32": np.float32,
                 "Float64": np.float64}
+
+
+def cell_values(raw, nodata):
+    """Cell values with NaN where nodata. Kept in single precision unless the
+    source has double precision: half the memory per cached tile, and exact
+    for every integer (to 2**24) or float32 DEM."""
+    values = raw.astype(np.float64 if raw.dtype == np.float64 else np.float32)
+    if nodata is not None:
+        values[raw == nodata] = np.nan
+    return values
 
 
 def _tile_shape(block_rows, block_cols):
@@ -43,10 +56,7 @@ class GdalGrid:
         raw = self.band.ReadAsArray(col0, row0, ncols, nrows)
         # Our tile cache holds the decoded tile: GDAL's copy is not needed.
         self.band.FlushCache()
-        values = raw.astype(float)
-        if self.nodata is not None:
-            values[raw == self.nodata] = np.nan
-        return values * self.scale + self.offset
+        return cell_values(raw, self.nodata)
 
 
 class ProviderGrid:
@@ -56,7 +66,8 @@ class ProviderGrid:
     def __init__(self, layer, band_number, z_factor):
         self.provider = layer.dataProvider()
         self.band_number = band_number
-        self.z_factor = z_factor
+        self.scale = self.provider.bandScale(band_number) * z_factor
+        self.offset = self.provider.bandOffset(band_number) * z_factor
         extent = self.provider.extent()
         rows, cols = self.provider.ySize(), self.provider.xSize()
         self.shape = (rows, cols)
@@ -71,11 +82,8 @@ class ProviderGrid:
         block = self.provider.block(self.band_number, rect, ncols, nrows)
         type_name = _data_type_name(block.dataType())
         raw = np.frombuffer(bytes(block.data()), dtype=_NUMPY_TYPES[type_name])
-        raw = raw.reshape(nrows, ncols)
-        values = raw.astype(float)
-        if block.hasNoDataValue():
-            values[raw == block.noDataValue()] = np.nan
-        return values * self.z_factor
+        nodata = block.noDataValue() if block.hasNoDataValue() else None
+        return cell_values(raw.reshape(nrows, ncols), nodata)
 
 
 def _data_type_name(data_type):
@@ -86,8 +94,9 @@ def _data_type_name(data_type):
     return name
 
 
-def open_grid(layer, band_number, z_factor):
-    """The DEM band as a grid reader; clear errors for a missing band."""
+def open_grids(layer, band_number, z_factor):
+    """Readers of the DEM band (one per thread for GDAL sources); clear
+    errors for a missing band or a layer that is not a raster."""
     if layer is None or not layer.isValid():
         raise QgsProcessingException("DEM: the layer given is not a raster that can be read.")
     if not 1 <= band_number <= layer.bandCount():
@@ -95,10 +104,11 @@ def open_grid(layer, band_number, z_factor):
             f"DEM_BAND: the DEM has {layer.bandCount()} band(s); band {band_number} "
             f"does not exist.")
     if layer.providerType() == "gdal":
-        dataset = gdal.OpenEx(layer.source(), gdal.OF_RASTER | gdal.OF_READONLY)
-        if dataset is not None:
-            return GdalGrid(dataset, band_number, z_factor)
-    return ProviderGrid(layer, band_number, z_factor)
+        datasets = [gdal.OpenEx(layer.source(), gdal.OF_RASTER | gdal.OF_READONLY)
+                    for _ in range(READERS)]
+        if all(d is not None for d in datasets):
+            return [GdalGrid(d, band_number, z_factor) for d in datasets]
+    return [ProviderGrid(layer, band_number, z_factor)]
 
 
 @contextmanager
@@ -117,21 +127,69 @@ class DemSampler:
     """Bilinear DEM elevations at working-CRS positions."""
 
     def __init__(self, layer, band_number, z_factor, work_crs):
-        self.grid = open_grid(layer, band_number, z_factor)
+        grids = open_grids(layer, band_number, z_factor)
+        self.grid = grids[0]
         dem_wkt = crs_wkt(layer.crs())
         work_wkt = crs_wkt(work_crs)
         self.to_dem = transformer(work_wkt, dem_wkt)
         self.to_working = transformer(dem_wkt, work_wkt)
         self.inverse_geotransform = gdal.InvGeoTransform(self.grid.geotransform)
-        self.tiles = TileCache(self.grid.read_window, self.grid.shape, self.grid.tile_shape)
+        self.raster = TiledRaster([g.read_window for g in grids], self.grid.shape,
+                                  self.grid.tile_shape)
 
     def elevations(self, xy):
         x, y = self.to_dem(xy[:, 0], xy[:, 1])
         u, v = centre_index(self.inverse_geotransform, x, y)
-        return bilinear(u, v, self.tiles)
+        return bilinear(u, v, self.raster) * self.grid.scale + self.grid.offset
 
     def cell_size(self, centre_working):
         """The DEM's cell size measured in the working CRS at a position."""
         x, y = self.to_dem(np.array([centre_working[0]]), np.array([centre_working[1]]))
         gt = self.grid.geotransform
         return cell_size_on_ground(self.to_working, (x[0], y[0]), gt[1], gt[5])
+
+
+def _batched(jobs):
+    batch, size = [], 0
+    for key, xy in jobs:
+        batch.append((key, xy))
+        size += 0 if xy is None else len(xy)
+        if size >= BATCH_SAMPLES:
+            yield batch
+            batch, size = [], 0
+    if batch:
+        yield batch
+
+
+def _sample_batch(sampler, batch):
+    arrays = [xy for _, xy in batch if xy is not None]
+    if not arrays:
+        return [(key, None) for key, _ in batch]
+    z = sampler.elevations(np.concatenate(arrays))
+    results, start = [], 0
+    for key, xy in batch:
+        if xy is None:
+            results.append((key, None))
+        else:
+            results.append((key, z[start:start + len(xy)]))
+            start += len(xy)
+    return results
+
+
+def sample_ahead(jobs, sampler):
+    """Elevations for ``(key, xy)`` jobs, yielding ``(key, elevations)`` in
+    order (``None`` for a job whose xy is None).
+
+    Jobs are sampled in batches of about ``BATCH_SAMPLES`` positions, so a
+    tile that several lines cross is decoded once per batch, and the next
+    batch is read while the caller writes the current one's features.
+    """
+    with ThreadPoolExecutor(max_workers=1) as worker:
+        pending = None
+        for batch in _batched(jobs):
+            future = worker.submit(_sample_batch, sampler, batch)
+            if pending is not None:
+                yield from pending.result()
+            pending = future
+        if pending is not None:
+            yield from pending.result()

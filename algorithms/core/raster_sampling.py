@@ -1,20 +1,20 @@
 """Bilinear interpolation between cell centres of a raster read tile by tile.
 
-A raster is seen through a *window reader*: a callable
+A raster is seen through *window readers*: callables
 ``read(row0, col0, nrows, ncols)`` returning a float array with NaN where
 the raster has no data. Only the tiles that the sample positions need are
-read, one tile-aligned window at a time, and a bounded cache keeps the
-recently used ones, so memory does not grow with the raster or the line.
+read, each once per call, one tile-aligned window at a time, and no tile is
+kept afterwards: memory follows the number of samples, never the raster's
+size. With several readers (independent handles on the same raster) the
+tiles are read concurrently.
 
 Index space: ``u`` (columns) and ``v`` (rows) are fractional cell indices
 with cell *centres* at whole numbers; the raster's outer edge is at -0.5 and
 ``n - 0.5``.
 """
-from collections import OrderedDict
+from concurrent.futures import ThreadPoolExecutor
 
 import numpy as np
-
-CACHE_BYTES = 32 * 2 ** 20
 
 
 def centre_index(inverse_geotransform, x, y):
@@ -36,52 +36,50 @@ def centre_index(inverse_geotransform, x, y):
     return u, v
 
 
-class TileCache:
-    """Cells of a raster read through tile-aligned windows, least recently
-    used tiles dropped beyond ``CACHE_BYTES``."""
+class TiledRaster:
+    """A raster's cells gathered tile by tile through one or more readers."""
 
-    def __init__(self, read_window, raster_shape, tile_shape):
-        self.read_window = read_window
+    def __init__(self, readers, raster_shape, tile_shape):
+        self.readers = list(readers)
         self.rows, self.cols = (int(n) for n in raster_shape)
         self.tile_rows, self.tile_cols = (max(1, int(n)) for n in tile_shape)
         self.tiles_across = -(-self.cols // self.tile_cols)
-        tile_bytes = self.tile_rows * self.tile_cols * 8
-        self.capacity = max(4, CACHE_BYTES // tile_bytes)
-        self._tiles = OrderedDict()
         self.tiles_read = 0
 
-    def _tile(self, key):
-        tile = self._tiles.pop(key, None)
-        if tile is None:
-            tile_row, tile_col = divmod(key, self.tiles_across)
-            row0 = tile_row * self.tile_rows
-            col0 = tile_col * self.tile_cols
-            tile = self.read_window(row0, col0,
-                                    min(self.tile_rows, self.rows - row0),
-                                    min(self.tile_cols, self.cols - col0))
-            self.tiles_read += 1
-            while len(self._tiles) >= self.capacity:
-                self._tiles.popitem(last=False)
-        self._tiles[key] = tile
-        return tile
+    def _read_tile(self, reader, key):
+        tile_row, tile_col = divmod(key, self.tiles_across)
+        row0 = tile_row * self.tile_rows
+        col0 = tile_col * self.tile_cols
+        return row0, col0, reader(row0, col0, min(self.tile_rows, self.rows - row0),
+                                  min(self.tile_cols, self.cols - col0))
+
+    def _gather(self, reader, groups, rows, cols, out):
+        for key, pick in groups:
+            row0, col0, tile = self._read_tile(reader, key)
+            out[pick] = tile[rows[pick] - row0, cols[pick] - col0]
 
     def cells(self, rows, cols):
         """Values of the cells at integer (rows, cols), all inside the raster."""
         rows = np.asarray(rows, dtype=np.int64)
         cols = np.asarray(cols, dtype=np.int64)
         keys = (rows // self.tile_rows) * self.tiles_across + cols // self.tile_cols
-        out = np.empty(rows.shape, dtype=float)
         order = np.argsort(keys, kind="stable")
         sorted_keys = keys[order]
         starts = np.flatnonzero(np.r_[True, sorted_keys[1:] != sorted_keys[:-1]])
         ends = np.r_[starts[1:], len(order)]
-        for start, end in zip(starts, ends):
-            key = sorted_keys[start]
-            tile = self._tile(int(key))
-            pick = order[start:end]
-            tile_row, tile_col = divmod(int(key), self.tiles_across)
-            out[pick] = tile[rows[pick] - tile_row * self.tile_rows,
-                             cols[pick] - tile_col * self.tile_cols]
+        groups = [(int(sorted_keys[s]), order[s:e]) for s, e in zip(starts, ends)]
+        self.tiles_read += len(groups)
+        out = np.empty(rows.shape, dtype=float)
+        if len(self.readers) == 1 or len(groups) < 2:
+            self._gather(self.readers[0], groups, rows, cols, out)
+            return out
+        # Each reader has its own handle; readers release Python's lock while
+        # they decompress, so tiles decode in parallel.
+        shares = [groups[i::len(self.readers)] for i in range(len(self.readers))]
+        with ThreadPoolExecutor(max_workers=len(self.readers)) as pool:
+            for done in [pool.submit(self._gather, reader, share, rows, cols, out)
+                         for reader, share in zip(self.readers, shares)]:
+                done.result()
         return out
 
 
@@ -94,8 +92,8 @@ def _corner_indices(position, count):
     return lower, upper, clamped - lower
 
 
-def bilinear(u, v, cache):
-    """Bilinear value at fractional centre indices (u, v).
+def bilinear(u, v, raster):
+    """Bilinear value at fractional centre indices (u, v) of a TiledRaster.
 
     NaN outside the raster (beyond its outer edge) and wherever a cell that
     carries weight in the interpolation has no data. A cell with zero
@@ -103,25 +101,25 @@ def bilinear(u, v, cache):
     does not matter.
 
     >>> grid = np.array([[0.0, 10.0], [20.0, 30.0]])
-    >>> cache = TileCache(lambda r, c, nr, nc: grid[r:r + nr, c:c + nc],
-    ...                   grid.shape, (256, 256))
-    >>> bilinear(np.array([0.5, 1.4, 2.0]), np.array([0.5, 0.0, 0.0]), cache)
+    >>> raster = TiledRaster([lambda r, c, nr, nc: grid[r:r + nr, c:c + nc]],
+    ...                      grid.shape, (256, 256))
+    >>> bilinear(np.array([0.5, 1.4, 2.0]), np.array([0.5, 0.0, 0.0]), raster)
     array([15., 10., nan])
     """
     u = np.asarray(u, dtype=float)
     v = np.asarray(v, dtype=float)
     z = np.full(u.shape, np.nan)
-    inside = ((u >= -0.5) & (u <= cache.cols - 0.5)
-              & (v >= -0.5) & (v <= cache.rows - 0.5))
+    inside = ((u >= -0.5) & (u <= raster.cols - 0.5)
+              & (v >= -0.5) & (v <= raster.rows - 0.5))
     if not inside.any():
         return z
-    c0, c1, fx = _corner_indices(u[inside], cache.cols)
-    r0, r1, fy = _corner_indices(v[inside], cache.rows)
+    c0, c1, fx = _corner_indices(u[inside], raster.cols)
+    r0, r1, fy = _corner_indices(v[inside], raster.rows)
     rows = np.concatenate((r0, r0, r1, r1))
     cols = np.concatenate((c0, c1, c0, c1))
     weights = np.concatenate(((1 - fx) * (1 - fy), fx * (1 - fy),
                               (1 - fx) * fy, fx * fy))
-    values = cache.cells(rows, cols)
+    values = raster.cells(rows, cols)
     carries = weights > 0
     missing = carries & np.isnan(values)
     terms = np.where(carries, values, 0.0) * weights

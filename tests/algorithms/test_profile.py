@@ -245,3 +245,30 @@ def test_output_geometry_types(provider, plane_dem):
     result = run_profile(line_layer([KINKED]), plane_dem)
     assert result["OUTPUT"].wkbType() == QgsWkbTypes.PointZ
     assert result["OUTPUT_SECTION"].wkbType() == QgsWkbTypes.MultiLineString
+
+
+def virtual_raster(path):
+    """The same raster behind QGIS's own 'virtualraster' provider (not GDAL)."""
+    from qgis.core import QgsRasterDataProvider, QgsRasterLayer
+    source = QgsRasterLayer(path, "source", "gdal")
+    parameters = QgsRasterDataProvider.VirtualRasterParameters()
+    parameters.crs = source.crs()
+    parameters.extent = source.extent()
+    parameters.width = source.width()
+    parameters.height = source.height()
+    parameters.formula = '"src@1" * 1'
+    layer_input = QgsRasterDataProvider.VirtualRasterInputLayers()
+    layer_input.name, layer_input.uri, layer_input.provider = "src", path, "gdal"
+    parameters.rInputLayers = [layer_input]
+    uri = QgsRasterDataProvider.encodeVirtualRasterProviderUri(parameters)
+    layer = QgsRasterLayer(uri, "virtual", "virtualraster")
+    assert layer.isValid() and layer.providerType() == "virtualraster"
+    return layer
+
+
+def test_a_non_gdal_raster_is_read_through_its_data_provider(provider, plane_dem):
+    through_gdal = run_profile(line_layer([KINKED]), plane_dem)
+    through_provider = run_profile(line_layer([KINKED]), virtual_raster(plane_dem))
+    a = [f["elev"] for f in through_gdal["OUTPUT"].getFeatures()]
+    b = [f["elev"] for f in through_provider["OUTPUT"].getFeatures()]
+    np.testing.assert_allclose(b, a, atol=1e-9)

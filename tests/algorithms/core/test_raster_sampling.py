@@ -3,18 +3,18 @@ import numpy as np
 import pytest
 from scipy import ndimage
 
-from sectionwright.algorithms.core.raster_sampling import TileCache, bilinear, centre_index
+from sectionwright.algorithms.core.raster_sampling import TiledRaster, bilinear, centre_index
 
 
-def cache_for(grid, tile_shape=(7, 5)):
+def cache_for(grid, tile_shape=(7, 5), readers=1):
     reads = []
 
     def read(row0, col0, nrows, ncols):
         reads.append((row0, col0))
         return grid[row0:row0 + nrows, col0:col0 + ncols].astype(float)
-    cache = TileCache(read, grid.shape, tile_shape)
-    cache.reads = reads
-    return cache
+    raster = TiledRaster([read] * readers, grid.shape, tile_shape)
+    raster.reads = reads
+    return raster
 
 
 @pytest.fixture
@@ -75,13 +75,18 @@ def test_tile_layout_does_not_change_values(grid):
         np.testing.assert_allclose(bilinear(u, v, cache_for(grid, shape)), reference)
 
 
-def test_each_tile_is_read_once_while_it_fits_the_cache(grid):
-    cache = cache_for(grid, (4, 4))
-    u = np.linspace(0, 30, 5000)
-    v = np.linspace(0, 22, 5000)
-    bilinear(u, v, cache)
-    bilinear(u[::-1], v[::-1], cache)
-    assert len(cache.reads) == len(set(cache.reads))
+def test_each_tile_is_read_once_per_call_whatever_the_order(grid):
+    raster = cache_for(grid, (4, 4))
+    rng = np.random.default_rng(5)
+    bilinear(rng.uniform(0, 30, 5000), rng.uniform(0, 22, 5000), raster)
+    assert len(raster.reads) == len(set(raster.reads)) == raster.tiles_read
+
+
+def test_several_readers_give_the_same_values(grid):
+    rng = np.random.default_rng(6)
+    u, v = rng.uniform(-0.5, 30.5, 4000), rng.uniform(-0.5, 22.5, 4000)
+    one = bilinear(u, v, cache_for(grid, (3, 3)))
+    np.testing.assert_array_equal(bilinear(u, v, cache_for(grid, (3, 3), readers=3)), one)
 
 
 def test_only_tiles_near_the_positions_are_read():
