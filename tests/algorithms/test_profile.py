@@ -272,3 +272,47 @@ def test_a_non_gdal_raster_is_read_through_its_data_provider(provider, plane_dem
     a = [f["elev"] for f in through_gdal["OUTPUT"].getFeatures()]
     b = [f["elev"] for f in through_provider["OUTPUT"].getFeatures()]
     np.testing.assert_allclose(b, a, atol=1e-9)
+
+
+def test_step_zero_on_a_geographic_dem_is_its_cell_size_in_metres(provider, tmp_path):
+    # Reference: pyproj's Geod (WGS 84 ellipsoid) for the east-west size of a
+    # 0.0001° cell at the DEM's latitude; UTM grid distance differs from the
+    # geodesic one by the scale factor (< 0.1 % here).
+    from pyproj import Geod
+    lon0, lat0 = 14.05, 46.30
+    gt = (lon0, 0.0001, 0.0, lat0 + 0.02, 0.0, -0.0001)
+    dem = plane_raster(tmp_path / "geo.tif", lambda x, y: 500.0 + 0 * x, gt, (200, 200), 4326)
+    to_utm = Transformer.from_crs(4326, 32633, always_xy=True)
+    (x0, x1), (y0, y1) = to_utm.transform([lon0 + 0.004, lon0 + 0.014], [lat0 + 0.01] * 2)
+    result = run_profile(line_layer([f"LINESTRING({x0} {y0}, {x1} {y1})"]), dem, STEP=0.0)
+    chainage = sorted(f["chainage"] for f in result["OUTPUT"].getFeatures())
+    east_west = Geod(ellps="WGS84").inv(lon0, lat0 + 0.01, lon0 + 0.0001, lat0 + 0.01)[2]
+    assert np.median(np.diff(chainage)) == pytest.approx(east_west, rel=2e-3)
+    assert all(f["elev"] == pytest.approx(500.0) for f in result["OUTPUT"].getFeatures())
+
+
+def test_runs_as_a_step_of_a_graphical_model(provider, plane_dem):
+    # The modeler: a model whose only child is sectionwright:profile.
+    from qgis.core import (QgsProcessingModelAlgorithm, QgsProcessingModelChildAlgorithm,
+                           QgsProcessingModelChildParameterSource, QgsProcessingModelOutput,
+                           QgsProcessingModelParameter, QgsProcessingParameterFeatureSource,
+                           QgsProcessingParameterRasterLayer)
+    model = QgsProcessingModelAlgorithm("sections", "tests")
+    model.addModelParameter(QgsProcessingParameterFeatureSource("lines", "lines"),
+                            QgsProcessingModelParameter("lines"))
+    model.addModelParameter(QgsProcessingParameterRasterLayer("dem", "dem"),
+                            QgsProcessingModelParameter("dem"))
+    child = QgsProcessingModelChildAlgorithm("sectionwright:profile")
+    child.setChildId("profile")
+    child.addParameterSources("INPUT", [QgsProcessingModelChildParameterSource.fromModelParameter("lines")])
+    child.addParameterSources("DEM", [QgsProcessingModelChildParameterSource.fromModelParameter("dem")])
+    child.addParameterSources("STEP", [QgsProcessingModelChildParameterSource.fromStaticValue(50.0)])
+    output = QgsProcessingModelOutput("profile_section")
+    output.setChildOutputName("OUTPUT_SECTION")
+    child.setModelOutputs({"profile_section": output})
+    model.addChildAlgorithm(child)
+    result = processing.run(model, {"lines": line_layer([KINKED]), "dem": plane_dem,
+                                    "profile:profile_section": "memory:"})
+    layer = result["profile:profile_section"]
+    layer = QgsVectorLayer(layer) if isinstance(layer, str) else layer
+    assert layer.featureCount() == 1
