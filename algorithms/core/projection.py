@@ -1,0 +1,226 @@
+"""Carrying map points onto the nearest of many section lines.
+
+Two ways, vectorised over the points:
+
+* perpendicular: to the nearest point of the nearest line;
+* along a direction per point, both ways (the attitude's strike, or a plunge
+  trend): to the nearest crossing of that direction with any line.
+
+Reach is limited to ``max_distance`` (horizontal, working-CRS units). The
+lines are cut into *pieces* (twice the reach long measured fastest), so
+that a spatial index of their envelopes finds the few pieces near each
+point (a 15 km line's own envelope would cover half a map sheet); the
+geometry of every (point, piece) pair is then plain numpy. Points go in chunks so that memory
+stays bounded.
+"""
+from dataclasses import dataclass
+
+import numpy as np
+import shapely
+
+from .lines import vertex_chainage
+
+CHUNK = 10_000
+
+
+@dataclass
+class Landing:
+    """Where each point lands; ``line`` is -1 for points that reach none."""
+    line: np.ndarray
+    piece: np.ndarray     # the piece landed on (its azimuth is the line's there)
+    chainage: np.ndarray
+    xy: np.ndarray
+    travel: np.ndarray    # signed along the direction (perpendicular: ≥ 0)
+
+    @classmethod
+    def nowhere(cls, n):
+        return cls(np.full(n, -1, dtype=int), np.full(n, -1, dtype=int), np.full(n, np.nan),
+                   np.full((n, 2), np.nan), np.full(n, np.nan))
+
+
+class SectionNetwork:
+    """Many single-part section lines in the working CRS, cut into pieces
+    of at most ``piece_length``."""
+
+    def __init__(self, coords_list, piece_length):
+        starts, ends, lines, chainages, azimuths = [], [], [], [], []
+        for index, coords in enumerate(coords_list):
+            coords = np.asarray(coords, dtype=float)[:, :2]
+            vertex_ch = vertex_chainage(coords)
+            lengths = np.diff(vertex_ch)
+            counts = np.maximum(1, np.ceil(lengths / piece_length)).astype(int)
+            segment = np.repeat(np.arange(len(lengths)), counts)
+            step = np.concatenate([np.arange(n) / n for n in counts])
+            fraction = np.column_stack((step, step + 1.0 / counts[segment]))
+            delta = coords[segment + 1] - coords[segment]
+            starts.append(coords[segment] + delta * fraction[:, :1])
+            ends.append(coords[segment] + delta * fraction[:, 1:])
+            chainages.append(vertex_ch[segment] + lengths[segment] * fraction[:, 0])
+            azimuths.append(np.degrees(np.arctan2(delta[:, 0], delta[:, 1])) % 360.0)
+            lines.append(np.full(len(segment), index))
+        self.count = len(coords_list)
+        self.start = np.concatenate(starts) if starts else np.empty((0, 2))
+        self.end = np.concatenate(ends) if ends else np.empty((0, 2))
+        self.line = np.concatenate(lines) if lines else np.empty(0, dtype=int)
+        self.chainage = np.concatenate(chainages) if chainages else np.empty(0)
+        self.azimuth = np.concatenate(azimuths) if azimuths else np.empty(0)
+        # Per-piece columns for the pair arithmetic (contiguous 1-D arrays).
+        self.sx, self.sy = self.start.T.copy()
+        self.ex, self.ey = (self.end - self.start).T.copy()
+        self.length = np.hypot(self.ex, self.ey)
+        length2 = self.length ** 2
+        self.inverse_length2 = np.divide(1.0, length2, out=np.zeros_like(length2),
+                                         where=length2 > 0)
+        self.tree = shapely.STRtree(shapely.linestrings(
+            np.stack((self.start, self.end), axis=1)) if len(self.start) else [])
+
+    def __len__(self):
+        return self.count
+
+    def candidates(self, low, high):
+        """(query index, piece index) pairs whose envelopes meet the boxes,
+        sorted by query index."""
+        return self.tree.query(shapely.box(low[:, 0], low[:, 1], high[:, 0], high[:, 1]))
+
+
+def _nearest_on_pieces(network, xy, point, piece):
+    """(t, distance) of the foot of the perpendicular from each point to each
+    of its pieces; the foot is at start + t · edge."""
+    px = xy[point, 0] - network.sx[piece]
+    py = xy[point, 1] - network.sy[piece]
+    ex, ey = network.ex[piece], network.ey[piece]
+    t = np.clip((px * ex + py * ey) * network.inverse_length2[piece], 0.0, 1.0)
+    return t, np.hypot(px - t * ex, py - t * ey)
+
+
+def _foot(network, piece, t):
+    return np.column_stack((network.sx[piece] + t * network.ex[piece],
+                            network.sy[piece] + t * network.ey[piece]))
+
+
+def _best_per_point(point, score):
+    """Index of each point's lowest-score pair; ``point`` is sorted, as the
+    index returns it (a tie goes to the earlier pair: the earlier line)."""
+    new_group = np.r_[True, point[1:] != point[:-1]]
+    lowest = np.minimum.reduceat(score, np.flatnonzero(new_group))
+    is_lowest = np.flatnonzero(score == lowest[np.cumsum(new_group) - 1])
+    return is_lowest[np.r_[True, point[is_lowest][1:] != point[is_lowest][:-1]]]
+
+
+def nearest_points(network, xy, max_distance):
+    """Each point to the nearest point of the nearest line within reach.
+
+    >>> net = SectionNetwork([np.array([[0.0, 0.0], [100.0, 0.0]])], 40.0)
+    >>> landing = nearest_points(net, np.array([[30.0, 8.0], [30.0, 80.0]]), 10.0)
+    >>> landing.line.tolist(), landing.xy[0].tolist(), landing.chainage[0], landing.travel[0]
+    ([0, -1], [30.0, 0.0], 30.0, 8.0)
+    """
+    xy = np.asarray(xy, dtype=float)
+    result = Landing.nowhere(len(xy))
+    for start in range(0, len(xy), CHUNK):
+        chunk = xy[start:start + CHUNK]
+        # Envelope candidates, then exact distances in numpy: ~10x faster
+        # than asking GEOS for the distance of every candidate.
+        point, piece = network.candidates(chunk - max_distance, chunk + max_distance)
+        t, distance = _nearest_on_pieces(network, chunk, point, piece)
+        near = distance <= max_distance
+        if not near.any():  # nothing within reach in this chunk
+            continue
+        point, piece, t, distance = point[near], piece[near], t[near], distance[near]
+        best = _best_per_point(point, distance)
+        _store(result, network, start + point[best], piece[best], t[best],
+               _foot(network, piece[best], t[best]), distance[best])
+    return result
+
+
+def _store(result, network, target, piece, t, xy, travel):
+    result.line[target] = network.line[piece]
+    result.piece[target] = piece
+    result.chainage[target] = network.chainage[piece] + t * network.length[piece]
+    result.xy[target] = xy
+    result.travel[target] = travel
+
+
+def along_directions(network, xy, azimuth, max_distance):
+    """Each point moved horizontally along its own ``azimuth`` (degrees),
+    forward or back, to the nearest crossing with a line within reach;
+    ``travel`` is positive toward the azimuth.
+
+    >>> net = SectionNetwork([np.array([[0.0, 0.0], [100.0, 0.0]])], 40.0)
+    >>> landing = along_directions(net, np.array([[30.0, 10.0]]), np.array([45.0]), 20.0)
+    >>> landing.line.tolist(), landing.xy.round(6).tolist(), round(landing.travel[0], 6)
+    ([0], [[20.0, 0.0]], -14.142136)
+    """
+    xy = np.asarray(xy, dtype=float)
+    direction = np.column_stack((np.sin(np.radians(azimuth)), np.cos(np.radians(azimuth))))
+    result = Landing.nowhere(len(xy))
+    for start in range(0, len(xy), CHUNK):
+        chunk = slice(start, start + CHUNK)
+        _land_along(network, xy[chunk], direction[chunk], max_distance, result, start)
+    return result
+
+
+def _land_along(network, xy, direction, max_distance, result, start):
+    usable = np.flatnonzero(np.all(np.isfinite(direction), axis=1)
+                            & np.all(np.isfinite(xy), axis=1))
+    reach = direction[usable] * max_distance
+    ends = (xy[usable] - reach, xy[usable] + reach)
+    point, piece = network.candidates(np.minimum(*ends), np.maximum(*ends))
+    point = usable[point]
+    # p + λ·d = a + s·e, solved for (λ, s) by cross products.
+    dx, dy = direction[point, 0], direction[point, 1]
+    ex, ey = network.ex[piece], network.ey[piece]
+    ox = network.sx[piece] - xy[point, 0]
+    oy = network.sy[piece] - xy[point, 1]
+    denominator = dx * ey - dy * ex
+    with np.errstate(divide="ignore", invalid="ignore"):
+        travel = (ox * ey - oy * ex) / denominator
+        s = (ox * dy - oy * dx) / denominator
+    hits = (np.abs(denominator) > 1e-12) & (s >= 0) & (s <= 1) & (np.abs(travel) <= max_distance)
+    point, piece, travel, s = point[hits], piece[hits], travel[hits], s[hits]
+    if len(point) == 0:
+        return
+    best = _best_per_point(point, np.abs(travel))
+    landing_xy = network.start[piece[best]] + (network.end[piece[best]]
+                                               - network.start[piece[best]]) * s[best, None]
+    _store(result, network, start + point[best], piece[best], s[best], landing_xy, travel[best])
+
+
+def line_azimuths(network, landing):
+    """Azimuth of the line (toward its end) where each point landed; NaN for
+    points that landed nowhere."""
+    return np.where(landing.line >= 0, network.azimuth[np.maximum(landing.piece, 0)], np.nan)
+
+
+def signed_offsets(network, landing, xy):
+    """Signed horizontal distance from each landed point to the nearest point
+    of its own line (+ right of the line looking from start to end)."""
+    xy = np.asarray(xy, dtype=float)
+    offsets = np.full(len(xy), np.nan)
+    landed = np.flatnonzero(landing.line >= 0)
+    if len(landed) == 0:
+        return offsets
+    line = landing.line[landed]
+    # The nearest point of a given line: its pieces' envelopes near the point.
+    reach = np.abs(landing.travel[landed])[:, None] + 1e-9
+    point, piece = network.candidates(xy[landed] - reach, xy[landed] + reach)
+    same = network.line[piece] == line[point]
+    point, piece = point[same], piece[same]
+    t, distance = _nearest_on_pieces(network, xy[landed], point, piece)
+    best = _best_per_point(point, distance)
+    azimuth = np.radians(network.azimuth[piece[best]])
+    away = xy[landed][point[best]] - _foot(network, piece[best], t[best])
+    cross = np.sin(azimuth) * away[:, 1] - np.cos(azimuth) * away[:, 0]
+    offsets[landed[point[best]]] = np.where(cross > 0, -distance[best], distance[best])
+    return offsets
+
+
+def plunge_elevation(z, travel, plunge):
+    """Elevation after moving ``travel`` horizontally along a plunge trend
+    (negative: up-plunge): z − travel · tan(plunge). Groshong, 3-D
+    Structural Geology, 2006, ch. 6 (projection along plunge).
+
+    >>> round(float(plunge_elevation(500.0, 100.0, 30.0)), 2)
+    442.26
+    """
+    return np.asarray(z, dtype=float) - np.asarray(travel, dtype=float) * np.tan(np.radians(plunge))
