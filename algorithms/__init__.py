@@ -2,5 +2,7 @@
 
 
 def all_algorithms():
+    from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
-    return [ProfileAlgorithm()]
+    from .projectattitudes import ProjectAttitudesAlgorithm
+    return [ProfileAlgorithm(), ProjectAttitudesAlgorithm(), NormalizeAttitudesAlgorithm()]

@@ -13,7 +13,8 @@ class RunLedger:
         self.skipped = Counter()
 
     def skip(self, reason):
-        self.skipped[reason] += 1
+        # "unparsed text: '…'" and the like are tallied under their kind.
+        self.skipped[reason.split(":")[0]] += 1
 
     def close(self):
         skipped = sum(self.skipped.values())

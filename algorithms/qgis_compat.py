@@ -20,6 +20,9 @@ NO_GEOMETRY = _scoped("WkbType", "NoGeometry", QgsWkbTypes.NoGeometry)
 
 SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", QgsProcessing.TypeVectorLine)
 SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.TypeVectorPoint)
+SOURCE_POLYGONS = _scoped("ProcessingSourceType", "VectorPolygon",
+                          QgsProcessing.TypeVectorPolygon)
+SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", QgsProcessing.TypeVector)
 
 NUMBER_DOUBLE = _scoped("ProcessingNumberParameterType", "Double",
                         QgsProcessingParameterNumber.Double)

@@ -58,3 +58,25 @@ def by_section(layer):
 def is_null(value):
     """NULL however this QGIS release hands it over (NULL QVariant, None)."""
     return value is None or value == NULL
+
+
+def point_layer(rows, fields, epsg="EPSG:32633", geometry_type="Point"):
+    """A memory point layer: rows are (wkt or None, [attribute values]);
+    fields are (name, type) with type 'string', 'double' or 'integer'."""
+    spec = "&".join(f"field={name}:{kind}" for name, kind in fields)
+    layer = QgsVectorLayer(f"{geometry_type}?crs={epsg}&{spec}", "points", "memory")
+    features = []
+    for wkt, values in rows:
+        feature = QgsFeature(layer.fields())
+        if wkt is not None:
+            feature.setGeometry(QgsGeometry.fromWkt(wkt))
+        feature.setAttributes(list(values))
+        features.append(feature)
+    layer.dataProvider().addFeatures(features)
+    return layer
+
+
+def attributes(layer):
+    """[{field: value}] of a layer's features."""
+    names = layer.fields().names()
+    return [dict(zip(names, f.attributes())) for f in layer.getFeatures()]

@@ -40,6 +40,8 @@ def apparent_dip(dip, dip_direction, line_azimuth):
     dip = np.radians(np.asarray(dip, dtype=float))
     towards = np.cos(np.radians(np.asarray(line_azimuth, dtype=float)
                                 - np.asarray(dip_direction, dtype=float)))
+    # cos(90°) is 6e-17 in floating point: a line along strike is exactly so.
+    towards = np.where(np.abs(towards) < 1e-12, 0.0, towards)
     alpha = np.degrees(np.arctan2(np.sin(dip) * np.abs(towards), np.cos(dip)))
     alpha = np.where(np.isclose(np.degrees(dip), 90.0, rtol=0, atol=1e-12), 90.0, alpha)
     sense = np.where((alpha > 0) & (alpha < 90), np.sign(towards), 0).astype(int)

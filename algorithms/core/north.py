@@ -39,7 +39,7 @@ def to_grid(azimuth, reference, convergence, declination=0.0):
     array([11.5])
     """
     azimuth = np.asarray(azimuth, dtype=float)
-    if reference == GRID:
-        return azimuth % 360.0
     true = azimuth + (np.asarray(declination, dtype=float) if reference == MAGNETIC else 0.0)
-    return (true - np.asarray(convergence, dtype=float)) % 360.0
+    grid = true if reference == GRID else true - np.asarray(convergence, dtype=float)
+    with np.errstate(invalid="ignore"):   # NaN stays NaN: an unknown azimuth
+        return grid % 360.0

@@ -31,11 +31,12 @@ class Landing:
     chainage: np.ndarray
     xy: np.ndarray
     travel: np.ndarray    # signed along the direction (perpendicular: ≥ 0)
+    past_end: np.ndarray  # within reach of a line, but only beyond one of its ends
 
     @classmethod
     def nowhere(cls, n):
         return cls(np.full(n, -1, dtype=int), np.full(n, -1, dtype=int), np.full(n, np.nan),
-                   np.full((n, 2), np.nan), np.full(n, np.nan))
+                   np.full((n, 2), np.nan), np.full(n, np.nan), np.zeros(n, dtype=bool))
 
 
 class SectionNetwork:
@@ -43,7 +44,7 @@ class SectionNetwork:
     of at most ``piece_length``."""
 
     def __init__(self, coords_list, piece_length):
-        starts, ends, lines, chainages, azimuths = [], [], [], [], []
+        starts, ends, lines, chainages, azimuths, firsts, lasts = [], [], [], [], [], [], []
         for index, coords in enumerate(coords_list):
             coords = np.asarray(coords, dtype=float)[:, :2]
             vertex_ch = vertex_chainage(coords)
@@ -58,12 +59,18 @@ class SectionNetwork:
             chainages.append(vertex_ch[segment] + lengths[segment] * fraction[:, 0])
             azimuths.append(np.degrees(np.arctan2(delta[:, 0], delta[:, 1])) % 360.0)
             lines.append(np.full(len(segment), index))
+            first = np.zeros(len(segment), dtype=bool)
+            first[0] = True
+            firsts.append(first)
+            lasts.append(first[::-1].copy())
         self.count = len(coords_list)
         self.start = np.concatenate(starts) if starts else np.empty((0, 2))
         self.end = np.concatenate(ends) if ends else np.empty((0, 2))
         self.line = np.concatenate(lines) if lines else np.empty(0, dtype=int)
         self.chainage = np.concatenate(chainages) if chainages else np.empty(0)
         self.azimuth = np.concatenate(azimuths) if azimuths else np.empty(0)
+        self.is_first = np.concatenate(firsts) if firsts else np.empty(0, dtype=bool)
+        self.is_last = np.concatenate(lasts) if lasts else np.empty(0, dtype=bool)
         # Per-piece columns for the pair arithmetic (contiguous 1-D arrays).
         self.sx, self.sy = self.start.T.copy()
         self.ex, self.ey = (self.end - self.start).T.copy()
@@ -84,13 +91,17 @@ class SectionNetwork:
 
 
 def _nearest_on_pieces(network, xy, point, piece):
-    """(t, distance) of the foot of the perpendicular from each point to each
-    of its pieces; the foot is at start + t · edge."""
+    """(t, distance, past_end) of the nearest point of each of a point's
+    pieces (at start + t · edge), and whether the point lies beyond the
+    line's first or last vertex (its perpendicular misses the line)."""
     px = xy[point, 0] - network.sx[piece]
     py = xy[point, 1] - network.sy[piece]
     ex, ey = network.ex[piece], network.ey[piece]
-    t = np.clip((px * ex + py * ey) * network.inverse_length2[piece], 0.0, 1.0)
-    return t, np.hypot(px - t * ex, py - t * ey)
+    along = (px * ex + py * ey) * network.inverse_length2[piece]
+    t = np.clip(along, 0.0, 1.0)
+    distance = np.hypot(px - t * ex, py - t * ey)
+    past_end = (((along < 0) & network.is_first[piece]) | ((along > 1) & network.is_last[piece]))
+    return t, distance, past_end & (distance > 0)
 
 
 def _foot(network, piece, t):
@@ -108,22 +119,29 @@ def _best_per_point(point, score):
 
 
 def nearest_points(network, xy, max_distance):
-    """Each point to the nearest point of the nearest line within reach.
+    """Each point to the nearest point of the nearest line within reach. A
+    point beyond the first or last vertex of a line does not reach that line
+    (its perpendicular misses it); ``past_end`` tells such points that reach
+    no other line.
 
     >>> net = SectionNetwork([np.array([[0.0, 0.0], [100.0, 0.0]])], 40.0)
-    >>> landing = nearest_points(net, np.array([[30.0, 8.0], [30.0, 80.0]]), 10.0)
+    >>> landing = nearest_points(net, np.array([[30.0, 8.0], [30.0, 80.0], [-5.0, 1.0]]), 10.0)
     >>> landing.line.tolist(), landing.xy[0].tolist(), landing.chainage[0], landing.travel[0]
-    ([0, -1], [30.0, 0.0], 30.0, 8.0)
+    ([0, -1, -1], [30.0, 0.0], 30.0, 8.0)
+    >>> landing.past_end.tolist()
+    [False, False, True]
     """
     xy = np.asarray(xy, dtype=float)
     result = Landing.nowhere(len(xy))
     for start in range(0, len(xy), CHUNK):
-        chunk = xy[start:start + CHUNK]
+        chunk = np.where(np.isfinite(xy[start:start + CHUNK]), xy[start:start + CHUNK], np.inf)
         # Envelope candidates, then exact distances in numpy: ~10x faster
         # than asking GEOS for the distance of every candidate.
         point, piece = network.candidates(chunk - max_distance, chunk + max_distance)
-        t, distance = _nearest_on_pieces(network, chunk, point, piece)
+        t, distance, past_end = _nearest_on_pieces(network, chunk, point, piece)
         near = distance <= max_distance
+        result.past_end[start + np.unique(point[near & past_end])] = True
+        near &= ~past_end
         if not near.any():  # nothing within reach in this chunk
             continue
         point, piece, t, distance = point[near], piece[near], t[near], distance[near]
@@ -134,6 +152,7 @@ def nearest_points(network, xy, max_distance):
 
 
 def _store(result, network, target, piece, t, xy, travel):
+    result.past_end[target] = False
     result.line[target] = network.line[piece]
     result.piece[target] = piece
     result.chainage[target] = network.chainage[piece] + t * network.length[piece]
@@ -206,7 +225,7 @@ def signed_offsets(network, landing, xy):
     point, piece = network.candidates(xy[landed] - reach, xy[landed] + reach)
     same = network.line[piece] == line[point]
     point, piece = point[same], piece[same]
-    t, distance = _nearest_on_pieces(network, xy[landed], point, piece)
+    t, distance, _ = _nearest_on_pieces(network, xy[landed], point, piece)
     best = _best_per_point(point, distance)
     azimuth = np.radians(network.azimuth[piece[best]])
     away = xy[landed][point[best]] - _foot(network, piece[best], t[best])

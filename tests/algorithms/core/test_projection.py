@@ -27,21 +27,43 @@ def world():
     return lines, SectionNetwork(lines, 2 * REACH), rng.uniform(-500, 3500, (3000, 2))
 
 
+def reachable_distance(line, points, xy):
+    """Distance from each point to a line, by shapely segment by segment,
+    leaving out the first segment for points behind the first vertex and the
+    last for points past the last vertex (their perpendicular misses)."""
+    best = np.full(len(xy), np.inf)
+    count = len(line) - 1
+    for k in range(count):
+        a, b = line[k], line[k + 1]
+        distance = shapely.distance(shapely.LineString([a, b]), points)
+        along = np.einsum("ij,j->i", xy - a, b - a) / np.dot(b - a, b - a)
+        if k == 0:
+            distance = np.where((along < 0) & (distance > 0), np.inf, distance)
+        if k == count - 1:
+            distance = np.where((along > 1) & (distance > 0), np.inf, distance)
+        best = np.minimum(best, distance)
+    return best
+
+
 def test_nearest_line_and_chainage_match_shapely(world):
     # Source: shapely 2 / GEOS distance and line_locate_point, brute force
-    # over every line: an independent implementation.
+    # over every segment of every line: an independent implementation. A
+    # point behind a line's first vertex or past its last does not reach the
+    # end segment (its perpendicular misses the line).
     lines, network, xy = world
     landing = nearest_points(network, xy, REACH)
-    geometries = [shapely.LineString(c) for c in lines]
     points = shapely.points(xy)
-    distances = np.array([shapely.distance(g, points) for g in geometries])
+    distances = np.array([reachable_distance(c, points, xy) for c in lines])
     nearest = distances.argmin(axis=0)
     within = distances.min(axis=0) <= REACH
     assert np.array_equal(landing.line >= 0, within)
     hit = np.flatnonzero(within)
     assert np.array_equal(landing.line[hit], nearest[hit])
     np.testing.assert_allclose(landing.travel[hit], distances.min(axis=0)[hit], atol=1e-8)
-    expected_chainage = [shapely.line_locate_point(geometries[nearest[i]], points[i]) for i in hit]
+    geometries = [shapely.LineString(c) for c in lines]
+    foot = shapely.points(landing.xy[hit])
+    expected_chainage = [shapely.line_locate_point(geometries[nearest[i]], f)
+                         for i, f in zip(hit, foot)]
     np.testing.assert_allclose(landing.chainage[hit], expected_chainage, atol=1e-7)
 
 

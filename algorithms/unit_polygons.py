@@ -1,0 +1,57 @@
+"""Reading the map's unit polygons into the working CRS."""
+import numpy as np
+import shapely
+from qgis.core import (NULL, QgsCoordinateTransform, QgsCsException, QgsFeatureRequest,
+                       QgsProcessingException, QgsProcessingFeatureSource)
+
+from .core.units import polygon_index_at
+
+
+class UnitMap:
+    """Unit polygons (working CRS) and their labels, for point look-ups."""
+
+    def __init__(self, polygons, labels):
+        self.polygons = polygons
+        self.labels = np.asarray(labels, dtype=object)
+
+    def unit_at(self, xy):
+        """Unit label at each position; None outside every unit."""
+        index = polygon_index_at(self.polygons, xy)
+        labels = np.full(len(index), None, dtype=object)
+        labels[index >= 0] = self.labels[index[index >= 0]]
+        return labels
+
+
+def read_unit_map(source, unit_field, work_crs, context, feedback):
+    """Unit polygons of ``source`` in the working CRS. Invalid polygons are
+    repaired (shapely's make_valid) and counted in the log; polygons with no
+    geometry are left out and counted."""
+    if not unit_field:
+        raise QgsProcessingException("UNIT_FIELD: choose the field that names the unit.")
+    if source.fields().lookupField(unit_field) < 0:
+        raise QgsProcessingException(f"UNIT_FIELD: the units layer has no field {unit_field!r}.")
+    to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
+    wkbs, labels, unusable = [], [], 0
+    request = QgsFeatureRequest().setSubsetOfAttributes([unit_field], source.fields())
+    for feature in source.getFeatures(request,
+                                      QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks):
+        geometry = feature.geometry()
+        if geometry is None or geometry.isNull() or geometry.isEmpty():
+            unusable += 1
+            continue
+        try:
+            geometry.transform(to_working)
+        except QgsCsException:
+            unusable += 1
+            continue
+        value = feature[unit_field]
+        wkbs.append(bytes(geometry.asWkb()))
+        labels.append(None if value is None or value == NULL else str(value))
+    polygons = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
+    invalid = ~shapely.is_valid(polygons)
+    if invalid.any():
+        polygons[invalid] = shapely.make_valid(polygons[invalid])
+        feedback.pushInfo(f"{int(invalid.sum())} invalid unit polygon(s) repaired before use.")
+    if unusable:
+        feedback.pushInfo(f"{unusable} unit feature(s) without usable geometry left out.")
+    return UnitMap(polygons, labels)
