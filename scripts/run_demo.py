@@ -2,8 +2,9 @@
 
     python scripts/run_demo.py [OUT_DIR]     (default: demo/)
 
-Makes the demo world, runs every Sectionwright algorithm on every demo
-section line through qgis_process, writes ``sections.gpkg`` and prints a
+Makes the demo world, runs the Sectionwright algorithms on every demo
+section line through qgis_process — the topographic profile, then the
+attitudes carried onto the sections — writes ``sections.gpkg`` and prints a
 short summary per section.
 """
 import sys
@@ -27,16 +28,40 @@ def run_profile(world, out):
         "SKIPPED": headless.gpkg_layer(out, "profile_skipped")}, world / "qgis")
 
 
+def run_attitudes(world, out):
+    return headless.run("sectionwright:projectattitudes", {
+        "INPUT": f"{world}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
+        "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
+        "CONVENTION": 3, "TEXT_FIELD": "attitude", "MAX_DISTANCE": 500,
+        "DEM": f"{world}/dem.tif", "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
+        "UNIT_FIELD": "unit", "VERTICAL_EXAGGERATION": 2,
+        "OUTPUT": headless.gpkg_layer(out, "attitudes"),
+        "OUTPUT_TICKS": headless.gpkg_layer(out, "attitude_ticks"),
+        "OUTPUT_CONNECTORS": headless.gpkg_layer(out, "attitude_connectors"),
+        "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped")}, world / "qgis")
+
+
+def count_by_section(layer, condition=lambda feature: True):
+    counts = {}
+    for feature in layer:
+        if condition(feature):
+            counts[feature.GetField("section")] = counts.get(feature.GetField("section"), 0) + 1
+    return counts
+
+
 def print_summary(out):
     data = ogr.Open(str(out))
-    samples = {}
-    for feature in data.GetLayerByName("profile_points"):
-        samples[feature.GetField("section")] = samples.get(feature.GetField("section"), 0) + 1
-    print(f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}")
+    samples = count_by_section(data.GetLayerByName("profile_points"))
+    attitudes = data.GetLayerByName("attitudes")
+    carried = count_by_section(attitudes)
+    flagged = count_by_section(attitudes, lambda f: bool(f.GetField("flags")))
+    print(f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
+          f"{'attitudes':>11}{'flagged':>9}")
     for feature in data.GetLayerByName("profile_section"):
         label = feature.GetField("section")
         print(f"{label:<8}{feature.GetField('length'):>10.1f}{samples[label]:>9d}"
-              f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}")
+              f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}"
+              f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}")
 
 
 def main(out_dir):
@@ -44,9 +69,11 @@ def main(out_dir):
     out = world / "sections.gpkg"
     if out.exists():
         out.unlink()
-    report = run_profile(world, out)
-    print("\n".join(line for line in report["log"]["info"]
-                    if line.startswith(("Summary:", "Skipped:"))))
+    for title, step in (("Topographic profile", run_profile),
+                        ("Attitudes carried onto the sections", run_attitudes)):
+        report = step(world, out)
+        print(f"{title}: " + "; ".join(line for line in report["log"]["info"]
+                                        if line.startswith(("Summary:", "Skipped:"))))
     print_summary(out)
     print(f"\nResults in {out} (section view layers at vertical exaggeration 2).")
     print("Sections are interpretations: have them checked by a qualified geologist.")

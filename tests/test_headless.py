@@ -24,3 +24,20 @@ def test_profile_runs_headless_and_writes_a_geopackage(demo_dir, tmp_path):
     assert points.GetFeatureCount() > 4 * 7000 / 50
     for feature in points:
         assert feature.GetGeometryRef().GetZ() == feature.GetField("elev")
+
+
+def test_attitudes_run_headless(demo_dir, tmp_path):
+    out = tmp_path / "attitudes.gpkg"
+    report = headless.run("sectionwright:projectattitudes", {
+        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
+        "ATTITUDES": f"{demo_dir}/tarrowgill.gpkg|layername=attitudes", "CONVENTION": 3,
+        "TEXT_FIELD": "attitude", "MAX_DISTANCE": 500, "DEM": f"{demo_dir}/dem.tif",
+        "OUTPUT": headless.gpkg_layer(out, "carried"),
+        "OUTPUT_TICKS": headless.gpkg_layer(out, "ticks"),
+        "SKIPPED": headless.gpkg_layer(out, "skipped")}, tmp_path / "qgis")
+    summary = next(line for line in report["log"]["info"] if line.startswith("Summary:"))
+    data = ogr.Open(str(out))
+    carried = data.GetLayerByName("carried").GetFeatureCount()
+    skipped = data.GetLayerByName("skipped").GetFeatureCount()
+    assert summary == f"Summary: read=80 written={carried} skipped={skipped}"
+    assert carried > 20

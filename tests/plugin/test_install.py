@@ -38,7 +38,8 @@ def test_zip_installs_and_registers_the_provider(profile):
     report = load(profile)
     assert report["available"] and report["started"]
     assert report["provider"] == "Sectionwright"
-    assert "sectionwright:profile" in report["algorithms"]
+    assert report["algorithms"] == ["sectionwright:normalizeattitudes",
+                                    "sectionwright:profile", "sectionwright:projectattitudes"]
     assert report["unloaded"]
 
 

@@ -1,0 +1,118 @@
+"""Benchmark of carrying attitudes onto many section lines.
+
+    .venv/bin/python benchmarks/bench_attitudes.py
+
+Extreme density: 100,000 attitudes onto 1,000 section lines of 15 km (2–4
+vertices) in a 20 km square, MAX_DISTANCE 500 m (~40 candidate lines per
+point); and 10,000 and 100,000 attitudes onto 50 lines, so that growth
+in points (at one density) and in line density show apart. Measured
+side by side in one run: Sectionwright's core (perpendicular and along
+strike), the same through processing.run with temporary outputs, and the
+straightforward shapely approach (tree query within reach + distance +
+line_locate_point on every pair) as a reference.
+"""
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+import shapely
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
+import bench_data  # noqa: E402
+import bench_profile  # noqa: E402
+
+REACH = 500.0
+
+
+def scenario(points, lines, seed=7):
+    rng = np.random.default_rng(seed)
+    coords = [bench_data.line_vertices(rng) for _ in range(lines)]
+    xy = np.array(bench_data.ORIGIN) + rng.uniform(0, bench_data.SIDE, (points, 2))
+    dip_direction = rng.uniform(0, 360, points)
+    dip = rng.uniform(5, 80, points)
+    return coords, xy, dip_direction, dip
+
+
+def best_of(repeat, function):
+    times = []
+    for _ in range(repeat):
+        started = time.perf_counter()
+        result = function()
+        times.append(time.perf_counter() - started)
+    return min(times), result
+
+
+def core(coords, xy, dip_direction, dip, method):
+    from sectionwright.algorithms.core.carry import CarryOptions, carry_attitudes
+    from sectionwright.algorithms.core.projection import SectionNetwork
+    network = SectionNetwork(coords, 2 * REACH)
+    record = carry_attitudes(network, xy, np.full(len(xy), 500.0), dip_direction, dip,
+                             CarryOptions(method=method, max_distance=REACH))
+    return int((record["line"] >= 0).sum())
+
+
+def shapely_reference(coords, xy):
+    lines = np.array([shapely.LineString(c) for c in coords], dtype=object)
+    points = shapely.points(xy)
+    point, line = shapely.STRtree(lines).query(points, predicate="dwithin", distance=REACH)
+    distance = shapely.distance(points[point], lines[line])
+    order = np.lexsort((distance, point))
+    first = order[np.r_[True, point[order][1:] != point[order][:-1]]]
+    shapely.line_locate_point(lines[line[first]], points[point[first]])
+    return len(first)
+
+
+def through_processing(coords, xy, dip_direction, dip):
+    import processing
+    from qgis.core import QgsFeature, QgsGeometry, QgsPointXY, QgsVectorLayer
+    lines = QgsVectorLayer("LineString?crs=EPSG:32633&field=name:string", "l", "memory")
+    features = []
+    for i, c in enumerate(coords):
+        f = QgsFeature()
+        f.setGeometry(QgsGeometry.fromPolylineXY([QgsPointXY(x, y) for x, y in c]))
+        f.setAttributes([f"S{i}"])
+        features.append(f)
+    lines.dataProvider().addFeatures(features)
+    points = QgsVectorLayer("Point?crs=EPSG:32633&field=az:double&field=dip:double", "p", "memory")
+    features = []
+    for (x, y), a, d in zip(xy.tolist(), dip_direction.tolist(), dip.tolist()):
+        f = QgsFeature()
+        f.setGeometry(QgsGeometry.fromPointXY(QgsPointXY(x, y)))
+        f.setAttributes([a, d])
+        features.append(f)
+    points.dataProvider().addFeatures(features)
+
+    def run():
+        result = processing.run("sectionwright:projectattitudes", {
+            "INPUT": lines, "LINE_ID_FIELD": "name", "ATTITUDES": points, "CONVENTION": 0,
+            "AZIMUTH_FIELD": "az", "DIP_FIELD": "dip", "MAX_DISTANCE": REACH,
+            "OUTPUT": "memory:", "OUTPUT_TICKS": "memory:"})
+        return result["OUTPUT"].featureCount()
+    return run
+
+
+def main():
+    app, _ = bench_profile.start_qgis()
+    print(f"{'points':>8}{'lines':>7}  {'method':<34}{'seconds':>9}{'carried':>9}{'µs/point':>10}")
+    for points, lines in ((10_000, 50), (100_000, 50), (100_000, 1_000)):
+        coords, xy, dip_direction, dip = scenario(points, lines)
+        # Each row builds what it needs when its turn comes: the QGIS layers
+        # of the last row would otherwise slow the others (garbage collector).
+        rows = [
+            ("core, perpendicular", lambda: lambda: core(coords, xy, dip_direction, dip, 0)),
+            ("core, along strike", lambda: lambda: core(coords, xy, dip_direction, dip, 1)),
+            ("shapely reference (perpendicular)", lambda: lambda: shapely_reference(coords, xy)),
+            ("processing.run, perpendicular",
+             lambda: through_processing(coords, xy, dip_direction, dip)),
+        ]
+        for name, prepare in rows:
+            seconds, carried = best_of(1 if "processing" in name else 3, prepare())
+            print(f"{points:>8}{lines:>7}  {name:<34}{seconds:>9.3f}{carried:>9}"
+                  f"{1e6 * seconds / points:>10.2f}")
+    app.exitQgis()
+
+
+if __name__ == "__main__":
+    main()
