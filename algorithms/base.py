@@ -1,13 +1,13 @@
 """What every Sectionwright algorithm shares: naming, help, the section-line
 parameters and the SKIPPED output."""
-from qgis.core import (QgsFeature, QgsFeatureSink, QgsFields, QgsField,
-                       QgsProcessingAlgorithm, QgsProcessingParameterFeatureSink,
+from qgis.core import (QgsFeature, QgsFeatureSink, QgsProcessingAlgorithm, QgsProcessingParameterFeatureSink,
                        QgsProcessingParameterFeatureSource, QgsProcessingParameterField)
 from qgis.PyQt.QtCore import QCoreApplication
 
 from . import fields as F
+from .carried_fields import computed_fields
 from .help import help_text
-from .qgis_compat import LONG, SOURCE_LINES, STRING
+from .qgis_compat import SOURCE_LINES
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"
@@ -57,18 +57,14 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
 
 
 def skipped_fields():
-    fields = QgsFields()
-    fields.append(QgsField(F.SECTION, STRING))
-    fields.append(QgsField(F.SOURCE_FID, LONG))
-    fields.append(QgsField(F.REASON, STRING))
-    return fields
+    return computed_fields((F.SECTION, F.SOURCE_FID, F.REASON))
 
 
 def add_skipped_section(sink, section):
     """One SKIPPED row for a section line part (sink may be None: not asked)."""
     if sink is None:
         return
-    feature = QgsFeature(skipped_fields())
+    feature = QgsFeature()
     if section.geometry is not None:
         feature.setGeometry(section.geometry)
     feature.setAttributes([section.label, section.fid, section.reason])

@@ -14,6 +14,14 @@ def computed_field(name):
     return QgsField(name, kind)
 
 
+def computed_fields(names):
+    """QgsFields of computed values only."""
+    fields = QgsFields()
+    for name in names:
+        fields.append(computed_field(name))
+    return fields
+
+
 class CarriedFields:
     """The source fields kept (minus keys and names the computed fields
     replace) followed by the computed fields."""

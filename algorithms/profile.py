@@ -1,20 +1,20 @@
 """sectionwright:profile — the topographic profile along each section line."""
 import numpy as np
 import shapely
-from qgis.core import (QgsCoordinateReferenceSystem, QgsCoordinateTransform, QgsFeature, QgsFeatureSink, QgsField,
-                       QgsFields, QgsGeometry, QgsPoint,
+from qgis.core import (QgsCoordinateReferenceSystem, QgsCoordinateTransform, QgsFeature,
+                       QgsFeatureSink, QgsGeometry, QgsPoint,
                        QgsProcessingException, QgsProcessingParameterBand,
                        QgsProcessingParameterDistance, QgsProcessingParameterFeatureSink,
                        QgsProcessingParameterNumber, QgsProcessingParameterRasterLayer)
 
 from . import fields as F
+from .carried_fields import computed_fields
 from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, add_skipped_section, skipped_fields
 from .core.crs import transformer
 from .core.profile import profile_samples, section_runs
 from .dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .ledger import RunLedger
-from .qgis_compat import (DOUBLE, MULTI_LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES,
-                          SOURCE_POINTS, STRING)
+from .qgis_compat import MULTI_LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES, SOURCE_POINTS
 from .section_lines import crs_wkt, read_section_parts, working_crs
 from .section_space import SECTION_CRS_WKT
 
@@ -29,20 +29,8 @@ OUTPUT_SECTION = "OUTPUT_SECTION"
 BATCH = 5000
 
 
-def sample_fields():
-    fields = QgsFields()
-    fields.append(QgsField(F.SECTION, STRING))
-    for name in (F.CHAINAGE, F.ELEVATION, F.X, F.Y):
-        fields.append(QgsField(name, DOUBLE))
-    return fields
-
-
-def section_fields():
-    fields = QgsFields()
-    fields.append(QgsField(F.SECTION, STRING))
-    for name in (F.LENGTH, F.MIN_ELEVATION, F.MAX_ELEVATION, F.EXAGGERATION):
-        fields.append(QgsField(name, DOUBLE))
-    return fields
+SAMPLE_FIELDS = (F.SECTION, F.CHAINAGE, F.ELEVATION, F.X, F.Y)
+SECTION_FIELDS = (F.SECTION, F.LENGTH, F.MIN_ELEVATION, F.MAX_ELEVATION, F.EXAGGERATION)
 
 
 def _nullable(values):
@@ -96,10 +84,11 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             feedback.pushInfo(f"Sampling step: {step:.3f} (the DEM's cell size).")
 
         (points, points_id) = self.parameterAsSink(
-            parameters, OUTPUT, context, sample_fields(), POINT_Z, source.sourceCrs())
+            parameters, OUTPUT, context, computed_fields(SAMPLE_FIELDS), POINT_Z, source.sourceCrs())
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
         (sections, sections_id) = self.parameterAsSink(
-            parameters, OUTPUT_SECTION, context, section_fields(), MULTI_LINE_STRING, section_crs)
+            parameters, OUTPUT_SECTION, context, computed_fields(SECTION_FIELDS), MULTI_LINE_STRING,
+            section_crs)
         (skipped, skipped_id) = self.parameterAsSink(
             parameters, SKIPPED, context, skipped_fields(), source.wkbType(), source.sourceCrs())
         if points is None:
@@ -176,7 +165,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         runs = section_runs(chainage, elevation, exaggeration)
         geometry = QgsGeometry()
         geometry.fromWkb(shapely.to_wkb(shapely.MultiLineString(runs)))
-        feature = QgsFeature(section_fields())
+        feature = QgsFeature()
         feature.setGeometry(geometry)
         valid = elevation[~np.isnan(elevation)]
         feature.setAttributes([label, float(chainage[-1]), float(valid.min()),

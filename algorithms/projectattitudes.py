@@ -13,7 +13,7 @@ from . import fields as F
 from .attitude_input import AttitudeSettings, add_attitude_parameters, geometry_reason
 from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .carried_fields import CarriedFields
-from .core.carry import ALONG_PLUNGE, CarryOptions, carry_attitudes
+from .core.carry import CarryOptions, carry_attitudes
 from .core.crs import transformer
 from .core.lines import vertex_chainage
 from .core.projection import SectionNetwork

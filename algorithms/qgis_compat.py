@@ -16,7 +16,6 @@ def _scoped(scope, member, legacy):
 POINT_Z = _scoped("WkbType", "PointZ", QgsWkbTypes.PointZ)
 LINE_STRING = _scoped("WkbType", "LineString", QgsWkbTypes.LineString)
 MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", QgsWkbTypes.MultiLineString)
-NO_GEOMETRY = _scoped("WkbType", "NoGeometry", QgsWkbTypes.NoGeometry)
 
 SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", QgsProcessing.TypeVectorLine)
 SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.TypeVectorPoint)
@@ -34,12 +33,10 @@ UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
 if Qgis.QGIS_VERSION_INT >= 33800:
     from qgis.PyQt.QtCore import QMetaType
     DOUBLE = QMetaType.Type.Double
-    INTEGER = QMetaType.Type.Int
     LONG = QMetaType.Type.LongLong
     STRING = QMetaType.Type.QString
 else:
     DOUBLE = QVariant.Double
-    INTEGER = QVariant.Int
     LONG = QVariant.LongLong
     STRING = QVariant.String
 

@@ -1,5 +1,4 @@
 """sectionwright:normalizeattitudes through processing.run."""
-import numpy as np
 import pytest
 import processing
 from pyproj import Proj, Transformer

@@ -8,6 +8,7 @@ from qgis.core import (QgsProcessingException, QgsProcessingFeedback, QgsVectorL
 from scipy import ndimage
 from osgeo import gdal
 
+from feedback import LogFeedback
 from layers import by_section, is_null, line_layer, plane_raster, write_raster
 
 ORIGIN_X, ORIGIN_Y = 431000.0, 5127000.0
@@ -16,20 +17,6 @@ GT = (ORIGIN_X, 10.0, 0.0, ORIGIN_Y + 2000.0, 0.0, -10.0)   # 200 x 200 cells of
 
 def plane(x, y):
     return 420.0 + 0.031 * (x - ORIGIN_X) - 0.047 * (y - ORIGIN_Y)
-
-
-class LogFeedback(QgsProcessingFeedback):
-    def __init__(self):
-        super().__init__()
-        self.lines = []
-
-    def pushInfo(self, info):
-        self.lines.append(info)
-        super().pushInfo(info)
-
-    def algorithm_log(self):
-        """The lines the algorithm wrote (processing.run adds 'Results: …')."""
-        return [line for line in self.lines if not line.startswith("Results:")]
 
 
 def run_profile(lines, dem, feedback=None, **extra):

@@ -3,9 +3,10 @@ import numpy as np
 import pytest
 import processing
 from pyproj import Proj, Transformer
-from qgis.core import QgsProcessingException, QgsProcessingFeedback, QgsVectorLayer
+from qgis.core import QgsProcessingException, QgsVectorLayer
 
 import demo_world as W
+from feedback import LogFeedback
 from layers import attributes, is_null, line_layer, plane_raster, point_layer
 
 X0, Y0 = 431000.0, 5127000.0
@@ -13,16 +14,6 @@ EAST_WEST = f"LINESTRING({X0} {Y0 + 1000}, {X0 + 4000} {Y0 + 1000})"   # azimuth
 DESIGN_FIELDS = ["section", "src_fid", "chainage", "offset", "travel", "elev", "gnd_elev",
                  "dip_dir", "dip", "strike", "line_az", "line_angle", "app_dip", "dips_to",
                  "plot_dip", "app_dip_sd", "flags"]
-
-
-class Log(QgsProcessingFeedback):
-    def __init__(self):
-        super().__init__()
-        self.lines = []
-
-    def pushInfo(self, info):
-        self.lines.append(info)
-        super().pushInfo(info)
 
 
 def run(lines, points, feedback=None, **extra):
@@ -147,7 +138,7 @@ def test_along_strike_goes_both_ways_and_refuses_near_parallel_strikes(provider)
         (X0 + 2500, Y0 + 900, 90 + 45, 30),     # strike 045: north-east
         (X0 + 3000, Y0 + 1050, 90 + 88, 30),    # strike 088: 50 m off, would travel 1.4 km
     ])
-    log = Log()
+    log = LogFeedback()
     result = run(line, points, feedback=log, PROJECTION=1, MAX_DISTANCE=250)
     rows = sorted(attributes(result["OUTPUT"]), key=lambda r: r["chainage"])
     assert [r["chainage"] for r in rows] == pytest.approx([1400.0, 2600.0])
@@ -229,14 +220,14 @@ def test_bad_input_is_skipped_with_reasons_and_counts_reconcile(provider):
             (f"POINT({X0 + 1500} {Y0 + 5000})", ["120", "40"]),
             (f"POINT({X0 - 100} {Y0 + 1000})", ["120", "40"])]
     points = point_layer(rows, [("az", "string"), ("dip", "string")])
-    log = Log()
+    log = LogFeedback()
     result = run(line, points, feedback=log)
     reasons = [r["reason"] for r in sorted(attributes(result["SKIPPED"]), key=lambda r: r["src_fid"])]
     assert reasons == ["missing dip", "non-numeric azimuth: 'abc'", "dip out of range",
                        "azimuth out of range", "azimuth out of range", "null geometry",
                        "beyond max distance", "beyond the end of the line"]
     assert result["OUTPUT"].featureCount() == 1
-    algorithm_log = [l for l in log.lines if not l.startswith("Results:")]
+    algorithm_log = log.algorithm_log()
     assert algorithm_log[-3] == "Section EW: 1 attitude(s), 1 flagged."   # no_elevation
     assert algorithm_log[-2] == "Summary: read=9 written=1 skipped=8"
     assert algorithm_log[-1] == ("Skipped: azimuth out of range=2, beyond max distance=1, "
