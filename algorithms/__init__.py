@@ -2,7 +2,9 @@
 
 
 def all_algorithms():
+    from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
     from .projectattitudes import ProjectAttitudesAlgorithm
-    return [ProfileAlgorithm(), ProjectAttitudesAlgorithm(), NormalizeAttitudesAlgorithm()]
+    return [ProfileAlgorithm(), ProjectAttitudesAlgorithm(), NormalizeAttitudesAlgorithm(),
+            GeologyCrossingsAlgorithm()]

@@ -2,7 +2,7 @@
 import numpy as np
 import shapely
 from qgis.core import (QgsCoordinateReferenceSystem, QgsCoordinateTransform, QgsFeature,
-                       QgsFeatureSink, QgsGeometry, QgsPoint,
+                       QgsFeatureSink, QgsPoint,
                        QgsProcessingException, QgsProcessingParameterBand,
                        QgsProcessingParameterDistance, QgsProcessingParameterFeatureSink,
                        QgsProcessingParameterNumber, QgsProcessingParameterRasterLayer)
@@ -13,6 +13,7 @@ from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, add_ski
 from .core.crs import transformer
 from .core.profile import profile_samples, section_runs
 from .dem import DemSampler, bounded_gdal_cache, sample_ahead
+from .geometry_io import to_qgis
 from .ledger import RunLedger
 from .qgis_compat import MULTI_LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES, SOURCE_POINTS
 from .section_lines import crs_wkt, read_section_parts, working_crs
@@ -163,10 +164,8 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
     @staticmethod
     def _write_section(sink, label, chainage, elevation, exaggeration):
         runs = section_runs(chainage, elevation, exaggeration)
-        geometry = QgsGeometry()
-        geometry.fromWkb(shapely.to_wkb(shapely.MultiLineString(runs)))
         feature = QgsFeature()
-        feature.setGeometry(geometry)
+        feature.setGeometry(to_qgis(shapely.MultiLineString(runs)))
         valid = elevation[~np.isnan(elevation)]
         feature.setAttributes([label, float(chainage[-1]), float(valid.min()),
                                float(valid.max()), exaggeration])

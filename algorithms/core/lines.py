@@ -64,3 +64,17 @@ def positions_at(coords, vertex_ch, chainages):
     y = np.interp(chainages, vertex_ch, coords[:, 1])
     return np.column_stack((x, y))
 
+
+
+def azimuth_at(coords, chainage):
+    """Azimuth (toward the end) of the segment holding each chainage; at a
+    vertex, the segment that starts there.
+
+    >>> azimuth_at(np.array([[0.0, 0], [10, 0], [10, 10]]), np.array([5.0, 10.0, 15.0]))
+    array([90., 0., 0.])
+    """
+    coords = np.asarray(coords, dtype=float)[:, :2]
+    vertex_ch = vertex_chainage(coords)
+    segment = np.clip(np.searchsorted(vertex_ch, chainage, side="right") - 1, 0, len(coords) - 2)
+    delta = coords[segment + 1] - coords[segment]
+    return np.degrees(np.arctan2(delta[:, 0], delta[:, 1])) % 360.0
