@@ -94,7 +94,7 @@ def through_processing(coords, xy, dip_direction, dip):
 
 
 def main():
-    app, _ = bench_profile.start_qgis()
+    app, provider = bench_profile.start_qgis()   # keep the provider alive
     print(f"{'points':>8}{'lines':>7}  {'method':<34}{'seconds':>9}{'carried':>9}{'µs/point':>10}")
     for points, lines in ((10_000, 50), (100_000, 50), (100_000, 1_000)):
         coords, xy, dip_direction, dip = scenario(points, lines)

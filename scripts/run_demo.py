@@ -41,6 +41,17 @@ def run_attitudes(world, out):
         "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped")}, world / "qgis")
 
 
+def run_geology(world, out):
+    return headless.run("sectionwright:geologycrossings", {
+        "INPUT": f"{world}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
+        "DEM": f"{world}/dem.tif", "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
+        "UNIT_FIELD": "unit", "CONTACTS": f"{world}/tarrowgill.gpkg|layername=contacts",
+        "CONTACT_TYPE_FIELD": "type", "TRACE_WINDOW": 1000, "VERTICAL_EXAGGERATION": 2,
+        "OUTPUT": headless.gpkg_layer(out, "geology_crossings"),
+        "OUTPUT_INTERVALS": headless.gpkg_layer(out, "geology_strip"),
+        "SKIPPED": headless.gpkg_layer(out, "geology_skipped")}, world / "qgis")
+
+
 def count_by_section(layer, condition=lambda feature: True):
     counts = {}
     for feature in layer:
@@ -55,13 +66,18 @@ def print_summary(out):
     attitudes = data.GetLayerByName("attitudes")
     carried = count_by_section(attitudes)
     flagged = count_by_section(attitudes, lambda f: bool(f.GetField("flags")))
+    crossings = data.GetLayerByName("geology_crossings")
+    contacts = count_by_section(crossings, lambda f: f.GetField("kind") != "unit boundary")
+    crossings.ResetReading()
+    boundaries = count_by_section(crossings, lambda f: f.GetField("kind") == "unit boundary")
     print(f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
-          f"{'attitudes':>11}{'flagged':>9}")
+          f"{'attitudes':>11}{'flagged':>9}{'unit bdys':>11}{'contacts':>10}")
     for feature in data.GetLayerByName("profile_section"):
         label = feature.GetField("section")
         print(f"{label:<8}{feature.GetField('length'):>10.1f}{samples[label]:>9d}"
               f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}"
-              f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}")
+              f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}"
+              f"{boundaries.get(label, 0):>11d}{contacts.get(label, 0):>10d}")
 
 
 def main(out_dir):
@@ -70,7 +86,8 @@ def main(out_dir):
     if out.exists():
         out.unlink()
     for title, step in (("Topographic profile", run_profile),
-                        ("Attitudes carried onto the sections", run_attitudes)):
+                        ("Attitudes carried onto the sections", run_attitudes),
+                        ("Geology along the sections", run_geology)):
         report = step(world, out)
         print(f"{title}: " + "; ".join(line for line in report["log"]["info"]
                                         if line.startswith(("Summary:", "Skipped:"))))

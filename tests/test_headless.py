@@ -41,3 +41,19 @@ def test_attitudes_run_headless(demo_dir, tmp_path):
     skipped = data.GetLayerByName("skipped").GetFeatureCount()
     assert summary == f"Summary: read=80 written={carried} skipped={skipped}"
     assert carried > 20
+
+
+def test_geology_runs_headless(demo_dir, tmp_path):
+    out = tmp_path / "geology.gpkg"
+    report = headless.run("sectionwright:geologycrossings", {
+        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
+        "DEM": f"{demo_dir}/dem.tif", "UNITS": f"{demo_dir}/tarrowgill.gpkg|layername=units",
+        "UNIT_FIELD": "unit", "CONTACTS": f"{demo_dir}/tarrowgill.gpkg|layername=contacts",
+        "CONTACT_TYPE_FIELD": "type", "TRACE_WINDOW": 800,
+        "OUTPUT": headless.gpkg_layer(out, "crossings"),
+        "OUTPUT_INTERVALS": headless.gpkg_layer(out, "strip")}, tmp_path / "qgis")
+    assert report["log"]["info"][-1] == "Summary: read=4 written=4 skipped=0"
+    data = ogr.Open(str(out))
+    assert data.GetLayerByName("crossings").GetFeatureCount() > 40
+    assert {f.GetField("unit") for f in data.GetLayerByName("strip")} == {
+        "HWM", "BRS", "COL", "DNG", "ASH"}

@@ -38,7 +38,8 @@ def test_zip_installs_and_registers_the_provider(profile):
     report = load(profile)
     assert report["available"] and report["started"]
     assert report["provider"] == "Sectionwright"
-    assert report["algorithms"] == ["sectionwright:normalizeattitudes",
+    assert report["algorithms"] == ["sectionwright:geologycrossings",
+                                    "sectionwright:normalizeattitudes",
                                     "sectionwright:profile", "sectionwright:projectattitudes"]
     assert report["unloaded"]
 
