@@ -4,10 +4,8 @@ from typing import List
 
 import numpy as np
 import shapely
-from qgis.core import (NULL, QgsCoordinateReferenceSystem, QgsCoordinateTransform,
-                       QgsCsException, QgsFeature, QgsFeatureRequest, QgsFeatureSink,
-                       QgsPoint, QgsProcessingException,
-                       QgsProcessingFeatureSource, QgsProcessingParameterDistance,
+from qgis.core import (QgsCoordinateReferenceSystem, QgsFeature, QgsFeatureSink, QgsPoint,
+                       QgsProcessingException, QgsProcessingParameterDistance,
                        QgsProcessingParameterFeatureSink, QgsProcessingParameterFeatureSource,
                        QgsProcessingParameterField, QgsProcessingParameterNumber,
                        QgsProcessingParameterRasterLayer)
@@ -29,7 +27,7 @@ from .ledger import RunLedger
 from .qgis_compat import LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES, SOURCE_POINTS, SOURCE_POLYGONS
 from .section_lines import crs_wkt, read_section_parts, working_crs
 from .section_space import SECTION_CRS_WKT
-from .unit_polygons import read_unit_map
+from .map_layers import read_features, read_unit_map
 
 DEM = "DEM"
 Z_FACTOR = "Z_FACTOR"
@@ -192,29 +190,12 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         source = self.parameterAsSource(parameters, CONTACTS, context)
         if source is None:
             return np.empty(0, dtype=object), []
-        type_field = self.parameterAsString(parameters, CONTACT_TYPE_FIELD, context)
-        to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs,
-                                            context.transformContext())
-        wkbs, kinds, unusable = [], [], 0
-        for feature in source.getFeatures(QgsFeatureRequest(),
-                                          QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks):
-            geometry = feature.geometry()
-            if geometry is None or geometry.isNull() or geometry.isEmpty():
-                unusable += 1
-                continue
-            try:
-                geometry.transform(to_working)
-            except QgsCsException:
-                unusable += 1
-                continue
-            kind = feature[type_field] if type_field else None
-            wkbs.append(bytes(geometry.asWkb()))
-            kinds.append(DEFAULT_CONTACT_KIND if kind is None or kind == NULL or not str(kind).strip()
-                         else str(kind))
+        contacts, kinds, unusable = read_features(
+            source, self.parameterAsString(parameters, CONTACT_TYPE_FIELD, context), work_crs,
+            context)
         if unusable:
             feedback.pushInfo(f"{unusable} contact feature(s) without usable geometry left out.")
-        contacts = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
-        return contacts, kinds
+        return contacts, [kind or DEFAULT_CONTACT_KIND for kind in kinds]
 
     @staticmethod
     def _intervals(coords, polygons, polygon_units, tree):

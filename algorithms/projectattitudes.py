@@ -24,7 +24,7 @@ from .qgis_compat import (LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES, SOU
                           SOURCE_POLYGONS)
 from .section_lines import crs_wkt, read_section_parts, working_crs
 from .section_space import SECTION_CRS_WKT
-from .unit_polygons import read_unit_map
+from .map_layers import read_unit_map
 
 ATTITUDES = "ATTITUDES"
 MAX_DISTANCE = "MAX_DISTANCE"

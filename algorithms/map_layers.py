@@ -1,10 +1,38 @@
-"""Reading the map's unit polygons into the working CRS."""
+"""Reading map layers (unit polygons, contact lines) into the working CRS."""
 import numpy as np
 import shapely
 from qgis.core import (NULL, QgsCoordinateTransform, QgsCsException, QgsFeatureRequest,
                        QgsProcessingException, QgsProcessingFeatureSource)
 
 from .core.units import polygon_index_at
+
+
+def read_features(source, value_field, work_crs, context):
+    """(shapely geometries in the working CRS, the value of ``value_field``
+    of each — None when NULL or no field —, count of features left out for
+    having no usable geometry)."""
+    to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
+    request = QgsFeatureRequest()
+    if value_field:
+        request.setSubsetOfAttributes([value_field], source.fields())
+    wkbs, values, unusable = [], [], 0
+    for feature in source.getFeatures(request,
+                                      QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks):
+        geometry = feature.geometry()
+        if geometry is None or geometry.isNull() or geometry.isEmpty():
+            unusable += 1
+            continue
+        try:
+            geometry.transform(to_working)
+        except QgsCsException:
+            unusable += 1
+            continue
+        value = feature[value_field] if value_field else None
+        wkbs.append(bytes(geometry.asWkb()))
+        values.append(None if value is None or value == NULL or not str(value).strip()
+                      else str(value))
+    geometries = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
+    return geometries, values, unusable
 
 
 class UnitMap:
@@ -30,24 +58,7 @@ def read_unit_map(source, unit_field, work_crs, context, feedback):
         raise QgsProcessingException("UNIT_FIELD: choose the field that names the unit.")
     if source.fields().lookupField(unit_field) < 0:
         raise QgsProcessingException(f"UNIT_FIELD: the units layer has no field {unit_field!r}.")
-    to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
-    wkbs, labels, unusable = [], [], 0
-    request = QgsFeatureRequest().setSubsetOfAttributes([unit_field], source.fields())
-    for feature in source.getFeatures(request,
-                                      QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks):
-        geometry = feature.geometry()
-        if geometry is None or geometry.isNull() or geometry.isEmpty():
-            unusable += 1
-            continue
-        try:
-            geometry.transform(to_working)
-        except QgsCsException:
-            unusable += 1
-            continue
-        value = feature[unit_field]
-        wkbs.append(bytes(geometry.asWkb()))
-        labels.append(None if value is None or value == NULL else str(value))
-    polygons = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
+    polygons, labels, unusable = read_features(source, unit_field, work_crs, context)
     invalid = ~shapely.is_valid(polygons)
     if invalid.any():
         polygons[invalid] = shapely.make_valid(polygons[invalid])
