@@ -3,4 +3,5 @@
 
 def classFactory(iface):  # noqa: N802 (name fixed by QGIS)
     from .plugin.sectionwright_plugin import SectionwrightPlugin
+
     return SectionwrightPlugin(iface)

@@ -6,5 +6,10 @@ def all_algorithms():
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
     from .projectattitudes import ProjectAttitudesAlgorithm
-    return [ProfileAlgorithm(), ProjectAttitudesAlgorithm(), NormalizeAttitudesAlgorithm(),
-            GeologyCrossingsAlgorithm()]
+
+    return [
+        ProfileAlgorithm(),
+        ProjectAttitudesAlgorithm(),
+        NormalizeAttitudesAlgorithm(),
+        GeologyCrossingsAlgorithm(),
+    ]

@@ -1,15 +1,29 @@
 """Attitude parameters and reading, shared by projectattitudes and
 normalizeattitudes: conventions, fields, north reference."""
+
 from dataclasses import dataclass, field
 from typing import List
 
 import numpy as np
-from qgis.core import (NULL, QgsFeatureRequest, QgsProcessingException,
-                       QgsProcessingFeatureSource, QgsProcessingParameterEnum,
-                       QgsProcessingParameterField, QgsProcessingParameterNumber)
+from qgis.core import (
+    NULL,
+    QgsFeatureRequest,
+    QgsProcessingException,
+    QgsProcessingFeatureSource,
+    QgsProcessingParameterEnum,
+    QgsProcessingParameterField,
+    QgsProcessingParameterNumber,
+)
 
-from .core.attitudes import (DIP_DIRECTION, STRIKE_QUADRANT, STRIKE_RHR, TEXT_AS_DIP_DIRECTION,
-                             TEXT_AS_STRIKE, as_numbers, read_attitudes)
+from .core.attitudes import (
+    DIP_DIRECTION,
+    STRIKE_QUADRANT,
+    STRIKE_RHR,
+    TEXT_AS_DIP_DIRECTION,
+    TEXT_AS_STRIKE,
+    as_numbers,
+    read_attitudes,
+)
 from .core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
 from .qgis_compat import NUMBER_DOUBLE
 
@@ -22,37 +36,72 @@ NORTH_REFERENCE = "NORTH_REFERENCE"
 DECLINATION = "DECLINATION"
 DECLINATION_FIELD = "DECLINATION_FIELD"
 
-CONVENTIONS = ["Dip direction / dip", "Strike / dip (right-hand rule)",
-               "Strike / dip + dip quadrant", "Text notation (bare pairs: dip direction / dip)",
-               "Text notation (bare pairs: right-hand-rule strike / dip)"]
+CONVENTIONS = [
+    "Dip direction / dip",
+    "Strike / dip (right-hand rule)",
+    "Strike / dip + dip quadrant",
+    "Text notation (bare pairs: dip direction / dip)",
+    "Text notation (bare pairs: right-hand-rule strike / dip)",
+]
 NORTH_REFERENCES = ["Grid north (as stored)", "True north", "Magnetic north"]
 
 # Which fields each convention needs.
-NEEDS = {DIP_DIRECTION: (AZIMUTH_FIELD, DIP_FIELD), STRIKE_RHR: (AZIMUTH_FIELD, DIP_FIELD),
-         STRIKE_QUADRANT: (AZIMUTH_FIELD, DIP_FIELD, QUADRANT_FIELD),
-         TEXT_AS_DIP_DIRECTION: (TEXT_FIELD,), TEXT_AS_STRIKE: (TEXT_FIELD,)}
+NEEDS = {
+    DIP_DIRECTION: (AZIMUTH_FIELD, DIP_FIELD),
+    STRIKE_RHR: (AZIMUTH_FIELD, DIP_FIELD),
+    STRIKE_QUADRANT: (AZIMUTH_FIELD, DIP_FIELD, QUADRANT_FIELD),
+    TEXT_AS_DIP_DIRECTION: (TEXT_FIELD,),
+    TEXT_AS_STRIKE: (TEXT_FIELD,),
+}
 
 
 def add_attitude_parameters(algorithm, parent):
     tr = algorithm.tr
-    algorithm.addParameter(QgsProcessingParameterEnum(
-        CONVENTION, tr("How attitudes are written"), options=[tr(c) for c in CONVENTIONS],
-        defaultValue=DIP_DIRECTION))
-    for name, label in ((AZIMUTH_FIELD, "Azimuth field (dip direction or strike)"),
-                        (DIP_FIELD, "Dip field"),
-                        (QUADRANT_FIELD, "Dip quadrant field (N, NE, E …)"),
-                        (TEXT_FIELD, "Attitude text field (e.g. 120/40, N30E 40SE)")):
-        algorithm.addParameter(QgsProcessingParameterField(
-            name, tr(label), parentLayerParameterName=parent, optional=True))
-    algorithm.addParameter(QgsProcessingParameterEnum(
-        NORTH_REFERENCE, tr("Azimuths are measured from"),
-        options=[tr(n) for n in NORTH_REFERENCES], defaultValue=GRID))
-    algorithm.addParameter(QgsProcessingParameterNumber(
-        DECLINATION, tr("Magnetic declination (degrees, east positive)"), NUMBER_DOUBLE,
-        defaultValue=0.0, minValue=-180.0, maxValue=180.0))
-    algorithm.addParameter(QgsProcessingParameterField(
-        DECLINATION_FIELD, tr("Declination field (overrides the value where set)"),
-        parentLayerParameterName=parent, optional=True))
+    algorithm.addParameter(
+        QgsProcessingParameterEnum(
+            CONVENTION,
+            tr("How attitudes are written"),
+            options=[tr(c) for c in CONVENTIONS],
+            defaultValue=DIP_DIRECTION,
+        )
+    )
+    for name, label in (
+        (AZIMUTH_FIELD, "Azimuth field (dip direction or strike)"),
+        (DIP_FIELD, "Dip field"),
+        (QUADRANT_FIELD, "Dip quadrant field (N, NE, E …)"),
+        (TEXT_FIELD, "Attitude text field (e.g. 120/40, N30E 40SE)"),
+    ):
+        algorithm.addParameter(
+            QgsProcessingParameterField(
+                name, tr(label), parentLayerParameterName=parent, optional=True
+            )
+        )
+    algorithm.addParameter(
+        QgsProcessingParameterEnum(
+            NORTH_REFERENCE,
+            tr("Azimuths are measured from"),
+            options=[tr(n) for n in NORTH_REFERENCES],
+            defaultValue=GRID,
+        )
+    )
+    algorithm.addParameter(
+        QgsProcessingParameterNumber(
+            DECLINATION,
+            tr("Magnetic declination (degrees, east positive)"),
+            NUMBER_DOUBLE,
+            defaultValue=0.0,
+            minValue=-180.0,
+            maxValue=180.0,
+        )
+    )
+    algorithm.addParameter(
+        QgsProcessingParameterField(
+            DECLINATION_FIELD,
+            tr("Declination field (overrides the value where set)"),
+            parentLayerParameterName=parent,
+            optional=True,
+        )
+    )
 
 
 def _value(raw):
@@ -63,6 +112,7 @@ def _value(raw):
 class AttitudeRows:
     """The attitude features as read, and their planes (NaN + reason where
     unreadable). Azimuths are still as stored (not yet north-corrected)."""
+
     fids: List[int] = field(default_factory=list)
     attributes: List[list] = field(default_factory=list)
     geometries: list = field(default_factory=list)
@@ -81,17 +131,19 @@ class AttitudeSettings:
 
     def __init__(self, algorithm, parameters, context):
         self.convention = algorithm.parameterAsEnum(parameters, CONVENTION, context)
-        self.fields = {name: algorithm.parameterAsString(parameters, name, context)
-                       for name in (AZIMUTH_FIELD, DIP_FIELD, QUADRANT_FIELD, TEXT_FIELD)}
+        self.fields = {
+            name: algorithm.parameterAsString(parameters, name, context)
+            for name in (AZIMUTH_FIELD, DIP_FIELD, QUADRANT_FIELD, TEXT_FIELD)
+        }
         for name in NEEDS[self.convention]:
             if not self.fields[name]:
                 raise QgsProcessingException(
                     f"{name}: attitudes written as '{CONVENTIONS[self.convention]}' need "
-                    f"this field; choose it.")
+                    f"this field; choose it."
+                )
         self.north = algorithm.parameterAsEnum(parameters, NORTH_REFERENCE, context)
         self.declination = algorithm.parameterAsDouble(parameters, DECLINATION, context)
-        self.declination_field = algorithm.parameterAsString(parameters, DECLINATION_FIELD,
-                                                             context)
+        self.declination_field = algorithm.parameterAsString(parameters, DECLINATION_FIELD, context)
 
     def read(self, source, feedback, progress_share=30.0):
         """Every feature's attributes, geometry, point and plane."""
@@ -105,8 +157,9 @@ class AttitudeSettings:
         raw = {name: [] for name in wanted}
         xyz = []
         total = max(source.featureCount(), 1)
-        features = source.getFeatures(QgsFeatureRequest(),
-                                      QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks)
+        features = source.getFeatures(
+            QgsFeatureRequest(), QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks
+        )
         for number, feature in enumerate(features):
             if feedback.isCanceled():
                 break
@@ -122,9 +175,12 @@ class AttitudeSettings:
         rows.xyz = np.array(xyz, dtype=float).reshape(-1, 3)
         get = raw.get
         rows.dip_direction, rows.dip, rows.reasons = read_attitudes(
-            self.convention, azimuth=get(self.fields[AZIMUTH_FIELD]),
-            dip=get(self.fields[DIP_FIELD]), quadrant=get(self.fields[QUADRANT_FIELD]),
-            text=get(self.fields[TEXT_FIELD]))
+            self.convention,
+            azimuth=get(self.fields[AZIMUTH_FIELD]),
+            dip=get(self.fields[DIP_FIELD]),
+            quadrant=get(self.fields[QUADRANT_FIELD]),
+            text=get(self.fields[TEXT_FIELD]),
+        )
         rows.declination = self._declinations(raw.get(self.declination_field), len(rows))
         return rows
 
@@ -139,8 +195,7 @@ class AttitudeSettings:
         without a CRS, as true azimuths."""
         if self.north == GRID:
             return to_grid(azimuth, GRID, 0.0)
-        convergence = 0.0 if crs_wkt is None else meridian_convergence(crs_wkt, xy[:, 0],
-                                                                       xy[:, 1])
+        convergence = 0.0 if crs_wkt is None else meridian_convergence(crs_wkt, xy[:, 0], xy[:, 1])
         return to_grid(azimuth, self.north, convergence, declination)
 
     @property

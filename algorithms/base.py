@@ -1,7 +1,14 @@
 """What every Sectionwright algorithm shares: naming, help, the section-line
 parameters and the SKIPPED output."""
-from qgis.core import (QgsFeature, QgsFeatureSink, QgsProcessingAlgorithm, QgsProcessingParameterFeatureSink,
-                       QgsProcessingParameterFeatureSource, QgsProcessingParameterField)
+
+from qgis.core import (
+    QgsFeature,
+    QgsFeatureSink,
+    QgsProcessingAlgorithm,
+    QgsProcessingParameterFeatureSink,
+    QgsProcessingParameterFeatureSource,
+    QgsProcessingParameterField,
+)
 from qgis.PyQt.QtCore import QCoreApplication
 
 from . import fields as F
@@ -45,15 +52,24 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         return self.tr(help_text(self.ALGORITHM_ID))
 
     def add_section_line_parameters(self):
-        self.addParameter(QgsProcessingParameterFeatureSource(
-            INPUT, self.tr("Section lines"), [SOURCE_LINES]))
-        self.addParameter(QgsProcessingParameterField(
-            LINE_ID_FIELD, self.tr("Section label field (empty: feature id)"),
-            parentLayerParameterName=INPUT, optional=True))
+        self.addParameter(
+            QgsProcessingParameterFeatureSource(INPUT, self.tr("Section lines"), [SOURCE_LINES])
+        )
+        self.addParameter(
+            QgsProcessingParameterField(
+                LINE_ID_FIELD,
+                self.tr("Section label field (empty: feature id)"),
+                parentLayerParameterName=INPUT,
+                optional=True,
+            )
+        )
 
     def add_skipped_output(self):
-        self.addParameter(QgsProcessingParameterFeatureSink(
-            SKIPPED, self.tr("Skipped"), optional=True, createByDefault=False))
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                SKIPPED, self.tr("Skipped"), optional=True, createByDefault=False
+            )
+        )
 
 
 def skipped_fields():

@@ -1,4 +1,5 @@
 """Output fields that carry the source's own attributes beside computed ones."""
+
 from qgis.core import QgsField, QgsFields
 
 from . import fields as F
@@ -48,5 +49,6 @@ class CarriedFields:
 
     def log_replaced(self, feedback, layer_name):
         if self.replaced:
-            feedback.pushInfo(f"Fields of {layer_name} replaced by computed ones: "
-                              f"{', '.join(self.replaced)}.")
+            feedback.pushInfo(
+                f"Fields of {layer_name} replaced by computed ones: {', '.join(self.replaced)}."
+            )

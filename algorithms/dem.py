@@ -1,5 +1,6 @@
 """Reading a DEM layer window by window: through GDAL where the layer is a
 GDAL source, through the layer's data provider otherwise."""
+
 from concurrent.futures import ThreadPoolExecutor
 from contextlib import contextmanager
 
@@ -11,15 +12,22 @@ from .core.crs import cell_size_on_ground, transformer
 from .core.raster_sampling import TiledRaster, bilinear, centre_index
 from .section_lines import crs_wkt
 
-READERS = 2              # GDAL handles decoding tiles concurrently
+READERS = 2  # GDAL handles decoding tiles concurrently
 BATCH_SAMPLES = 100_000  # positions sampled together (~20 MB of working arrays)
-PROVIDER_TILE = 256       # window side for sources without a useful block size
-LARGEST_TILE = 1024       # blocks larger than this (strips, whole images) are windowed
-GDAL_CACHE_CAP = 64 * 2 ** 20
+PROVIDER_TILE = 256  # window side for sources without a useful block size
+LARGEST_TILE = 1024  # blocks larger than this (strips, whole images) are windowed
+GDAL_CACHE_CAP = 64 * 2**20
 
-_NUMPY_TYPES = {"Byte": np.uint8, "Int8": np.int8, "UInt16": np.uint16, "Int16": np.int16,
-                "UInt32": np.uint32, "Int32": np.int32, "Float32": np.float32,
-                "Float64": np.float64}
+_NUMPY_TYPES = {
+    "Byte": np.uint8,
+    "Int8": np.int8,
+    "UInt16": np.uint16,
+    "Int16": np.int16,
+    "UInt32": np.uint32,
+    "Int32": np.int32,
+    "Float32": np.float32,
+    "Float64": np.float64,
+}
 
 
 def cell_values(raw, nodata):
@@ -71,14 +79,21 @@ class ProviderGrid:
         extent = self.provider.extent()
         rows, cols = self.provider.ySize(), self.provider.xSize()
         self.shape = (rows, cols)
-        self.geotransform = (extent.xMinimum(), extent.width() / cols, 0.0,
-                             extent.yMaximum(), 0.0, -extent.height() / rows)
+        self.geotransform = (
+            extent.xMinimum(),
+            extent.width() / cols,
+            0.0,
+            extent.yMaximum(),
+            0.0,
+            -extent.height() / rows,
+        )
         self.tile_shape = (PROVIDER_TILE, PROVIDER_TILE)
 
     def read_window(self, row0, col0, nrows, ncols):
         x0, dx, _, y0, _, dy = self.geotransform
-        rect = QgsRectangle(x0 + col0 * dx, y0 + (row0 + nrows) * dy,
-                            x0 + (col0 + ncols) * dx, y0 + row0 * dy)
+        rect = QgsRectangle(
+            x0 + col0 * dx, y0 + (row0 + nrows) * dy, x0 + (col0 + ncols) * dx, y0 + row0 * dy
+        )
         block = self.provider.block(self.band_number, rect, ncols, nrows)
         type_name = _data_type_name(block.dataType())
         raw = np.frombuffer(bytes(block.data()), dtype=_NUMPY_TYPES[type_name])
@@ -89,8 +104,7 @@ class ProviderGrid:
 def _data_type_name(data_type):
     name = getattr(data_type, "name", None) or str(data_type).rsplit(".", 1)[-1]
     if name not in _NUMPY_TYPES:
-        raise QgsProcessingException(
-            f"DEM: cells of type {name} cannot be read as elevations.")
+        raise QgsProcessingException(f"DEM: cells of type {name} cannot be read as elevations.")
     return name
 
 
@@ -101,11 +115,12 @@ def open_grids(layer, band_number, z_factor):
         raise QgsProcessingException("DEM: the layer given is not a raster that can be read.")
     if not 1 <= band_number <= layer.bandCount():
         raise QgsProcessingException(
-            f"DEM_BAND: the DEM has {layer.bandCount()} band(s); band {band_number} "
-            f"does not exist.")
+            f"DEM_BAND: the DEM has {layer.bandCount()} band(s); band {band_number} does not exist."
+        )
     if layer.providerType() == "gdal":
-        datasets = [gdal.OpenEx(layer.source(), gdal.OF_RASTER | gdal.OF_READONLY)
-                    for _ in range(READERS)]
+        datasets = [
+            gdal.OpenEx(layer.source(), gdal.OF_RASTER | gdal.OF_READONLY) for _ in range(READERS)
+        ]
         if all(d is not None for d in datasets):
             return [GdalGrid(d, band_number, z_factor) for d in datasets]
     return [ProviderGrid(layer, band_number, z_factor)]
@@ -134,8 +149,9 @@ class DemSampler:
         self.to_dem = transformer(work_wkt, dem_wkt)
         self.to_working = transformer(dem_wkt, work_wkt)
         self.inverse_geotransform = gdal.InvGeoTransform(self.grid.geotransform)
-        self.raster = TiledRaster([g.read_window for g in grids], self.grid.shape,
-                                  self.grid.tile_shape)
+        self.raster = TiledRaster(
+            [g.read_window for g in grids], self.grid.shape, self.grid.tile_shape
+        )
 
     def elevations(self, xy):
         x, y = self.to_dem(xy[:, 0], xy[:, 1])
@@ -171,7 +187,7 @@ def _sample_batch(sampler, batch):
         if xy is None:
             results.append((key, None))
         else:
-            results.append((key, z[start:start + len(xy)]))
+            results.append((key, z[start : start + len(xy)]))
             start += len(xy)
     return results
 

@@ -1,4 +1,5 @@
 """Shapely geometries handed to QGIS in one step (WKB), not vertex by vertex."""
+
 import shapely
 from qgis.core import QgsGeometry
 

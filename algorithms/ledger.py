@@ -1,4 +1,5 @@
 """Accounting of a run: what was read, written and skipped, and why."""
+
 from collections import Counter
 
 
@@ -19,7 +20,8 @@ class RunLedger:
     def close(self):
         skipped = sum(self.skipped.values())
         self.feedback.pushInfo(
-            f"Summary: read={self.read} written={self.written} skipped={skipped}")
+            f"Summary: read={self.read} written={self.written} skipped={skipped}"
+        )
         if skipped:
             tally = ", ".join(f"{reason}={n}" for reason, n in sorted(self.skipped.items()))
             self.feedback.pushInfo(f"Skipped: {tally}")

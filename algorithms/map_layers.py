@@ -1,8 +1,15 @@
 """Reading map layers (unit polygons, contact lines) into the working CRS."""
+
 import numpy as np
 import shapely
-from qgis.core import (NULL, QgsCoordinateTransform, QgsCsException, QgsFeatureRequest,
-                       QgsProcessingException, QgsProcessingFeatureSource)
+from qgis.core import (
+    NULL,
+    QgsCoordinateTransform,
+    QgsCsException,
+    QgsFeatureRequest,
+    QgsProcessingException,
+    QgsProcessingFeatureSource,
+)
 
 from .core.units import polygon_index_at
 
@@ -16,8 +23,9 @@ def read_features(source, value_field, work_crs, context):
     if value_field:
         request.setSubsetOfAttributes([value_field], source.fields())
     wkbs, values, unusable = [], [], 0
-    for feature in source.getFeatures(request,
-                                      QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks):
+    for feature in source.getFeatures(
+        request, QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks
+    ):
         geometry = feature.geometry()
         if geometry is None or geometry.isNull() or geometry.isEmpty():
             unusable += 1
@@ -29,8 +37,9 @@ def read_features(source, value_field, work_crs, context):
             continue
         value = feature[value_field] if value_field else None
         wkbs.append(bytes(geometry.asWkb()))
-        values.append(None if value is None or value == NULL or not str(value).strip()
-                      else str(value))
+        values.append(
+            None if value is None or value == NULL or not str(value).strip() else str(value)
+        )
     geometries = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
     return geometries, values, unusable
 

@@ -1,7 +1,13 @@
 """sectionwright:normalizeattitudes — one clean notation for a mixed notebook."""
+
 import numpy as np
-from qgis.core import (QgsFeature, QgsFeatureSink, QgsProcessingException,
-                       QgsProcessingParameterFeatureSink, QgsProcessingParameterFeatureSource)
+from qgis.core import (
+    QgsFeature,
+    QgsFeatureSink,
+    QgsProcessingException,
+    QgsProcessingParameterFeatureSink,
+    QgsProcessingParameterFeatureSource,
+)
 
 from . import fields as F
 from .attitude_input import AttitudeSettings, add_attitude_parameters
@@ -22,11 +28,15 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
     DISPLAY_NAME = "Normalise attitude notation"
 
     def initAlgorithm(self, config=None):
-        self.addParameter(QgsProcessingParameterFeatureSource(
-            INPUT, self.tr("Attitudes (points or a table)"), [SOURCE_ANY_VECTOR]))
+        self.addParameter(
+            QgsProcessingParameterFeatureSource(
+                INPUT, self.tr("Attitudes (points or a table)"), [SOURCE_ANY_VECTOR]
+            )
+        )
         add_attitude_parameters(self, INPUT)
-        self.addParameter(QgsProcessingParameterFeatureSink(
-            OUTPUT, self.tr("Normalised attitudes")))
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(OUTPUT, self.tr("Normalised attitudes"))
+        )
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
@@ -39,13 +49,19 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
 
         output_fields = CarriedFields(source.fields(), F.ORIENTATION_FIELDS)
         skipped_fields = CarriedFields(source.fields(), (F.SOURCE_FID, F.REASON))
-        output, output_id = self.parameterAsSink(parameters, OUTPUT, context, output_fields.fields,
-                                                 source.wkbType(), source.sourceCrs())
+        output, output_id = self.parameterAsSink(
+            parameters, OUTPUT, context, output_fields.fields, source.wkbType(), source.sourceCrs()
+        )
         if output is None:
             raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
-        skipped, skipped_id = self.parameterAsSink(parameters, SKIPPED, context,
-                                                   skipped_fields.fields, source.wkbType(),
-                                                   source.sourceCrs())
+        skipped, skipped_id = self.parameterAsSink(
+            parameters,
+            SKIPPED,
+            context,
+            skipped_fields.fields,
+            source.wkbType(),
+            source.sourceCrs(),
+        )
         strike = strike_from_dip_direction(dip_direction)
         ledger = RunLedger(feedback)
         for i in range(len(rows)):
@@ -57,12 +73,17 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
             if reasons[i]:
                 ledger.skip(reasons[i])
                 if skipped is not None:
-                    feature.setAttributes(skipped_fields.row(rows.attributes[i],
-                                                             [rows.fids[i], reasons[i]]))
+                    feature.setAttributes(
+                        skipped_fields.row(rows.attributes[i], [rows.fids[i], reasons[i]])
+                    )
                     skipped.addFeature(feature, QgsFeatureSink.FastInsert)
                 continue
-            feature.setAttributes(output_fields.row(rows.attributes[i], [
-                float(dip_direction[i]), float(rows.dip[i]), float(strike[i])]))
+            feature.setAttributes(
+                output_fields.row(
+                    rows.attributes[i],
+                    [float(dip_direction[i]), float(rows.dip[i]), float(strike[i])],
+                )
+            )
             output.addFeature(feature, QgsFeatureSink.FastInsert)
             ledger.written += 1
             if i % 1000 == 0:
@@ -82,11 +103,14 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
             return rows.dip_direction % 360.0, reasons
         crs = source.sourceCrs()
         if not crs.isValid() or crs.isGeographic():
-            feedback.pushInfo("Azimuths are given relative to true north "
-                              "(the layer has no projected CRS whose grid they could follow).")
+            feedback.pushInfo(
+                "Azimuths are given relative to true north "
+                "(the layer has no projected CRS whose grid they could follow)."
+            )
             return settings.to_grid(rows.dip_direction, None, None, rows.declination), reasons
         no_position = np.isnan(rows.xyz[:, 0]) & (reasons == "")
         reasons[no_position] = NO_POSITION
-        corrected = settings.to_grid(rows.dip_direction, rows.xyz[:, :2], crs_wkt(crs),
-                                     rows.declination)
+        corrected = settings.to_grid(
+            rows.dip_direction, rows.xyz[:, :2], crs_wkt(crs), rows.declination
+        )
         return corrected, reasons

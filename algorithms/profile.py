@@ -1,15 +1,31 @@
 """sectionwright:profile — the topographic profile along each section line."""
+
 import numpy as np
 import shapely
-from qgis.core import (QgsCoordinateReferenceSystem, QgsCoordinateTransform, QgsFeature,
-                       QgsFeatureSink, QgsPoint,
-                       QgsProcessingException, QgsProcessingParameterBand,
-                       QgsProcessingParameterDistance, QgsProcessingParameterFeatureSink,
-                       QgsProcessingParameterNumber, QgsProcessingParameterRasterLayer)
+from qgis.core import (
+    QgsCoordinateReferenceSystem,
+    QgsCoordinateTransform,
+    QgsFeature,
+    QgsFeatureSink,
+    QgsPoint,
+    QgsProcessingException,
+    QgsProcessingParameterBand,
+    QgsProcessingParameterDistance,
+    QgsProcessingParameterFeatureSink,
+    QgsProcessingParameterNumber,
+    QgsProcessingParameterRasterLayer,
+)
 
 from . import fields as F
+from .base import (
+    INPUT,
+    LINE_ID_FIELD,
+    SKIPPED,
+    SectionwrightAlgorithm,
+    add_skipped_section,
+    skipped_fields,
+)
 from .carried_fields import computed_fields
-from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, add_skipped_section, skipped_fields
 from .core.crs import transformer
 from .core.profile import profile_samples, section_runs
 from .dem import DemSampler, bounded_gdal_cache, sample_ahead
@@ -46,22 +62,51 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         self.add_section_line_parameters()
         self.addParameter(QgsProcessingParameterRasterLayer(DEM, self.tr("DEM")))
-        self.addParameter(QgsProcessingParameterBand(
-            DEM_BAND, self.tr("DEM band"), defaultValue=1, parentLayerParameterName=DEM,
-            optional=True))
-        self.addParameter(QgsProcessingParameterNumber(
-            Z_FACTOR, self.tr("Z factor (DEM values × factor = metres)"),
-            NUMBER_DOUBLE, defaultValue=1.0))
-        self.addParameter(QgsProcessingParameterDistance(
-            STEP, self.tr("Sampling step (0: the DEM's cell size)"),
-            defaultValue=0.0, parentParameterName=INPUT, minValue=0.0))
-        self.addParameter(QgsProcessingParameterNumber(
-            VERTICAL_EXAGGERATION, self.tr("Vertical exaggeration"),
-            NUMBER_DOUBLE, defaultValue=1.0, minValue=0.001))
-        self.addParameter(QgsProcessingParameterFeatureSink(
-            OUTPUT, self.tr("Profile points (map)"), SOURCE_POINTS))
-        self.addParameter(QgsProcessingParameterFeatureSink(
-            OUTPUT_SECTION, self.tr("Profile (section view)"), SOURCE_LINES))
+        self.addParameter(
+            QgsProcessingParameterBand(
+                DEM_BAND,
+                self.tr("DEM band"),
+                defaultValue=1,
+                parentLayerParameterName=DEM,
+                optional=True,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                Z_FACTOR,
+                self.tr("Z factor (DEM values × factor = metres)"),
+                NUMBER_DOUBLE,
+                defaultValue=1.0,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterDistance(
+                STEP,
+                self.tr("Sampling step (0: the DEM's cell size)"),
+                defaultValue=0.0,
+                parentParameterName=INPUT,
+                minValue=0.0,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                VERTICAL_EXAGGERATION,
+                self.tr("Vertical exaggeration"),
+                NUMBER_DOUBLE,
+                defaultValue=1.0,
+                minValue=0.001,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                OUTPUT, self.tr("Profile points (map)"), SOURCE_POINTS
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                OUTPUT_SECTION, self.tr("Profile (section view)"), SOURCE_LINES
+            )
+        )
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
@@ -72,7 +117,8 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         if dem is None:
             raise QgsProcessingException(
-                self.tr("DEM: the layer given is not a raster that can be read."))
+                self.tr("DEM: the layer given is not a raster that can be read.")
+            )
         band = self.parameterAsInt(parameters, DEM_BAND, context)
         z_factor = self.parameterAsDouble(parameters, Z_FACTOR, context)
         step = self.parameterAsDouble(parameters, STEP, context)
@@ -85,13 +131,20 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             feedback.pushInfo(f"Sampling step: {step:.3f} (the DEM's cell size).")
 
         (points, points_id) = self.parameterAsSink(
-            parameters, OUTPUT, context, computed_fields(SAMPLE_FIELDS), POINT_Z, source.sourceCrs())
+            parameters, OUTPUT, context, computed_fields(SAMPLE_FIELDS), POINT_Z, source.sourceCrs()
+        )
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
         (sections, sections_id) = self.parameterAsSink(
-            parameters, OUTPUT_SECTION, context, computed_fields(SECTION_FIELDS), MULTI_LINE_STRING,
-            section_crs)
+            parameters,
+            OUTPUT_SECTION,
+            context,
+            computed_fields(SECTION_FIELDS),
+            MULTI_LINE_STRING,
+            section_crs,
+        )
         (skipped, skipped_id) = self.parameterAsSink(
-            parameters, SKIPPED, context, skipped_fields(), source.wkbType(), source.sourceCrs())
+            parameters, SKIPPED, context, skipped_fields(), source.wkbType(), source.sourceCrs()
+        )
         if points is None:
             raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
         if sections is None:
@@ -116,9 +169,11 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     self._write_samples(points, part.label, chainage, elevation, to_map(*xy.T))
                     self._write_section(sections, part.label, chainage, elevation, exaggeration)
                     ledger.written += 1
-                    feedback.pushInfo(f"Section {part.label}: length {chainage[-1]:.1f}, "
-                                      f"{len(chainage)} samples, "
-                                      f"{int(np.isnan(elevation).sum())} without elevation.")
+                    feedback.pushInfo(
+                        f"Section {part.label}: length {chainage[-1]:.1f}, "
+                        f"{len(chainage)} samples, "
+                        f"{int(np.isnan(elevation).sum())} without elevation."
+                    )
                 feedback.setProgress(100.0 * (index + 1) / max(len(parts), 1))
         ledger.close()
         results = {OUTPUT: points_id, OUTPUT_SECTION: sections_id}
@@ -139,16 +194,21 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
 
     @staticmethod
     def _cell_step(sampler, source, work_crs, context):
-        centre = QgsCoordinateTransform(source.sourceCrs(), work_crs,
-                                        context.transformContext()).transform(
-            source.sourceExtent().center())
+        centre = QgsCoordinateTransform(
+            source.sourceCrs(), work_crs, context.transformContext()
+        ).transform(source.sourceExtent().center())
         return sampler.cell_size((centre.x(), centre.y()))
 
     @staticmethod
     def _write_samples(sink, label, chainage, elevation, map_xy):
         map_x, map_y = map_xy
-        rows = zip(chainage.tolist(), _nullable(elevation), map_x.tolist(),
-                   map_y.tolist(), elevation.tolist())
+        rows = zip(
+            chainage.tolist(),
+            _nullable(elevation),
+            map_x.tolist(),
+            map_y.tolist(),
+            elevation.tolist(),
+        )
         batch = []
         # The hot loop: one feature per sample, nothing else (~4 µs each).
         for ch, elev, x, y, z in rows:
@@ -167,6 +227,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         feature = QgsFeature()
         feature.setGeometry(to_qgis(shapely.MultiLineString(runs)))
         valid = elevation[~np.isnan(elevation)]
-        feature.setAttributes([label, float(chainage[-1]), float(valid.min()),
-                               float(valid.max()), exaggeration])
+        feature.setAttributes(
+            [label, float(chainage[-1]), float(valid.min()), float(valid.max()), exaggeration]
+        )
         sink.addFeature(feature, QgsFeatureSink.FastInsert)

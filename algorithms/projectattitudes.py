@@ -1,13 +1,23 @@
 """sectionwright:projectattitudes — attitudes carried onto section lines."""
+
 from collections import Counter
 
 import numpy as np
-from qgis.core import (QgsCoordinateReferenceSystem, QgsFeature, QgsFeatureSink,
-                       QgsLineString, QgsPoint, QgsProcessingException,
-                       QgsProcessingParameterDistance, QgsProcessingParameterEnum,
-                       QgsProcessingParameterFeatureSink, QgsProcessingParameterFeatureSource,
-                       QgsProcessingParameterField, QgsProcessingParameterNumber,
-                       QgsProcessingParameterRasterLayer)
+from qgis.core import (
+    QgsCoordinateReferenceSystem,
+    QgsFeature,
+    QgsFeatureSink,
+    QgsLineString,
+    QgsPoint,
+    QgsProcessingException,
+    QgsProcessingParameterDistance,
+    QgsProcessingParameterEnum,
+    QgsProcessingParameterFeatureSink,
+    QgsProcessingParameterFeatureSource,
+    QgsProcessingParameterField,
+    QgsProcessingParameterNumber,
+    QgsProcessingParameterRasterLayer,
+)
 
 from . import fields as F
 from .attitude_input import AttitudeSettings, add_attitude_parameters, geometry_reason
@@ -20,11 +30,17 @@ from .core.projection import SectionNetwork
 from .core.ticks import tick_segments
 from .dem import DemSampler, bounded_gdal_cache
 from .ledger import RunLedger
-from .qgis_compat import (LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES, SOURCE_POINTS,
-                          SOURCE_POLYGONS)
+from .map_layers import read_unit_map
+from .qgis_compat import (
+    LINE_STRING,
+    NUMBER_DOUBLE,
+    POINT_Z,
+    SOURCE_LINES,
+    SOURCE_POINTS,
+    SOURCE_POLYGONS,
+)
 from .section_lines import crs_wkt, read_section_parts, working_crs
 from .section_space import SECTION_CRS_WKT
-from .map_layers import read_unit_map
 
 ATTITUDES = "ATTITUDES"
 MAX_DISTANCE = "MAX_DISTANCE"
@@ -43,9 +59,12 @@ OUTPUT = "OUTPUT"
 OUTPUT_TICKS = "OUTPUT_TICKS"
 OUTPUT_CONNECTORS = "OUTPUT_CONNECTORS"
 
-PROJECTIONS = ["Perpendicular to the line (nearest point)", "Along the attitude's strike",
-               "Along a plunge (trend and plunge below)"]
-AUTOMATIC_TICK_FRACTION = 1 / 40   # of the section's length, when TICK_LENGTH is 0
+PROJECTIONS = [
+    "Perpendicular to the line (nearest point)",
+    "Along the attitude's strike",
+    "Along a plunge (trend and plunge below)",
+]
+AUTOMATIC_TICK_FRACTION = 1 / 40  # of the section's length, when TICK_LENGTH is 0
 
 
 def _null(value):
@@ -59,46 +78,108 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         tr = self.tr
         self.add_section_line_parameters()
-        self.addParameter(QgsProcessingParameterFeatureSource(
-            ATTITUDES, tr("Attitudes (bedding, foliation … points)"), [SOURCE_POINTS]))
+        self.addParameter(
+            QgsProcessingParameterFeatureSource(
+                ATTITUDES, tr("Attitudes (bedding, foliation … points)"), [SOURCE_POINTS]
+            )
+        )
         add_attitude_parameters(self, ATTITUDES)
-        self.addParameter(QgsProcessingParameterDistance(
-            MAX_DISTANCE, tr("Maximum distance from the section"), defaultValue=250.0,
-            parentParameterName=INPUT, minValue=0.0))
-        self.addParameter(QgsProcessingParameterEnum(
-            PROJECTION, tr("Projection"), options=[tr(p) for p in PROJECTIONS], defaultValue=0))
-        self.addParameter(QgsProcessingParameterNumber(
-            PLUNGE_TREND, tr("Plunge trend (degrees)"), NUMBER_DOUBLE, defaultValue=0.0,
-            minValue=0.0, maxValue=360.0))
-        self.addParameter(QgsProcessingParameterNumber(
-            PLUNGE, tr("Plunge (degrees)"), NUMBER_DOUBLE, defaultValue=0.0, minValue=0.0,
-            maxValue=89.9))
-        self.addParameter(QgsProcessingParameterRasterLayer(
-            DEM, tr("DEM (elevation of points without Z, and of the ground)"), optional=True))
-        self.addParameter(QgsProcessingParameterFeatureSource(
-            UNITS, tr("Map units (polygons)"), [SOURCE_POLYGONS], optional=True))
-        self.addParameter(QgsProcessingParameterField(
-            UNIT_FIELD, tr("Unit field"), parentLayerParameterName=UNITS, optional=True))
+        self.addParameter(
+            QgsProcessingParameterDistance(
+                MAX_DISTANCE,
+                tr("Maximum distance from the section"),
+                defaultValue=250.0,
+                parentParameterName=INPUT,
+                minValue=0.0,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterEnum(
+                PROJECTION, tr("Projection"), options=[tr(p) for p in PROJECTIONS], defaultValue=0
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                PLUNGE_TREND,
+                tr("Plunge trend (degrees)"),
+                NUMBER_DOUBLE,
+                defaultValue=0.0,
+                minValue=0.0,
+                maxValue=360.0,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                PLUNGE,
+                tr("Plunge (degrees)"),
+                NUMBER_DOUBLE,
+                defaultValue=0.0,
+                minValue=0.0,
+                maxValue=89.9,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterRasterLayer(
+                DEM, tr("DEM (elevation of points without Z, and of the ground)"), optional=True
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSource(
+                UNITS, tr("Map units (polygons)"), [SOURCE_POLYGONS], optional=True
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterField(
+                UNIT_FIELD, tr("Unit field"), parentLayerParameterName=UNITS, optional=True
+            )
+        )
         for name, label, default, top in (
-                (OBLIQUE_ANGLE, "Flag lines closer to strike than (degrees)", 20.0, 90.0),
-                (DIP_UNCERTAINTY, "Dip uncertainty, one standard deviation (degrees)", 2.0, 45.0),
-                (STRIKE_UNCERTAINTY, "Strike uncertainty, one standard deviation (degrees)",
-                 5.0, 90.0)):
-            self.addParameter(QgsProcessingParameterNumber(
-                name, tr(label), NUMBER_DOUBLE, defaultValue=default, minValue=0.0, maxValue=top))
-        self.addParameter(QgsProcessingParameterNumber(
-            VERTICAL_EXAGGERATION, tr("Vertical exaggeration"), NUMBER_DOUBLE, defaultValue=1.0,
-            minValue=0.001))
-        self.addParameter(QgsProcessingParameterNumber(
-            TICK_LENGTH, tr("Tick length in the section view (0: automatic)"), NUMBER_DOUBLE,
-            defaultValue=0.0, minValue=0.0))
-        self.addParameter(QgsProcessingParameterFeatureSink(
-            OUTPUT, tr("Attitudes on sections (map)"), SOURCE_POINTS))
-        self.addParameter(QgsProcessingParameterFeatureSink(
-            OUTPUT_TICKS, tr("Dip ticks (section view)"), SOURCE_LINES))
-        self.addParameter(QgsProcessingParameterFeatureSink(
-            OUTPUT_CONNECTORS, tr("Projection connectors (map)"), SOURCE_LINES, optional=True,
-            createByDefault=False))
+            (OBLIQUE_ANGLE, "Flag lines closer to strike than (degrees)", 20.0, 90.0),
+            (DIP_UNCERTAINTY, "Dip uncertainty, one standard deviation (degrees)", 2.0, 45.0),
+            (STRIKE_UNCERTAINTY, "Strike uncertainty, one standard deviation (degrees)", 5.0, 90.0),
+        ):
+            self.addParameter(
+                QgsProcessingParameterNumber(
+                    name, tr(label), NUMBER_DOUBLE, defaultValue=default, minValue=0.0, maxValue=top
+                )
+            )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                VERTICAL_EXAGGERATION,
+                tr("Vertical exaggeration"),
+                NUMBER_DOUBLE,
+                defaultValue=1.0,
+                minValue=0.001,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                TICK_LENGTH,
+                tr("Tick length in the section view (0: automatic)"),
+                NUMBER_DOUBLE,
+                defaultValue=0.0,
+                minValue=0.0,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                OUTPUT, tr("Attitudes on sections (map)"), SOURCE_POINTS
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                OUTPUT_TICKS, tr("Dip ticks (section view)"), SOURCE_LINES
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                OUTPUT_CONNECTORS,
+                tr("Projection connectors (map)"),
+                SOURCE_LINES,
+                optional=True,
+                createByDefault=False,
+            )
+        )
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
@@ -110,7 +191,8 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             raise QgsProcessingException(self.invalidSourceError(parameters, ATTITUDES))
         if not points.sourceCrs().isValid():
             raise QgsProcessingException(
-                "ATTITUDES: the attitude layer has no coordinate reference system; set one.")
+                "ATTITUDES: the attitude layer has no coordinate reference system; set one."
+            )
         settings = AttitudeSettings(self, parameters, context)
         options = self._options(parameters, context)
         work_crs = working_crs(lines, context, feedback)
@@ -119,39 +201,67 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         network = SectionNetwork([p.coords for p in parts], 2 * max(options.max_distance, 1e-9))
 
         rows = settings.read(points, feedback)
-        xy = np.column_stack(transformer(crs_wkt(points.sourceCrs()), work_wkt)(
-            rows.xyz[:, 0], rows.xyz[:, 1]))
+        xy = np.column_stack(
+            transformer(crs_wkt(points.sourceCrs()), work_wkt)(rows.xyz[:, 0], rows.xyz[:, 1])
+        )
         reasons = np.array([geometry_reason(g) for g in rows.geometries], dtype=object)
         reasons = np.where(reasons == "", rows.reasons, reasons)
-        dip_direction = np.where(reasons == "", settings.to_grid(
-            rows.dip_direction, xy, work_wkt, rows.declination), np.nan)
-        trend = settings.to_grid(np.full(len(rows), self.parameterAsDouble(
-            parameters, PLUNGE_TREND, context)), xy, work_wkt, rows.declination)
+        dip_direction = np.where(
+            reasons == "",
+            settings.to_grid(rows.dip_direction, xy, work_wkt, rows.declination),
+            np.nan,
+        )
+        trend = settings.to_grid(
+            np.full(len(rows), self.parameterAsDouble(parameters, PLUNGE_TREND, context)),
+            xy,
+            work_wkt,
+            rows.declination,
+        )
         feedback.setProgress(40)
 
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         units = self.parameterAsSource(parameters, UNITS, context)
         with bounded_gdal_cache():
             sampler = DemSampler(dem, 1, 1.0, work_crs) if dem is not None else None
-            unit_map = (read_unit_map(units, self.parameterAsString(parameters, UNIT_FIELD, context),
-                                      work_crs, context, feedback) if units is not None else None)
+            unit_map = (
+                read_unit_map(
+                    units,
+                    self.parameterAsString(parameters, UNIT_FIELD, context),
+                    work_crs,
+                    context,
+                    feedback,
+                )
+                if units is not None
+                else None
+            )
             record = carry_attitudes(
-                network, xy, rows.xyz[:, 2], dip_direction, np.where(reasons == "", rows.dip,
-                                                                     np.nan),
-                options, trend=trend, elevation_at=sampler.elevations if sampler else None,
-                unit_at=unit_map.unit_at if unit_map else None)
+                network,
+                xy,
+                rows.xyz[:, 2],
+                dip_direction,
+                np.where(reasons == "", rows.dip, np.nan),
+                options,
+                trend=trend,
+                elevation_at=sampler.elevations if sampler else None,
+                unit_at=unit_map.unit_at if unit_map else None,
+            )
         record["reason"] = np.where(reasons != "", reasons, record["reason"])
         feedback.setProgress(60)
-        return self._write(parameters, context, feedback, points, lines, parts, rows, record,
-                           xy, work_wkt)
+        return self._write(
+            parameters, context, feedback, points, lines, parts, rows, record, xy, work_wkt
+        )
 
     def _options(self, parameters, context):
         value = lambda name: self.parameterAsDouble(parameters, name, context)  # noqa: E731
         return CarryOptions(
             method=self.parameterAsEnum(parameters, PROJECTION, context),
-            max_distance=value(MAX_DISTANCE), plunge=value(PLUNGE),
-            exaggeration=value(VERTICAL_EXAGGERATION), oblique_angle=value(OBLIQUE_ANGLE),
-            dip_sd=value(DIP_UNCERTAINTY), strike_sd=value(STRIKE_UNCERTAINTY))
+            max_distance=value(MAX_DISTANCE),
+            plunge=value(PLUNGE),
+            exaggeration=value(VERTICAL_EXAGGERATION),
+            oblique_angle=value(OBLIQUE_ANGLE),
+            dip_sd=value(DIP_UNCERTAINTY),
+            strike_sd=value(STRIKE_UNCERTAINTY),
+        )
 
     @staticmethod
     def _usable_parts(lines, parameters, work_crs, context, feedback):
@@ -165,18 +275,20 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             raise QgsProcessingException("INPUT: none of the section lines can be used.")
         return usable
 
-    def _write(self, parameters, context, feedback, points, lines, parts, rows, record, xy,
-               work_wkt):
+    def _write(
+        self, parameters, context, feedback, points, lines, parts, rows, record, xy, work_wkt
+    ):
         carried_fields = CarriedFields(points.fields(), F.ATTITUDE_FIELDS)
         carried_fields.log_replaced(feedback, "the attitude layer")
         skipped_fields = CarriedFields(points.fields(), (F.SOURCE_FID, F.REASON))
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
         sinks = {}
         for name, kind, crs, fields in (
-                (OUTPUT, POINT_Z, lines.sourceCrs(), carried_fields.fields),
-                (OUTPUT_TICKS, LINE_STRING, section_crs, carried_fields.fields),
-                (OUTPUT_CONNECTORS, LINE_STRING, lines.sourceCrs(), carried_fields.fields),
-                (SKIPPED, points.wkbType(), points.sourceCrs(), skipped_fields.fields)):
+            (OUTPUT, POINT_Z, lines.sourceCrs(), carried_fields.fields),
+            (OUTPUT_TICKS, LINE_STRING, section_crs, carried_fields.fields),
+            (OUTPUT_CONNECTORS, LINE_STRING, lines.sourceCrs(), carried_fields.fields),
+            (SKIPPED, points.wkbType(), points.sourceCrs(), skipped_fields.fields),
+        ):
             sinks[name] = self.parameterAsSink(parameters, name, context, fields, kind, crs)
         for name in (OUTPUT, OUTPUT_TICKS):
             if sinks[name][0] is None:
@@ -186,10 +298,14 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         landing_map = np.column_stack(to_map(*record["landing_xy"].T))
         source_map = np.column_stack(to_map(*xy.T))
         labels = np.array([p.label for p in parts] + [""], dtype=object)[record["line"]]
-        ticks = tick_segments(record["chainage"], record["elev"],
-                              self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context),
-                              record["plot_dip"], record["sense"],
-                              self._tick_lengths(parameters, context, parts)[record["line"]])
+        ticks = tick_segments(
+            record["chainage"],
+            record["elev"],
+            self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context),
+            record["plot_dip"],
+            record["sense"],
+            self._tick_lengths(parameters, context, parts)[record["line"]],
+        )
         columns = self._columns(record, labels, rows.fids)
         ledger = RunLedger(feedback)
         per_section = Counter()
@@ -204,16 +320,19 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 self._add_skipped(sinks[SKIPPED][0], skipped_fields, rows, i, reason)
                 continue
             attributes = carried_fields.row(rows.attributes[i], values)
-            self._add_outputs(sinks, attributes, record["elev"][i], landing_map[i],
-                              source_map[i], ticks[i])
+            self._add_outputs(
+                sinks, attributes, record["elev"][i], landing_map[i], source_map[i], ticks[i]
+            )
             ledger.written += 1
             per_section[labels[i]] += 1
             flagged[labels[i]] += bool(record["flags"][i])
             if i % 1000 == 0:
                 feedback.setProgress(60 + 40 * i / max(len(rows), 1))
         for part in parts:
-            feedback.pushInfo(f"Section {part.label}: {per_section[part.label]} attitude(s), "
-                              f"{flagged[part.label]} flagged.")
+            feedback.pushInfo(
+                f"Section {part.label}: {per_section[part.label]} attitude(s), "
+                f"{flagged[part.label]} flagged."
+            )
         ledger.close()
         return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
 
@@ -221,13 +340,25 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     def _columns(record, labels, fids):
         """Rows of computed values as plain Python values (NaN as NULL), in
         the order of fields.ATTITUDE_FIELDS."""
-        numeric = ("chainage", "offset", "travel", "elev", "gnd_elev", "dip_dir", "dip",
-                   "strike", "line_az", "line_angle", "app_dip")
+        numeric = (
+            "chainage",
+            "offset",
+            "travel",
+            "elev",
+            "gnd_elev",
+            "dip_dir",
+            "dip",
+            "strike",
+            "line_az",
+            "line_angle",
+            "app_dip",
+        )
         columns = [[str(v) for v in labels], list(fids)]
         columns += [[_null(v) for v in record[name].tolist()] for name in numeric]
         columns.append([str(v) for v in record["dips_to"]])
-        columns += [[_null(v) for v in record[name].tolist()] for name in ("plot_dip",
-                                                                            "app_dip_sd")]
+        columns += [
+            [_null(v) for v in record[name].tolist()] for name in ("plot_dip", "app_dip_sd")
+        ]
         columns.append([str(v) for v in record["flags"]])
         return zip(*columns)
 

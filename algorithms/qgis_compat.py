@@ -4,6 +4,7 @@ QGIS moved many enums into the scoped ``Qgis`` namespace (3.30 and later)
 and field types from ``QVariant`` to ``QMetaType`` (3.38); QGIS 4 drops the
 old spellings. Everything else imports these names from here.
 """
+
 from qgis.core import Qgis, QgsProcessing, QgsProcessingParameterNumber, QgsUnitTypes, QgsWkbTypes
 from qgis.PyQt.QtCore import QVariant
 
@@ -19,12 +20,12 @@ MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", QgsWkbTypes.MultiLineS
 
 SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", QgsProcessing.TypeVectorLine)
 SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.TypeVectorPoint)
-SOURCE_POLYGONS = _scoped("ProcessingSourceType", "VectorPolygon",
-                          QgsProcessing.TypeVectorPolygon)
+SOURCE_POLYGONS = _scoped("ProcessingSourceType", "VectorPolygon", QgsProcessing.TypeVectorPolygon)
 SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", QgsProcessing.TypeVector)
 
-NUMBER_DOUBLE = _scoped("ProcessingNumberParameterType", "Double",
-                        QgsProcessingParameterNumber.Double)
+NUMBER_DOUBLE = _scoped(
+    "ProcessingNumberParameterType", "Double", QgsProcessingParameterNumber.Double
+)
 
 CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
 
@@ -32,6 +33,7 @@ UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
 
 if Qgis.QGIS_VERSION_INT >= 33800:
     from qgis.PyQt.QtCore import QMetaType
+
     DOUBLE = QMetaType.Type.Double
     LONG = QMetaType.Type.LongLong
     STRING = QMetaType.Type.QString

@@ -1,29 +1,39 @@
 """Reading the section lines: working CRS, labels, parts, bad geometry."""
+
 from dataclasses import dataclass
 from typing import Optional
 
 import numpy as np
 import shapely
-from qgis.core import (NULL, QgsCoordinateReferenceSystem, QgsCoordinateTransform,
-                       QgsCsException, QgsFeatureRequest, QgsGeometry,
-                       QgsProcessingException, QgsProcessingFeatureSource)
+from qgis.core import (
+    NULL,
+    QgsCoordinateReferenceSystem,
+    QgsCoordinateTransform,
+    QgsCsException,
+    QgsFeatureRequest,
+    QgsGeometry,
+    QgsProcessingException,
+    QgsProcessingFeatureSource,
+)
 
 from .core.crs import utm_epsg
 from .core.lines import drop_repeated_vertices
 from .qgis_compat import UNIT_METERS, is_curved, unit_name
 
-WKT2 = getattr(QgsCoordinateReferenceSystem, "WKT2_2019",
-               QgsCoordinateReferenceSystem.WKT_PREFERRED)
+WKT2 = getattr(
+    QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED
+)
 WGS84 = QgsCoordinateReferenceSystem("EPSG:4326")
 
 
 @dataclass
 class SectionPart:
     """One single-part section line in the working CRS, or why it is unusable."""
+
     label: str
     fid: int
-    geometry: QgsGeometry          # the input feature's geometry, as read
-    coords: Optional[np.ndarray]   # (n, 2) working-CRS vertices; None when skipped
+    geometry: QgsGeometry  # the input feature's geometry, as read
+    coords: Optional[np.ndarray]  # (n, 2) working-CRS vertices; None when skipped
     reason: str = ""
 
 
@@ -38,17 +48,23 @@ def working_crs(source, context, feedback):
     if not crs.isValid():
         raise QgsProcessingException(
             "INPUT: the section lines have no coordinate reference system. "
-            "Set one in the layer's properties (Source) and run again.")
+            "Set one in the layer's properties (Source) and run again."
+        )
     if not crs.isGeographic():
         if crs.mapUnits() != UNIT_METERS:
-            feedback.pushInfo(f"Chainages and distances are in "
-                              f"{unit_name(crs.mapUnits())}, the unit of {crs.authid()}.")
+            feedback.pushInfo(
+                f"Chainages and distances are in "
+                f"{unit_name(crs.mapUnits())}, the unit of {crs.authid()}."
+            )
         return crs
     centre = QgsCoordinateTransform(crs, WGS84, context.transformContext()).transform(
-        source.sourceExtent().center())
+        source.sourceExtent().center()
+    )
     work = QgsCoordinateReferenceSystem(f"EPSG:{utm_epsg(centre.x(), centre.y())}")
-    feedback.pushInfo(f"The section lines are in a geographic CRS ({crs.authid()}); "
-                      f"working CRS: {work.authid()} {work.description()}, in metres.")
+    feedback.pushInfo(
+        f"The section lines are in a geographic CRS ({crs.authid()}); "
+        f"working CRS: {work.authid()} {work.description()}, in metres."
+    )
     return work
 
 
@@ -84,12 +100,12 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
     Unusable parts come back with ``coords`` None and a reason, so that the
     caller accounts for them in SKIPPED.
     """
-    to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs,
-                                        context.transformContext())
+    to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
     sections = []
     # Degenerate lines are ours to report in SKIPPED, not Processing's to refuse.
-    features = source.getFeatures(QgsFeatureRequest(),
-                                  QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks)
+    features = source.getFeatures(
+        QgsFeatureRequest(), QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks
+    )
     for feature in features:
         if feedback.isCanceled():
             break
@@ -100,13 +116,16 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
             sections.append(SectionPart(label, feature.id(), geometry, None, reason))
             continue
         if len(parts) > 1:
-            feedback.pushInfo(f"Section {label} has {len(parts)} parts: "
-                              f"processed as {label}#1 … {label}#{len(parts)}.")
+            feedback.pushInfo(
+                f"Section {label} has {len(parts)} parts: "
+                f"processed as {label}#1 … {label}#{len(parts)}."
+            )
         for number, coords in enumerate(parts, start=1):
             part_label = f"{label}#{number}" if len(parts) > 1 else label
             if len(coords) < 2:
-                sections.append(SectionPart(part_label, feature.id(), geometry, None,
-                                            "zero-length line"))
+                sections.append(
+                    SectionPart(part_label, feature.id(), geometry, None, "zero-length line")
+                )
             else:
                 sections.append(SectionPart(part_label, feature.id(), geometry, coords))
     return sections

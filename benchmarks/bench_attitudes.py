@@ -11,6 +11,7 @@ strike), the same through processing.run with temporary outputs, and the
 straightforward shapely approach (tree query within reach + distance +
 line_locate_point on every pair) as a reference.
 """
+
 import sys
 import time
 from pathlib import Path
@@ -47,9 +48,16 @@ def best_of(repeat, function):
 def core(coords, xy, dip_direction, dip, method):
     from sectionwright.algorithms.core.carry import CarryOptions, carry_attitudes
     from sectionwright.algorithms.core.projection import SectionNetwork
+
     network = SectionNetwork(coords, 2 * REACH)
-    record = carry_attitudes(network, xy, np.full(len(xy), 500.0), dip_direction, dip,
-                             CarryOptions(method=method, max_distance=REACH))
+    record = carry_attitudes(
+        network,
+        xy,
+        np.full(len(xy), 500.0),
+        dip_direction,
+        dip,
+        CarryOptions(method=method, max_distance=REACH),
+    )
     return int((record["line"] >= 0).sum())
 
 
@@ -67,6 +75,7 @@ def shapely_reference(coords, xy):
 def through_processing(coords, xy, dip_direction, dip):
     import processing
     from qgis.core import QgsFeature, QgsGeometry, QgsPointXY, QgsVectorLayer
+
     lines = QgsVectorLayer("LineString?crs=EPSG:32633&field=name:string", "l", "memory")
     features = []
     for i, c in enumerate(coords):
@@ -85,16 +94,27 @@ def through_processing(coords, xy, dip_direction, dip):
     points.dataProvider().addFeatures(features)
 
     def run():
-        result = processing.run("sectionwright:projectattitudes", {
-            "INPUT": lines, "LINE_ID_FIELD": "name", "ATTITUDES": points, "CONVENTION": 0,
-            "AZIMUTH_FIELD": "az", "DIP_FIELD": "dip", "MAX_DISTANCE": REACH,
-            "OUTPUT": "memory:", "OUTPUT_TICKS": "memory:"})
+        result = processing.run(
+            "sectionwright:projectattitudes",
+            {
+                "INPUT": lines,
+                "LINE_ID_FIELD": "name",
+                "ATTITUDES": points,
+                "CONVENTION": 0,
+                "AZIMUTH_FIELD": "az",
+                "DIP_FIELD": "dip",
+                "MAX_DISTANCE": REACH,
+                "OUTPUT": "memory:",
+                "OUTPUT_TICKS": "memory:",
+            },
+        )
         return result["OUTPUT"].featureCount()
+
     return run
 
 
 def main():
-    app, provider = bench_profile.start_qgis()   # keep the provider alive
+    app, provider = bench_profile.start_qgis()  # keep the provider alive
     print(f"{'points':>8}{'lines':>7}  {'method':<34}{'seconds':>9}{'carried':>9}{'µs/point':>10}")
     for points, lines in ((10_000, 50), (100_000, 50), (100_000, 1_000)):
         coords, xy, dip_direction, dip = scenario(points, lines)
@@ -104,13 +124,17 @@ def main():
             ("core, perpendicular", lambda: lambda: core(coords, xy, dip_direction, dip, 0)),
             ("core, along strike", lambda: lambda: core(coords, xy, dip_direction, dip, 1)),
             ("shapely reference (perpendicular)", lambda: lambda: shapely_reference(coords, xy)),
-            ("processing.run, perpendicular",
-             lambda: through_processing(coords, xy, dip_direction, dip)),
+            (
+                "processing.run, perpendicular",
+                lambda: through_processing(coords, xy, dip_direction, dip),
+            ),
         ]
         for name, prepare in rows:
             seconds, carried = best_of(1 if "processing" in name else 3, prepare())
-            print(f"{points:>8}{lines:>7}  {name:<34}{seconds:>9.3f}{carried:>9}"
-                  f"{1e6 * seconds / points:>10.2f}")
+            print(
+                f"{points:>8}{lines:>7}  {name:<34}{seconds:>9.3f}{carried:>9}"
+                f"{1e6 * seconds / points:>10.2f}"
+            )
     app.exitQgis()
 
 

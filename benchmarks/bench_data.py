@@ -8,6 +8,7 @@ both 20 km square, tiled 256 × 256, DEFLATE, Float32 — the way real DEMs
 arrive; ``lines.gpkg``: 50 section lines of 15 km with 2–4 vertices.
 Files that exist are kept (the 1 m DEM takes minutes to write).
 """
+
 import sys
 from pathlib import Path
 
@@ -17,7 +18,7 @@ from osgeo import gdal, ogr, osr
 gdal.UseExceptions()
 
 EPSG = 32633
-ORIGIN = (400000.0, 5000000.0)     # south-west corner
+ORIGIN = (400000.0, 5000000.0)  # south-west corner
 SIDE = 20000.0
 LINE_LENGTH = 15000.0
 LINES = 50
@@ -27,16 +28,31 @@ SEED = 15
 def surface(x, y):
     """Hilly ground with slopes up to ~30°, so nearest-cell errors show."""
     u, v = x - ORIGIN[0], y - ORIGIN[1]
-    return (600.0 + 250.0 * np.sin(u / 900.0) * np.cos(v / 700.0)
-            + 60.0 * np.sin((u + 2 * v) / 170.0) + 0.002 * u)
+    return (
+        600.0
+        + 250.0 * np.sin(u / 900.0) * np.cos(v / 700.0)
+        + 60.0 * np.sin((u + 2 * v) / 170.0)
+        + 0.002 * u
+    )
 
 
 def write_dem(path, cell):
     size = int(SIDE / cell)
     ds = gdal.GetDriverByName("GTiff").Create(
-        str(path), size, size, 1, gdal.GDT_Float32,
-        ["TILED=YES", "BLOCKXSIZE=256", "BLOCKYSIZE=256", "COMPRESS=DEFLATE",
-         "NUM_THREADS=ALL_CPUS", "BIGTIFF=IF_SAFER"])
+        str(path),
+        size,
+        size,
+        1,
+        gdal.GDT_Float32,
+        [
+            "TILED=YES",
+            "BLOCKXSIZE=256",
+            "BLOCKYSIZE=256",
+            "COMPRESS=DEFLATE",
+            "NUM_THREADS=ALL_CPUS",
+            "BIGTIFF=IF_SAFER",
+        ],
+    )
     ds.SetGeoTransform((ORIGIN[0], cell, 0.0, ORIGIN[1] + SIDE, 0.0, -cell))
     ref = osr.SpatialReference()
     ref.ImportFromEPSG(EPSG)

@@ -9,6 +9,7 @@ lines of 15 km, on the 5 m benchmark DEM; then half and a quarter of the
 geology on the same lines, to show how the time grows with the map. Whole algorithm through
 processing.run, temporary outputs, best of 2.
 """
+
 import sys
 import time
 from pathlib import Path
@@ -24,7 +25,9 @@ import bench_profile  # noqa: E402
 
 def memory_layer(kind, geometries, fields, rows):
     from qgis.core import QgsFeature, QgsVectorLayer
+
     from sectionwright.algorithms.geometry_io import to_qgis
+
     spec = "&".join(f"field={name}:string" for name in fields)
     layer = QgsVectorLayer(f"{kind}?crs=EPSG:{bench_data.EPSG}&{spec}", kind, "memory")
     features = []
@@ -49,35 +52,53 @@ def geology(scale, seed=3):
     for _ in range(int(20000 * scale)):
         steps = rng.normal(0, 1, (rng.integers(4, 10), 2)) * rng.uniform(60, 120)
         walks.append(origin + rng.uniform(1000, side - 1000, 2) + np.cumsum(steps, axis=0))
-    contacts = shapely.linestrings(np.concatenate(walks),
-                                   indices=np.repeat(np.arange(len(walks)), [len(w) for w in walks]))
+    contacts = shapely.linestrings(
+        np.concatenate(walks), indices=np.repeat(np.arange(len(walks)), [len(w) for w in walks])
+    )
     kinds = [("fault" if rng.random() < 0.2 else "contact",) for _ in walks]
     lines = [shapely.LineString(bench_data.line_vertices(rng)) for _ in range(100)]
-    return (memory_layer("Polygon", cells, ["unit"], units),
-            memory_layer("LineString", contacts, ["type"], kinds),
-            memory_layer("LineString", lines, ["name"], [(f"S{i}",) for i in range(len(lines))]))
+    return (
+        memory_layer("Polygon", cells, ["unit"], units),
+        memory_layer("LineString", contacts, ["type"], kinds),
+        memory_layer("LineString", lines, ["name"], [(f"S{i}",) for i in range(len(lines))]),
+    )
 
 
 def main():
-    app, provider = bench_profile.start_qgis()   # keep the provider alive
+    app, provider = bench_profile.start_qgis()  # keep the provider alive
     import processing
+
     dem = str(bench_data.make(HERE / "data") / "dem_5m.tif")
-    print(f"{'scale':>6}{'polygons':>10}{'contacts':>10}{'lines':>7}{'seconds':>9}"
-          f"{'crossings':>11}{'intervals':>11}")
+    print(
+        f"{'scale':>6}{'polygons':>10}{'contacts':>10}{'lines':>7}{'seconds':>9}"
+        f"{'crossings':>11}{'intervals':>11}"
+    )
     for scale in (0.25, 0.5, 1.0):
         units, contacts, lines = geology(scale)
         best = None
         for _repeat in range(2):
             started = time.perf_counter()
-            result = processing.run("sectionwright:geologycrossings", {
-                "INPUT": lines, "LINE_ID_FIELD": "name", "DEM": dem, "UNITS": units,
-                "UNIT_FIELD": "unit", "CONTACTS": contacts, "CONTACT_TYPE_FIELD": "type",
-                "OUTPUT": "memory:", "OUTPUT_INTERVALS": "memory:"})
+            result = processing.run(
+                "sectionwright:geologycrossings",
+                {
+                    "INPUT": lines,
+                    "LINE_ID_FIELD": "name",
+                    "DEM": dem,
+                    "UNITS": units,
+                    "UNIT_FIELD": "unit",
+                    "CONTACTS": contacts,
+                    "CONTACT_TYPE_FIELD": "type",
+                    "OUTPUT": "memory:",
+                    "OUTPUT_INTERVALS": "memory:",
+                },
+            )
             seconds = time.perf_counter() - started
             best = seconds if best is None else min(best, seconds)
-        print(f"{scale:>6}{units.featureCount():>10}{contacts.featureCount():>10}"
-              f"{lines.featureCount():>7}{best:>9.2f}{result['OUTPUT'].featureCount():>11}"
-              f"{result['OUTPUT_INTERVALS'].featureCount():>11}")
+        print(
+            f"{scale:>6}{units.featureCount():>10}{contacts.featureCount():>10}"
+            f"{lines.featureCount():>7}{best:>9.2f}{result['OUTPUT'].featureCount():>11}"
+            f"{result['OUTPUT_INTERVALS'].featureCount():>11}"
+        )
     app.exitQgis()
 
 

@@ -9,6 +9,7 @@ in one run so that the ratios compare like with like on a noisy machine.
 Prints a table: seconds (best of N), samples per second, error against the
 analytic surface, and peak memory above an idle QGIS process.
 """
+
 import argparse
 import json
 import os
@@ -24,7 +25,7 @@ HERE = Path(__file__).resolve().parent
 ROOT = HERE.parent
 STEP = 5.0
 METHODS = ("sectionwright", "points_chain", "drape_chain", "sampling_core", "decode_floor")
-OUTPUTS = ("memory", "gpkg")   # final outputs as temporary layers or GeoPackage files
+OUTPUTS = ("memory", "gpkg")  # final outputs as temporary layers or GeoPackage files
 
 
 def memory_kb(key):
@@ -37,30 +38,37 @@ def memory_kb(key):
 def start_qgis():
     os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
     from qgis.core import QgsApplication
+
     app = QgsApplication([], False)
     app.initQgis()
     sys.path.append(str(Path(QgsApplication.pkgDataPath()) / "python" / "plugins"))
     from processing.core.Processing import Processing
     from qgis.analysis import QgsNativeAlgorithms
+
     Processing.initialize()
     QgsApplication.processingRegistry().addProvider(QgsNativeAlgorithms())
     sys.path.insert(0, str(ROOT / "tests"))
     import conftest  # noqa: F401  (imports the checkout as package 'sectionwright')
+
     from sectionwright.plugin.provider import SectionwrightProvider
+
     provider = SectionwrightProvider()
     QgsApplication.processingRegistry().addProvider(provider)
     return app, provider
 
 
 def xyz_of_points(layer, z_field):
-    rows = [(f.geometry().constGet().x(), f.geometry().constGet().y(), f[z_field])
-            for f in layer.getFeatures()]
+    rows = [
+        (f.geometry().constGet().x(), f.geometry().constGet().y(), f[z_field])
+        for f in layer.getFeatures()
+    ]
     return np.array([[x, y, np.nan if z is None or z != z else float(z)] for x, y, z in rows])
 
 
 def xyz_of_vertices(layer):
-    return np.array([[v.x(), v.y(), v.z()] for f in layer.getFeatures()
-                     for v in f.geometry().vertices()])
+    return np.array(
+        [[v.x(), v.y(), v.z()] for f in layer.getFeatures() for v in f.geometry().vertices()]
+    )
 
 
 def output(name):
@@ -74,44 +82,70 @@ def output(name):
 
 def layer(result):
     from qgis.core import QgsVectorLayer
+
     return result if not isinstance(result, str) else QgsVectorLayer(result)
 
 
 def run_sectionwright(lines, dem):
     import processing
-    result = processing.run("sectionwright:profile", {
-        "INPUT": lines, "DEM": dem, "STEP": STEP, "OUTPUT": output("points"),
-        "OUTPUT_SECTION": output("section")})
+
+    result = processing.run(
+        "sectionwright:profile",
+        {
+            "INPUT": lines,
+            "DEM": dem,
+            "STEP": STEP,
+            "OUTPUT": output("points"),
+            "OUTPUT_SECTION": output("section"),
+        },
+    )
     return lambda: xyz_of_points(layer(result["OUTPUT"]), "elev")
 
 
 def run_points_chain(lines, dem):
     import processing
-    points = processing.run("native:pointsalonglines", {
-        "INPUT": lines, "DISTANCE": STEP, "START_OFFSET": 0, "END_OFFSET": 0,
-        "OUTPUT": "memory:"})["OUTPUT"]
-    sampled = processing.run("native:rastersampling", {
-        "INPUT": points, "RASTERCOPY": dem, "COLUMN_PREFIX": "z_", "OUTPUT": output("points")})
+
+    points = processing.run(
+        "native:pointsalonglines",
+        {"INPUT": lines, "DISTANCE": STEP, "START_OFFSET": 0, "END_OFFSET": 0, "OUTPUT": "memory:"},
+    )["OUTPUT"]
+    sampled = processing.run(
+        "native:rastersampling",
+        {"INPUT": points, "RASTERCOPY": dem, "COLUMN_PREFIX": "z_", "OUTPUT": output("points")},
+    )
     return lambda: xyz_of_points(layer(sampled["OUTPUT"]), "z_1")
 
 
 def run_drape_chain(lines, dem):
     import processing
-    dense = processing.run("native:densifygeometriesgivenaninterval", {
-        "INPUT": lines, "INTERVAL": STEP, "OUTPUT": "memory:"})["OUTPUT"]
-    draped = processing.run("native:setzfromraster", {
-        "INPUT": dense, "RASTER": dem, "BAND": 1, "NODATA": -9999, "SCALE": 1,
-        "OUTPUT": output("draped")})
+
+    dense = processing.run(
+        "native:densifygeometriesgivenaninterval",
+        {"INPUT": lines, "INTERVAL": STEP, "OUTPUT": "memory:"},
+    )["OUTPUT"]
+    draped = processing.run(
+        "native:setzfromraster",
+        {
+            "INPUT": dense,
+            "RASTER": dem,
+            "BAND": 1,
+            "NODATA": -9999,
+            "SCALE": 1,
+            "OUTPUT": output("draped"),
+        },
+    )
     return lambda: xyz_of_vertices(layer(draped["OUTPUT"]))
 
 
 def touched_tiles(lines, dem):
     """The 256 x 256 tiles the bilinear footprints of the samples touch."""
+    import shapely
     from osgeo import gdal
+    from qgis.core import QgsVectorLayer
+
     from sectionwright.algorithms.core.profile import profile_samples
     from sectionwright.algorithms.core.raster_sampling import centre_index
-    import shapely
-    from qgis.core import QgsVectorLayer
+
     layer = QgsVectorLayer(lines)
     inverse = gdal.InvGeoTransform(gdal.Open(dem).GetGeoTransform())
     keys = set()
@@ -130,12 +164,18 @@ def touched_tiles(lines, dem):
 def run_sampling_core(lines, dem):
     """Sectionwright's sampling alone (DEM reads and interpolation, no
     features written): what the algorithm costs beyond QGIS's sink."""
-    from qgis.core import QgsCoordinateReferenceSystem, QgsRasterLayer, QgsVectorLayer
     import shapely
+    from qgis.core import QgsCoordinateReferenceSystem, QgsRasterLayer, QgsVectorLayer
+
     from sectionwright.algorithms.core.profile import profile_samples
     from sectionwright.algorithms.dem import DemSampler, sample_ahead
-    positions = [profile_samples(shapely.get_coordinates(shapely.from_wkb(
-        bytes(f.geometry().asWkb()))), STEP)[1] for f in QgsVectorLayer(lines).getFeatures()]
+
+    positions = [
+        profile_samples(
+            shapely.get_coordinates(shapely.from_wkb(bytes(f.geometry().asWkb()))), STEP
+        )[1]
+        for f in QgsVectorLayer(lines).getFeatures()
+    ]
     started = time.perf_counter()
     sampler = DemSampler(QgsRasterLayer(dem), 1, 1.0, QgsCoordinateReferenceSystem("EPSG:32633"))
     elevations = [z for _, z in sample_ahead(enumerate(positions), sampler)]
@@ -147,6 +187,7 @@ def run_sampling_core(lines, dem):
 def run_decode_floor(lines, dem):
     """Only decompress the tiles the lines need, once each."""
     from osgeo import gdal
+
     tiles = touched_tiles(lines, dem)
     started = time.perf_counter()
     dataset = gdal.Open(dem)
@@ -166,9 +207,11 @@ def measure_one(method, dem, output_kind):
     global OUTPUT_KIND
     OUTPUT_KIND = output_kind
     from osgeo import gdal
+
     app, _ = start_qgis()
     sys.path.insert(0, str(HERE))
     import bench_data
+
     lines = str(HERE / "data" / "lines.fgb")
     idle_kb = memory_kb("VmHWM")
     runner = globals()[f"run_{method}"]
@@ -176,9 +219,15 @@ def measure_one(method, dem, output_kind):
     extract = runner(lines, dem)
     seconds = time.perf_counter() - started
     peak_kb = memory_kb("VmHWM")
-    report = {"method": method, "dem": Path(dem).name, "output": output_kind, "seconds": seconds,
-              "idle_mb": idle_kb / 1024, "extra_mb": (peak_kb - idle_kb) / 1024,
-              "gdal_cache_mb": gdal.GetCacheMax() / 2 ** 20}
+    report = {
+        "method": method,
+        "dem": Path(dem).name,
+        "output": output_kind,
+        "seconds": seconds,
+        "idle_mb": idle_kb / 1024,
+        "extra_mb": (peak_kb - idle_kb) / 1024,
+        "gdal_cache_mb": gdal.GetCacheMax() / 2**20,
+    }
     if method == "decode_floor":
         report.update(seconds=run_decode_floor.seconds, tiles=run_decode_floor.tiles)
     else:
@@ -186,15 +235,22 @@ def measure_one(method, dem, output_kind):
             report.update(seconds=run_sampling_core.seconds)
         xyz = extract()
         error = xyz[:, 2] - bench_data.surface(xyz[:, 0], xyz[:, 1])
-        report.update(samples=len(xyz), rms_error=float(np.sqrt(np.nanmean(error ** 2))),
-                      max_error=float(np.nanmax(np.abs(error))))
+        report.update(
+            samples=len(xyz),
+            rms_error=float(np.sqrt(np.nanmean(error**2))),
+            max_error=float(np.nanmax(np.abs(error))),
+        )
     print(json.dumps(report))
     app.exitQgis()
 
 
 def run_child(method, dem, output_kind):
-    done = subprocess.run([sys.executable, __file__, "--one", method, dem, output_kind],
-                          capture_output=True, text=True, timeout=3600)
+    done = subprocess.run(
+        [sys.executable, __file__, "--one", method, dem, output_kind],
+        capture_output=True,
+        text=True,
+        timeout=3600,
+    )
     if done.returncode != 0:
         raise RuntimeError(done.stderr[-3000:])
     return json.loads(done.stdout.strip().splitlines()[-1])
@@ -209,13 +265,17 @@ def main():
         return measure_one(*args.one)
     sys.path.insert(0, str(HERE))
     import bench_data
+
     data = bench_data.make(HERE / "data")
     best = {}
     for dem_name in ("dem_5m.tif", "dem_1m.tif"):
         for _ in range(args.repeat):
             for method in METHODS:
-                kinds = OUTPUTS if method in ("sectionwright", "points_chain", "drape_chain") \
+                kinds = (
+                    OUTPUTS
+                    if method in ("sectionwright", "points_chain", "drape_chain")
                     else ("none",)
+                )
                 for kind in kinds:
                     report = run_child(method, str(data / dem_name), kind)
                     key = (dem_name, method, kind)
@@ -227,30 +287,40 @@ def main():
 
 
 def print_table(best):
-    print(f"{'DEM':<11}{'method':<15}{'output':<8}{'s (best)':>9}{'samples':>9}"
-          f"{'samples/s':>11}{'rms err m':>10}{'max err m':>10}{'peak+ MB':>9}")
+    print(
+        f"{'DEM':<11}{'method':<15}{'output':<8}{'s (best)':>9}{'samples':>9}"
+        f"{'samples/s':>11}{'rms err m':>10}{'max err m':>10}{'peak+ MB':>9}"
+    )
     for (dem, method, kind), r in best.items():
         samples = r.get("samples", 0)
         rate = f"{samples / r['seconds']:>11.0f}" if samples else f"{'-':>11}"
         rms = f"{r['rms_error']:>10.3f}" if "rms_error" in r else f"{'-':>10}"
         top = f"{r['max_error']:>10.3f}" if "max_error" in r else f"{'-':>10}"
-        print(f"{dem:<11}{method:<15}{kind:<8}{r['seconds']:>9.3f}{samples:>9}{rate}{rms}{top}"
-              f"{r['extra_mb']:>9.1f}")
-    print(f"peak+ = peak resident memory above the idle QGIS process "
-          f"({next(iter(best.values()))['idle_mb']:.0f} MB)")
+        print(
+            f"{dem:<11}{method:<15}{kind:<8}{r['seconds']:>9.3f}{samples:>9}{rate}{rms}{top}"
+            f"{r['extra_mb']:>9.1f}"
+        )
+    print(
+        f"peak+ = peak resident memory above the idle QGIS process "
+        f"({next(iter(best.values()))['idle_mb']:.0f} MB)"
+    )
     for dem in ("dem_5m.tif", "dem_1m.tif"):
         for kind in OUTPUTS:
             ours = best[(dem, "sectionwright", kind)]
             rate = ours["samples"] / ours["seconds"]
             for other in ("points_chain", "drape_chain"):
                 r = best[(dem, other, kind)]
-                print(f"{dem} {kind}: sectionwright throughput / {other} = "
-                      f"{rate / (r['samples'] / r['seconds']):.2f}")
+                print(
+                    f"{dem} {kind}: sectionwright throughput / {other} = "
+                    f"{rate / (r['samples'] / r['seconds']):.2f}"
+                )
         floor = best[(dem, "decode_floor", "none")]
         for method, kind in (("sectionwright", "memory"), ("sampling_core", "none")):
-            print(f"{dem}: {method} ({kind}) time / decode floor = "
-                  f"{best[(dem, method, kind)]['seconds'] / floor['seconds']:.2f} "
-                  f"({floor['tiles']} tiles)")
+            print(
+                f"{dem}: {method} ({kind}) time / decode floor = "
+                f"{best[(dem, method, kind)]['seconds'] / floor['seconds']:.2f} "
+                f"({floor['tiles']} tiles)"
+            )
 
 
 if __name__ == "__main__":

@@ -1,5 +1,6 @@
 """Checks that QGIS's Python has what the computation needs, and says
 exactly what to install when it does not."""
+
 import importlib
 import sys
 
@@ -39,10 +40,11 @@ def install_advice(missing):
     return (
         "Sectionwright needs Python packages that this QGIS does not have: "
         f"{', '.join(missing)}. Install them into QGIS's Python, then restart QGIS.\n"
-        f"  Windows (OSGeo4W Shell) or macOS: \"{sys.executable}\" -m pip install {requirements}\n"
+        f'  Windows (OSGeo4W Shell) or macOS: "{sys.executable}" -m pip install {requirements}\n'
         f"  Linux: python3 -m pip install --user {requirements}\n"
         "On Debian 12 / Ubuntu 22.04 the distribution's shapely is 1.8, too old: "
-        "use the pip command (with --break-system-packages where pip asks for it).")
+        "use the pip command (with --break-system-packages where pip asks for it)."
+    )
 
 
 def ensure_proj_data():
@@ -50,6 +52,7 @@ def ensure_proj_data():
     (typical for a pip-installed pyproj beside a distribution's QGIS)."""
     import pyproj.datadir
     from qgis.core import QgsProjUtils
+
     try:
         pyproj.datadir.get_data_dir()
         return

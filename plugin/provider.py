@@ -1,4 +1,5 @@
 """The Processing provider: id ``sectionwright``."""
+
 from pathlib import Path
 
 from qgis.core import QgsProcessingProvider
@@ -12,7 +13,6 @@ def icon():
 
 
 class SectionwrightProvider(QgsProcessingProvider):
-
     def id(self):
         return "sectionwright"
 
@@ -27,5 +27,6 @@ class SectionwrightProvider(QgsProcessingProvider):
 
     def loadAlgorithms(self):
         from ..algorithms import all_algorithms
+
         for algorithm in all_algorithms():
             self.addAlgorithm(algorithm)

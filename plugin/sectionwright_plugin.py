@@ -1,16 +1,15 @@
 """The plugin object QGIS creates: registers the provider, or explains what
 is missing."""
+
 from qgis.core import QgsApplication, QgsMessageLog
 
 from ..algorithms.qgis_compat import CRITICAL
-
 from .dependencies import ensure_proj_data, install_advice, missing_requirements
 
 LOG_TAG = "Sectionwright"
 
 
 class SectionwrightPlugin:
-
     def __init__(self, iface):
         self.iface = iface
         self.provider = None
@@ -28,6 +27,7 @@ class SectionwrightPlugin:
             return
         ensure_proj_data()
         from .provider import SectionwrightProvider
+
         self.provider = SectionwrightProvider()
         QgsApplication.processingRegistry().addProvider(self.provider)
 
@@ -45,5 +45,5 @@ class SectionwrightPlugin:
         QgsMessageLog.logMessage(advice, LOG_TAG, CRITICAL)
         if self.iface is not None and hasattr(self.iface, "messageBar"):
             self.iface.messageBar().pushMessage(
-                LOG_TAG, advice.splitlines()[0] + " See the log for the command.",
-                CRITICAL, 0)
+                LOG_TAG, advice.splitlines()[0] + " See the log for the command.", CRITICAL, 0
+            )

@@ -4,12 +4,29 @@ Twelve colours chosen for this project: muted, told apart by lightness as
 well as hue so that a strip printed in black and white still shows its
 boundaries. Units take them in the alphabetical order of their labels.
 """
-from qgis.core import (QgsCategorizedSymbolRenderer, QgsLineSymbol, QgsRendererCategory,
-                       QgsProcessingLayerPostProcessorInterface)
+
+from qgis.core import (
+    QgsCategorizedSymbolRenderer,
+    QgsLineSymbol,
+    QgsProcessingLayerPostProcessorInterface,
+    QgsRendererCategory,
+)
 from qgis.PyQt.QtGui import QColor
 
-UNIT_COLOURS = ("#e6d5a3", "#8c5a3c", "#9dbf8a", "#5b6f8f", "#d9a441", "#c7a3c2",
-                "#4d6b4a", "#e3b8a0", "#7a7a7a", "#a8cfd0", "#9c4f4f", "#cfc9e8")
+UNIT_COLOURS = (
+    "#e6d5a3",
+    "#8c5a3c",
+    "#9dbf8a",
+    "#5b6f8f",
+    "#d9a441",
+    "#c7a3c2",
+    "#4d6b4a",
+    "#e3b8a0",
+    "#7a7a7a",
+    "#a8cfd0",
+    "#9c4f4f",
+    "#cfc9e8",
+)
 NO_UNIT_COLOUR = "#ffffff"
 STRIP_WIDTH_MM = 2.6
 
@@ -29,10 +46,12 @@ def unit_strip_renderer(units, field):
 
 
 def _band(colour):
-    symbol = QgsLineSymbol.createSimple({"line_color": "#3a3a3a",
-                                         "line_width": str(STRIP_WIDTH_MM + 0.4)})
-    inner = QgsLineSymbol.createSimple({"line_color": colour.name(),
-                                        "line_width": str(STRIP_WIDTH_MM)})
+    symbol = QgsLineSymbol.createSimple(
+        {"line_color": "#3a3a3a", "line_width": str(STRIP_WIDTH_MM + 0.4)}
+    )
+    inner = QgsLineSymbol.createSimple(
+        {"line_color": colour.name(), "line_width": str(STRIP_WIDTH_MM)}
+    )
     symbol.appendSymbolLayer(inner.symbolLayer(0).clone())
     return symbol
 

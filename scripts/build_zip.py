@@ -7,6 +7,7 @@ root ``__init__.py``, ``metadata.txt``, ``README.md``, ``plugin/`` and
 ``algorithms/``. Install it with Plugins → Manage and Install Plugins →
 Install from ZIP.
 """
+
 import sys
 import zipfile
 from pathlib import Path

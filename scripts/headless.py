@@ -7,6 +7,7 @@ link to this checkout), loads it when enabled in the settings of the
 profile that ``QGIS_CUSTOM_CONFIG_PATH`` names (a throwaway one), and runs
 the system Python, so the venv's packages (shapely 2) go on ``PYTHONPATH``.
 """
+
 import json
 import os
 import shutil
@@ -42,9 +43,13 @@ def prepare(work_dir, plugin_source=ROOT):
 def environment(plugins, profile):
     env = dict(os.environ)
     site_packages = sysconfig.get_paths()["purelib"]
-    env.update(QGIS_PLUGINPATH=str(plugins), QGIS_CUSTOM_CONFIG_PATH=str(profile),
-               QT_QPA_PLATFORM="offscreen", PROJ_DATA=env.get("PROJ_DATA", "/usr/share/proj"),
-               PYTHONPATH=os.pathsep.join(filter(None, [site_packages, env.get("PYTHONPATH")])))
+    env.update(
+        QGIS_PLUGINPATH=str(plugins),
+        QGIS_CUSTOM_CONFIG_PATH=str(profile),
+        QT_QPA_PLATFORM="offscreen",
+        PROJ_DATA=env.get("PROJ_DATA", "/usr/share/proj"),
+        PYTHONPATH=os.pathsep.join(filter(None, [site_packages, env.get("PYTHONPATH")])),
+    )
     return env
 
 
@@ -54,12 +59,18 @@ def run(algorithm, parameters, work_dir, timeout=600):
     runner's own message."""
     plugins, profile = prepare(work_dir)
     arguments = [f"{name}={value}" for name, value in parameters.items()]
-    done = subprocess.run([qgis_process_binary(), "--json", "run", algorithm, "--", *arguments],
-                          capture_output=True, text=True, env=environment(plugins, profile),
-                          timeout=timeout)
+    done = subprocess.run(
+        [qgis_process_binary(), "--json", "run", algorithm, "--", *arguments],
+        capture_output=True,
+        text=True,
+        env=environment(plugins, profile),
+        timeout=timeout,
+    )
     if done.returncode != 0:
-        raise RuntimeError(f"qgis_process {algorithm} failed ({done.returncode}):\n"
-                           f"{done.stdout[-2000:]}\n{done.stderr[-2000:]}")
+        raise RuntimeError(
+            f"qgis_process {algorithm} failed ({done.returncode}):\n"
+            f"{done.stdout[-2000:]}\n{done.stderr[-2000:]}"
+        )
     return json.loads(done.stdout)
 
 

@@ -7,6 +7,7 @@ section line through qgis_process — the topographic profile, then the
 attitudes carried onto the sections — writes ``sections.gpkg`` and prints a
 short summary per section.
 """
+
 import sys
 from pathlib import Path
 
@@ -20,36 +21,64 @@ import make_demo  # noqa: E402
 
 
 def run_profile(world, out):
-    return headless.run("sectionwright:profile", {
-        "INPUT": f"{world}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "DEM": f"{world}/dem.tif", "STEP": 10, "VERTICAL_EXAGGERATION": 2,
-        "OUTPUT": headless.gpkg_layer(out, "profile_points"),
-        "OUTPUT_SECTION": headless.gpkg_layer(out, "profile_section"),
-        "SKIPPED": headless.gpkg_layer(out, "profile_skipped")}, world / "qgis")
+    return headless.run(
+        "sectionwright:profile",
+        {
+            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "DEM": f"{world}/dem.tif",
+            "STEP": 10,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "profile_points"),
+            "OUTPUT_SECTION": headless.gpkg_layer(out, "profile_section"),
+            "SKIPPED": headless.gpkg_layer(out, "profile_skipped"),
+        },
+        world / "qgis",
+    )
 
 
 def run_attitudes(world, out):
-    return headless.run("sectionwright:projectattitudes", {
-        "INPUT": f"{world}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
-        "CONVENTION": 3, "TEXT_FIELD": "attitude", "MAX_DISTANCE": 500,
-        "DEM": f"{world}/dem.tif", "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
-        "UNIT_FIELD": "unit", "VERTICAL_EXAGGERATION": 2,
-        "OUTPUT": headless.gpkg_layer(out, "attitudes"),
-        "OUTPUT_TICKS": headless.gpkg_layer(out, "attitude_ticks"),
-        "OUTPUT_CONNECTORS": headless.gpkg_layer(out, "attitude_connectors"),
-        "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped")}, world / "qgis")
+    return headless.run(
+        "sectionwright:projectattitudes",
+        {
+            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
+            "CONVENTION": 3,
+            "TEXT_FIELD": "attitude",
+            "MAX_DISTANCE": 500,
+            "DEM": f"{world}/dem.tif",
+            "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
+            "UNIT_FIELD": "unit",
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "attitudes"),
+            "OUTPUT_TICKS": headless.gpkg_layer(out, "attitude_ticks"),
+            "OUTPUT_CONNECTORS": headless.gpkg_layer(out, "attitude_connectors"),
+            "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped"),
+        },
+        world / "qgis",
+    )
 
 
 def run_geology(world, out):
-    return headless.run("sectionwright:geologycrossings", {
-        "INPUT": f"{world}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "DEM": f"{world}/dem.tif", "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
-        "UNIT_FIELD": "unit", "CONTACTS": f"{world}/tarrowgill.gpkg|layername=contacts",
-        "CONTACT_TYPE_FIELD": "type", "TRACE_WINDOW": 1000, "VERTICAL_EXAGGERATION": 2,
-        "OUTPUT": headless.gpkg_layer(out, "geology_crossings"),
-        "OUTPUT_INTERVALS": headless.gpkg_layer(out, "geology_strip"),
-        "SKIPPED": headless.gpkg_layer(out, "geology_skipped")}, world / "qgis")
+    return headless.run(
+        "sectionwright:geologycrossings",
+        {
+            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "DEM": f"{world}/dem.tif",
+            "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
+            "UNIT_FIELD": "unit",
+            "CONTACTS": f"{world}/tarrowgill.gpkg|layername=contacts",
+            "CONTACT_TYPE_FIELD": "type",
+            "TRACE_WINDOW": 1000,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "geology_crossings"),
+            "OUTPUT_INTERVALS": headless.gpkg_layer(out, "geology_strip"),
+            "SKIPPED": headless.gpkg_layer(out, "geology_skipped"),
+        },
+        world / "qgis",
+    )
 
 
 def count_by_section(layer, condition=lambda feature: True):
@@ -70,14 +99,18 @@ def print_summary(out):
     contacts = count_by_section(crossings, lambda f: f.GetField("kind") != "unit boundary")
     crossings.ResetReading()
     boundaries = count_by_section(crossings, lambda f: f.GetField("kind") == "unit boundary")
-    print(f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
-          f"{'attitudes':>11}{'flagged':>9}{'unit bdys':>11}{'contacts':>10}")
+    print(
+        f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
+        f"{'attitudes':>11}{'flagged':>9}{'unit bdys':>11}{'contacts':>10}"
+    )
     for feature in data.GetLayerByName("profile_section"):
         label = feature.GetField("section")
-        print(f"{label:<8}{feature.GetField('length'):>10.1f}{samples[label]:>9d}"
-              f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}"
-              f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}"
-              f"{boundaries.get(label, 0):>11d}{contacts.get(label, 0):>10d}")
+        print(
+            f"{label:<8}{feature.GetField('length'):>10.1f}{samples[label]:>9d}"
+            f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}"
+            f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}"
+            f"{boundaries.get(label, 0):>11d}{contacts.get(label, 0):>10d}"
+        )
 
 
 def main(out_dir):
@@ -85,12 +118,18 @@ def main(out_dir):
     out = world / "sections.gpkg"
     if out.exists():
         out.unlink()
-    for title, step in (("Topographic profile", run_profile),
-                        ("Attitudes carried onto the sections", run_attitudes),
-                        ("Geology along the sections", run_geology)):
+    for title, step in (
+        ("Topographic profile", run_profile),
+        ("Attitudes carried onto the sections", run_attitudes),
+        ("Geology along the sections", run_geology),
+    ):
         report = step(world, out)
-        print(f"{title}: " + "; ".join(line for line in report["log"]["info"]
-                                        if line.startswith(("Summary:", "Skipped:"))))
+        print(
+            f"{title}: "
+            + "; ".join(
+                line for line in report["log"]["info"] if line.startswith(("Summary:", "Skipped:"))
+            )
+        )
     print_summary(out)
     print(f"\nResults in {out} (section view layers at vertical exaggeration 2).")
     print("Sections are interpretations: have them checked by a qualified geologist.")

@@ -15,6 +15,7 @@ Coordinates are WGS 84 / UTM zone 33N (EPSG:32633) metres; the area is
 10 km × 8 km with its south-west corner at ``ORIGIN``. The place, its units
 and its data are invented.
 """
+
 import numpy as np
 
 EPSG = 32633
@@ -22,22 +23,26 @@ ORIGIN = (431000.0, 5127000.0)
 SIZE = (10000.0, 8000.0)
 DEM_CELL = 25.0
 
-FOLD_TREND = 35.0             # degrees, azimuth of the fold axis
-FOLD_PLUNGE = 8.0             # degrees, toward FOLD_TREND
-FOLD_AMPLITUDE = 500.0        # metres
-FOLD_WAVELENGTH = 5000.0      # metres, across the axis
+FOLD_TREND = 35.0  # degrees, azimuth of the fold axis
+FOLD_PLUNGE = 8.0  # degrees, toward FOLD_TREND
+FOLD_AMPLITUDE = 500.0  # metres
+FOLD_WAVELENGTH = 5000.0  # metres, across the axis
 FOLD_CENTRE = (5000.0, 4000.0)  # local coordinates of a point on the crest line
 
 FAULT_POINT = (5200.0, 5200.0)  # local coordinates of a point on the fault trace
 FAULT_STRIKE = 120.0
-FAULT_THROW = 150.0           # metres, north-east block down
+FAULT_THROW = 150.0  # metres, north-east block down
 
 # Units from youngest (top) to oldest; CONTACT_LEVELS[k] is the elevation of
 # the base of UNITS[k] on the fold's reference surface.
 UNITS = ("HWM", "BRS", "COL", "DNG", "ASH")
-UNIT_NAMES = {"HWM": "Harrow Moss Mudstone", "BRS": "Brackenrigg Sandstone",
-              "COL": "Colley Limestone", "DNG": "Dunnage Grits",
-              "ASH": "Ashlow Slates"}
+UNIT_NAMES = {
+    "HWM": "Harrow Moss Mudstone",
+    "BRS": "Brackenrigg Sandstone",
+    "COL": "Colley Limestone",
+    "DNG": "Dunnage Grits",
+    "ASH": "Ashlow Slates",
+}
 CONTACT_LEVELS = (820.0, 640.0, 470.0, 260.0)
 
 
@@ -48,8 +53,12 @@ def local(x, y):
 def ground(x, y):
     """Elevation of the ground surface (metres)."""
     u, v = local(x, y)
-    return (560.0 + 140.0 * np.sin(2 * np.pi * u / 7000.0) * np.cos(2 * np.pi * v / 5200.0)
-            + 70.0 * np.cos(2 * np.pi * (u + 0.6 * v) / 9000.0) + 0.012 * u)
+    return (
+        560.0
+        + 140.0 * np.sin(2 * np.pi * u / 7000.0) * np.cos(2 * np.pi * v / 5200.0)
+        + 70.0 * np.cos(2 * np.pi * (u + 0.6 * v) / 9000.0)
+        + 0.012 * u
+    )
 
 
 def _fold_frame(u, v):
@@ -72,9 +81,11 @@ def fold_surface(x, y):
     """The reference surface: contacts lie at fold_surface + level."""
     u, v = local(x, y)
     along, across = _fold_frame(u, v)
-    return (-along * np.tan(np.radians(FOLD_PLUNGE))
-            + FOLD_AMPLITUDE * np.cos(2 * np.pi * across / FOLD_WAVELENGTH)
-            - FAULT_THROW * fault_side(x, y))
+    return (
+        -along * np.tan(np.radians(FOLD_PLUNGE))
+        + FOLD_AMPLITUDE * np.cos(2 * np.pi * across / FOLD_WAVELENGTH)
+        - FAULT_THROW * fault_side(x, y)
+    )
 
 
 def contact_elevation(k, x, y):
@@ -96,8 +107,9 @@ def bedding_attitude(x, y):
     along, across = _fold_frame(u, v)
     t = np.radians(FOLD_TREND)
     d_along = -np.tan(np.radians(FOLD_PLUNGE))
-    d_across = (-FOLD_AMPLITUDE * 2 * np.pi / FOLD_WAVELENGTH
-                * np.sin(2 * np.pi * across / FOLD_WAVELENGTH))
+    d_across = (
+        -FOLD_AMPLITUDE * 2 * np.pi / FOLD_WAVELENGTH * np.sin(2 * np.pi * across / FOLD_WAVELENGTH)
+    )
     # d/du and d/dv through the rotation of _fold_frame.
     dz_du = d_along * np.sin(t) + d_across * np.cos(t)
     dz_dv = d_along * np.cos(t) - d_across * np.sin(t)

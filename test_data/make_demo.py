@@ -8,6 +8,7 @@ the tables ``surveys`` and ``intervals``. Everything is derived from the
 analytic world with a fixed random seed, so the output is reproducible; the
 files are not committed (they are remade in a second).
 """
+
 import sys
 from pathlib import Path
 
@@ -45,8 +46,13 @@ def write_dem(path):
     x, y = grid_centres(W.DEM_CELL)
     rows, cols = x.shape
     ds = gdal.GetDriverByName("GTiff").Create(
-        str(path), cols, rows, 1, gdal.GDT_Float32,
-        ["TILED=YES", "BLOCKXSIZE=128", "BLOCKYSIZE=128", "COMPRESS=DEFLATE"])
+        str(path),
+        cols,
+        rows,
+        1,
+        gdal.GDT_Float32,
+        ["TILED=YES", "BLOCKXSIZE=128", "BLOCKYSIZE=128", "COMPRESS=DEFLATE"],
+    )
     ds.SetGeoTransform(geotransform(W.DEM_CELL))
     ds.SetProjection(srs().ExportToWkt())
     band = ds.GetRasterBand(1)
@@ -105,17 +111,23 @@ def write_units(gpkg):
     mem = ogr.GetDriverByName("Memory").CreateDataSource("")
     traced = new_layer(mem, "traced", ogr.wkbPolygon, [("index", ogr.OFTInteger)])
     gdal.Polygonize(ds.GetRasterBand(1), None, traced, 0)
-    layer = new_layer(gpkg, "units", ogr.wkbPolygon,
-                      [("unit", ogr.OFTString), ("unit_name", ogr.OFTString)])
+    layer = new_layer(
+        gpkg, "units", ogr.wkbPolygon, [("unit", ogr.OFTString), ("unit_name", ogr.OFTString)]
+    )
     for feature in traced:
         code = W.UNITS[feature.GetField("index")]
-        add_feature(layer, {"unit": code, "unit_name": W.UNIT_NAMES[code]},
-                    feature.GetGeometryRef().Clone())
+        add_feature(
+            layer, {"unit": code, "unit_name": W.UNIT_NAMES[code]}, feature.GetGeometryRef().Clone()
+        )
 
 
 def write_contacts(gpkg):
-    layer = new_layer(gpkg, "contacts", ogr.wkbLineString,
-                      [("type", ogr.OFTString), ("unit_above", ogr.OFTString)])
+    layer = new_layer(
+        gpkg,
+        "contacts",
+        ogr.wkbLineString,
+        [("type", ogr.OFTString), ("unit_above", ogr.OFTString)],
+    )
     x, y = grid_centres(MAP_CELL)
     side = W.fault_side(x, y)
     mem = ogr.GetDriverByName("Memory").CreateDataSource("")
@@ -123,23 +135,33 @@ def write_contacts(gpkg):
         misfit = W.ground(x, y) - W.contact_elevation(k, x, y)
         for block in (0.0, 1.0):
             values = np.where(side == block, misfit, -99999.0)
-            traces = new_layer(mem, f"c{k}{int(block)}", ogr.wkbLineString,
-                               [("id", ogr.OFTInteger), ("level", ogr.OFTReal)])
+            traces = new_layer(
+                mem,
+                f"c{k}{int(block)}",
+                ogr.wkbLineString,
+                [("id", ogr.OFTInteger), ("level", ogr.OFTReal)],
+            )
             raster = mem_raster(values, MAP_CELL, nodata=-99999.0)
-            gdal.ContourGenerate(raster.GetRasterBand(1), 0, 0, [0.0], 1, -99999.0,
-                                 traces, 0, 1)
+            gdal.ContourGenerate(raster.GetRasterBand(1), 0, 0, [0.0], 1, -99999.0, traces, 0, 1)
             for trace in traces:
-                add_feature(layer, {"type": "contact", "unit_above": W.UNITS[k]},
-                            trace.GetGeometryRef().Clone())
+                add_feature(
+                    layer,
+                    {"type": "contact", "unit_above": W.UNITS[k]},
+                    trace.GetGeometryRef().Clone(),
+                )
     strike = np.radians(W.FAULT_STRIKE)
     reach = 20000.0
-    fault = line_geometry([(W.FAULT_POINT[0] - reach * np.sin(strike),
-                            W.FAULT_POINT[1] - reach * np.cos(strike)),
-                           (W.FAULT_POINT[0] + reach * np.sin(strike),
-                            W.FAULT_POINT[1] + reach * np.cos(strike))])
+    fault = line_geometry(
+        [
+            (W.FAULT_POINT[0] - reach * np.sin(strike), W.FAULT_POINT[1] - reach * np.cos(strike)),
+            (W.FAULT_POINT[0] + reach * np.sin(strike), W.FAULT_POINT[1] + reach * np.cos(strike)),
+        ]
+    )
     box = ogr.CreateGeometryFromWkt(
         "POLYGON(({0} {1},{2} {1},{2} {3},{0} {3},{0} {1}))".format(
-            W.ORIGIN[0], W.ORIGIN[1], W.ORIGIN[0] + W.SIZE[0], W.ORIGIN[1] + W.SIZE[1]))
+            W.ORIGIN[0], W.ORIGIN[1], W.ORIGIN[0] + W.SIZE[0], W.ORIGIN[1] + W.SIZE[1]
+        )
+    )
     add_feature(layer, {"type": "fault", "unit_above": None}, fault.Intersection(box))
 
 
@@ -166,19 +188,29 @@ def field_notation(style, dip_direction, dip):
     d = float(np.round(dip))
     strike = (dd - 90.0) % 360.0
     other_strike = (strike + 180.0) % 360.0
-    forms = (f"{dd:03.0f}/{d:02.0f}",
-             f"{other_strike:.0f}/{d:.0f}{compass_letters(dd)}",
-             f"{quadrant_bearing(strike)} {d:.0f}{compass_letters(dd)}",
-             f"{quadrant_bearing(other_strike)}/{d:.0f}{compass_letters(dd).lower()}",
-             f"{dd:.0f}° / {d:.0f}°")
+    forms = (
+        f"{dd:03.0f}/{d:02.0f}",
+        f"{other_strike:.0f}/{d:.0f}{compass_letters(dd)}",
+        f"{quadrant_bearing(strike)} {d:.0f}{compass_letters(dd)}",
+        f"{quadrant_bearing(other_strike)}/{d:.0f}{compass_letters(dd).lower()}",
+        f"{dd:.0f}° / {d:.0f}°",
+    )
     return forms[style % len(forms)]
 
 
 def write_attitudes(gpkg, rng):
-    layer = new_layer(gpkg, "attitudes", ogr.wkbPoint,
-                      [("station", ogr.OFTString), ("attitude", ogr.OFTString),
-                       ("unit", ogr.OFTString), ("true_ddir", ogr.OFTReal),
-                       ("true_dip", ogr.OFTReal)])
+    layer = new_layer(
+        gpkg,
+        "attitudes",
+        ogr.wkbPoint,
+        [
+            ("station", ogr.OFTString),
+            ("attitude", ogr.OFTString),
+            ("unit", ogr.OFTString),
+            ("true_ddir", ogr.OFTReal),
+            ("true_dip", ogr.OFTReal),
+        ],
+    )
     count = 80
     u = rng.uniform(300, W.SIZE[0] - 300, count)
     v = rng.uniform(300, W.SIZE[1] - 300, count)
@@ -187,22 +219,32 @@ def write_attitudes(gpkg, rng):
     unit = W.unit_index(x, y, W.ground(x, y))
     for i in range(count):
         text = field_notation(i, dip_direction[i], dip[i])
-        if i in (17, 53):   # notebook entries nobody could read
+        if i in (17, 53):  # notebook entries nobody could read
             text = "see sketch p. 41" if i == 17 else ""
         point = ogr.Geometry(ogr.wkbPoint)
         point.AddPoint_2D(float(x[i]), float(y[i]))
-        add_feature(layer, {"station": f"T{i + 1:03d}", "attitude": text,
-                            "unit": W.UNITS[unit[i]], "true_ddir": float(dip_direction[i]),
-                            "true_dip": float(dip[i])}, point)
+        add_feature(
+            layer,
+            {
+                "station": f"T{i + 1:03d}",
+                "attitude": text,
+                "unit": W.UNITS[unit[i]],
+                "true_ddir": float(dip_direction[i]),
+                "true_dip": float(dip[i]),
+            },
+            point,
+        )
 
 
 # Boreholes: local collar position, azimuth, inclination as logged, depth.
-HOLES = (("TG-01", 2300.0, 5600.0, 0.0, 90.0, 420.0),
-         ("TG-02", 4100.0, 4100.0, 125.0, 60.0, 380.0),
-         ("TG-03", 5600.0, 3000.0, 305.0, -70.0, 450.0),   # mining convention
-         ("TG-04", 6900.0, 2300.0, 0.0, 90.0, 300.0),
-         ("TG-05", 3100.0, 2200.0, 80.0, 75.0, 350.0),
-         ("TG-06", 7700.0, 5600.0, 215.0, -60.0, 400.0))
+HOLES = (
+    ("TG-01", 2300.0, 5600.0, 0.0, 90.0, 420.0),
+    ("TG-02", 4100.0, 4100.0, 125.0, 60.0, 380.0),
+    ("TG-03", 5600.0, 3000.0, 305.0, -70.0, 450.0),  # mining convention
+    ("TG-04", 6900.0, 2300.0, 0.0, 90.0, 300.0),
+    ("TG-05", 3100.0, 2200.0, 80.0, 75.0, 350.0),
+    ("TG-06", 7700.0, 5600.0, 215.0, -60.0, 400.0),
+)
 
 
 def hole_direction(azimuth, inclination):
@@ -225,29 +267,64 @@ def hole_intervals(x, y, z, direction, depth):
 
 
 def write_boreholes(gpkg):
-    collars = new_layer(gpkg, "collars", ogr.wkbPoint25D,
-                        [("hole_id", ogr.OFTString), ("azimuth", ogr.OFTReal),
-                         ("incl", ogr.OFTReal), ("depth", ogr.OFTReal)])
-    surveys = new_layer(gpkg, "surveys", ogr.wkbNone,
-                        [("hole_id", ogr.OFTString), ("depth", ogr.OFTReal),
-                         ("azimuth", ogr.OFTReal), ("incl", ogr.OFTReal)])
-    intervals = new_layer(gpkg, "intervals", ogr.wkbNone,
-                          [("hole_id", ogr.OFTString), ("from_m", ogr.OFTReal),
-                           ("to_m", ogr.OFTReal), ("unit", ogr.OFTString)])
+    collars = new_layer(
+        gpkg,
+        "collars",
+        ogr.wkbPoint25D,
+        [
+            ("hole_id", ogr.OFTString),
+            ("azimuth", ogr.OFTReal),
+            ("incl", ogr.OFTReal),
+            ("depth", ogr.OFTReal),
+        ],
+    )
+    surveys = new_layer(
+        gpkg,
+        "surveys",
+        ogr.wkbNone,
+        [
+            ("hole_id", ogr.OFTString),
+            ("depth", ogr.OFTReal),
+            ("azimuth", ogr.OFTReal),
+            ("incl", ogr.OFTReal),
+        ],
+    )
+    intervals = new_layer(
+        gpkg,
+        "intervals",
+        ogr.wkbNone,
+        [
+            ("hole_id", ogr.OFTString),
+            ("from_m", ogr.OFTReal),
+            ("to_m", ogr.OFTReal),
+            ("unit", ogr.OFTString),
+        ],
+    )
     for hole_id, u, v, azimuth, inclination, depth in HOLES:
         x, y = W.ORIGIN[0] + u, W.ORIGIN[1] + v
         z = float(W.ground(x, y))
         collar = ogr.Geometry(ogr.wkbPoint25D)
         collar.AddPoint(x, y, z)
-        add_feature(collars, {"hole_id": hole_id, "azimuth": azimuth, "incl": inclination,
-                              "depth": depth}, collar)
+        add_feature(
+            collars,
+            {"hole_id": hole_id, "azimuth": azimuth, "incl": inclination, "depth": depth},
+            collar,
+        )
         for station in np.arange(0.0, depth + 1e-9, 50.0):
-            add_feature(surveys, {"hole_id": hole_id, "depth": float(station),
-                                  "azimuth": azimuth, "incl": inclination})
+            add_feature(
+                surveys,
+                {
+                    "hole_id": hole_id,
+                    "depth": float(station),
+                    "azimuth": azimuth,
+                    "incl": inclination,
+                },
+            )
         direction = hole_direction(azimuth, inclination)
         for top, bottom, code in hole_intervals(x, y, z, direction, depth):
-            add_feature(intervals, {"hole_id": hole_id, "from_m": top, "to_m": bottom,
-                                    "unit": code})
+            add_feature(
+                intervals, {"hole_id": hole_id, "from_m": top, "to_m": bottom, "unit": code}
+            )
 
 
 def make(out_dir):

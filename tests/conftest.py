@@ -1,6 +1,7 @@
 """Test session set-up: the plugin imported as a package whatever the
 checkout's folder is called, the provider registered once, the demo world
 made once."""
+
 import importlib.util
 import os
 import sys
@@ -21,7 +22,8 @@ def _import_plugin_package():
     if PACKAGE in sys.modules:
         return sys.modules[PACKAGE]
     spec = importlib.util.spec_from_file_location(
-        PACKAGE, ROOT / "__init__.py", submodule_search_locations=[str(ROOT)])
+        PACKAGE, ROOT / "__init__.py", submodule_search_locations=[str(ROOT)]
+    )
     module = importlib.util.module_from_spec(spec)
     sys.modules[PACKAGE] = module
     spec.loader.exec_module(module)
@@ -35,7 +37,9 @@ _import_plugin_package()
 def provider(qgis_processing):
     """The Sectionwright provider, registered once per session."""
     from qgis.core import QgsApplication
+
     from sectionwright.plugin.provider import SectionwrightProvider
+
     registry = QgsApplication.processingRegistry()
     existing = registry.providerById("sectionwright")
     if existing is not None:
@@ -49,4 +53,5 @@ def provider(qgis_processing):
 def demo_dir(tmp_path_factory):
     """The Tarrowgill demo world, written once per session."""
     import make_demo
+
     return make_demo.make(tmp_path_factory.mktemp("tarrowgill"))

@@ -1,4 +1,5 @@
 """A Processing feedback that keeps the log, for tests that read it."""
+
 from qgis.core import QgsProcessingFeedback
 
 

@@ -1,4 +1,5 @@
 """Small layers and rasters made on the fly for tests."""
+
 import numpy as np
 from osgeo import gdal, osr
 from qgis.core import NULL, QgsFeature, QgsGeometry, QgsVectorLayer
@@ -6,11 +7,17 @@ from qgis.core import NULL, QgsFeature, QgsGeometry, QgsVectorLayer
 gdal.UseExceptions()
 
 
-def write_raster(path, values, geotransform, epsg, nodata=None, data_type=gdal.GDT_Float64,
-                 options=("TILED=YES", "BLOCKXSIZE=16", "BLOCKYSIZE=16")):
+def write_raster(
+    path,
+    values,
+    geotransform,
+    epsg,
+    nodata=None,
+    data_type=gdal.GDT_Float64,
+    options=("TILED=YES", "BLOCKXSIZE=16", "BLOCKYSIZE=16"),
+):
     rows, cols = values.shape
-    ds = gdal.GetDriverByName("GTiff").Create(str(path), cols, rows, 1, data_type,
-                                              list(options))
+    ds = gdal.GetDriverByName("GTiff").Create(str(path), cols, rows, 1, data_type, list(options))
     ds.SetGeoTransform(geotransform)
     ref = osr.SpatialReference()
     ref.ImportFromEPSG(epsg)
@@ -25,7 +32,7 @@ def write_raster(path, values, geotransform, epsg, nodata=None, data_type=gdal.G
 
 def plane_raster(path, plane, geotransform, shape, epsg, **kwargs):
     """A raster whose cell centres hold plane(x, y)."""
-    rows, cols = np.mgrid[0:shape[0], 0:shape[1]]
+    rows, cols = np.mgrid[0 : shape[0], 0 : shape[1]]
     x0, dx, _, y0, _, dy = geotransform
     values = plane(x0 + (cols + 0.5) * dx, y0 + (rows + 0.5) * dy)
     return write_raster(path, values, geotransform, epsg, **kwargs)

@@ -1,4 +1,5 @@
 """sectionwright:profile through QGIS's own headless runner, qgis_process."""
+
 import sys
 from pathlib import Path
 
@@ -10,11 +11,18 @@ import headless  # noqa: E402
 
 def test_profile_runs_headless_and_writes_a_geopackage(demo_dir, tmp_path):
     out = tmp_path / "profile.gpkg"
-    report = headless.run("sectionwright:profile", {
-        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "DEM": f"{demo_dir}/dem.tif", "STEP": 50,
-        "OUTPUT": headless.gpkg_layer(out, "points"),
-        "OUTPUT_SECTION": headless.gpkg_layer(out, "sections")}, tmp_path / "qgis")
+    report = headless.run(
+        "sectionwright:profile",
+        {
+            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "DEM": f"{demo_dir}/dem.tif",
+            "STEP": 50,
+            "OUTPUT": headless.gpkg_layer(out, "points"),
+            "OUTPUT_SECTION": headless.gpkg_layer(out, "sections"),
+        },
+        tmp_path / "qgis",
+    )
     assert report["log"]["info"][-1] == "Summary: read=4 written=4 skipped=0"
     data = ogr.Open(str(out))
     sections = {f.GetField("section"): f for f in data.GetLayerByName("sections")}
@@ -28,13 +36,22 @@ def test_profile_runs_headless_and_writes_a_geopackage(demo_dir, tmp_path):
 
 def test_attitudes_run_headless(demo_dir, tmp_path):
     out = tmp_path / "attitudes.gpkg"
-    report = headless.run("sectionwright:projectattitudes", {
-        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "ATTITUDES": f"{demo_dir}/tarrowgill.gpkg|layername=attitudes", "CONVENTION": 3,
-        "TEXT_FIELD": "attitude", "MAX_DISTANCE": 500, "DEM": f"{demo_dir}/dem.tif",
-        "OUTPUT": headless.gpkg_layer(out, "carried"),
-        "OUTPUT_TICKS": headless.gpkg_layer(out, "ticks"),
-        "SKIPPED": headless.gpkg_layer(out, "skipped")}, tmp_path / "qgis")
+    report = headless.run(
+        "sectionwright:projectattitudes",
+        {
+            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "ATTITUDES": f"{demo_dir}/tarrowgill.gpkg|layername=attitudes",
+            "CONVENTION": 3,
+            "TEXT_FIELD": "attitude",
+            "MAX_DISTANCE": 500,
+            "DEM": f"{demo_dir}/dem.tif",
+            "OUTPUT": headless.gpkg_layer(out, "carried"),
+            "OUTPUT_TICKS": headless.gpkg_layer(out, "ticks"),
+            "SKIPPED": headless.gpkg_layer(out, "skipped"),
+        },
+        tmp_path / "qgis",
+    )
     summary = next(line for line in report["log"]["info"] if line.startswith("Summary:"))
     data = ogr.Open(str(out))
     carried = data.GetLayerByName("carried").GetFeatureCount()
@@ -45,15 +62,29 @@ def test_attitudes_run_headless(demo_dir, tmp_path):
 
 def test_geology_runs_headless(demo_dir, tmp_path):
     out = tmp_path / "geology.gpkg"
-    report = headless.run("sectionwright:geologycrossings", {
-        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "DEM": f"{demo_dir}/dem.tif", "UNITS": f"{demo_dir}/tarrowgill.gpkg|layername=units",
-        "UNIT_FIELD": "unit", "CONTACTS": f"{demo_dir}/tarrowgill.gpkg|layername=contacts",
-        "CONTACT_TYPE_FIELD": "type", "TRACE_WINDOW": 800,
-        "OUTPUT": headless.gpkg_layer(out, "crossings"),
-        "OUTPUT_INTERVALS": headless.gpkg_layer(out, "strip")}, tmp_path / "qgis")
+    report = headless.run(
+        "sectionwright:geologycrossings",
+        {
+            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "DEM": f"{demo_dir}/dem.tif",
+            "UNITS": f"{demo_dir}/tarrowgill.gpkg|layername=units",
+            "UNIT_FIELD": "unit",
+            "CONTACTS": f"{demo_dir}/tarrowgill.gpkg|layername=contacts",
+            "CONTACT_TYPE_FIELD": "type",
+            "TRACE_WINDOW": 800,
+            "OUTPUT": headless.gpkg_layer(out, "crossings"),
+            "OUTPUT_INTERVALS": headless.gpkg_layer(out, "strip"),
+        },
+        tmp_path / "qgis",
+    )
     assert report["log"]["info"][-1] == "Summary: read=4 written=4 skipped=0"
     data = ogr.Open(str(out))
     assert data.GetLayerByName("crossings").GetFeatureCount() > 40
     assert {f.GetField("unit") for f in data.GetLayerByName("strip")} == {
-        "HWM", "BRS", "COL", "DNG", "ASH"}
+        "HWM",
+        "BRS",
+        "COL",
+        "DNG",
+        "ASH",
+    }

@@ -7,6 +7,7 @@ Ragan, *Structural Geology*, 2009, ch. 1). Evaluated in the robust form
 cos(line azimuth − dip direction). Vertical exaggeration draws it at
 tan α′ = VE · tan α (R. H. Groshong, *3-D Structural Geology*, 2006, ch. 6).
 """
+
 import numpy as np
 
 from .orientation import angle_between, strike_from_dip_direction
@@ -38,8 +39,9 @@ def apparent_dip(dip, dip_direction, line_azimuth):
     ([40.0, 40.0], [1, -1])
     """
     dip = np.radians(np.asarray(dip, dtype=float))
-    towards = np.cos(np.radians(np.asarray(line_azimuth, dtype=float)
-                                - np.asarray(dip_direction, dtype=float)))
+    towards = np.cos(
+        np.radians(np.asarray(line_azimuth, dtype=float) - np.asarray(dip_direction, dtype=float))
+    )
     # cos(90°) is 6e-17 in floating point: a line along strike is exactly so.
     towards = np.where(np.abs(towards) < 1e-12, 0.0, towards)
     alpha = np.degrees(np.arctan2(np.sin(dip) * np.abs(towards), np.cos(dip)))
@@ -85,6 +87,10 @@ def section_attitude(dip, dip_direction, line_azimuth, exaggeration):
     line_angle, app_dip, sense, plot_dip."""
     strike = strike_from_dip_direction(dip_direction)
     alpha, sense = apparent_dip(dip, dip_direction, line_azimuth)
-    return {"strike": strike, "line_angle": line_angle(strike, line_azimuth),
-            "app_dip": alpha, "sense": sense,
-            "plot_dip": exaggerated_dip(alpha, exaggeration)}
+    return {
+        "strike": strike,
+        "line_angle": line_angle(strike, line_azimuth),
+        "app_dip": alpha,
+        "sense": sense,
+        "plot_dip": exaggerated_dip(alpha, exaggeration),
+    }

@@ -6,11 +6,16 @@ pairs as right-hand-rule strike. Raw values may be None, numbers or text
 (as they come out of a notebook's table); every row gets a dip direction
 and dip, or NaN and the reason it could not be read.
 """
+
 import numpy as np
 
 from .notation import parse_attitudes
-from .orientation import (compass_azimuth, dip_direction_from_quadrant,
-                          dip_direction_from_strike, range_reasons)
+from .orientation import (
+    compass_azimuth,
+    dip_direction_from_quadrant,
+    dip_direction_from_strike,
+    range_reasons,
+)
 
 DIP_DIRECTION, STRIKE_RHR, STRIKE_QUADRANT, TEXT_AS_DIP_DIRECTION, TEXT_AS_STRIKE = range(5)
 
@@ -67,12 +72,17 @@ def read_attitudes(convention, azimuth=None, dip=None, quadrant=None, text=None)
         quadrant_azimuth = compass_azimuth(quadrant)
         missing = np.array([q is None or not str(q).strip() for q in quadrant], dtype=bool)
         unknown = np.array([f"unknown dip quadrant: '{q}'" for q in quadrant], dtype=object)
-        quadrant_reasons = np.where(missing, "missing quadrant",
-                                    np.where(np.isnan(quadrant_azimuth), unknown, ""))
+        quadrant_reasons = np.where(
+            missing, "missing quadrant", np.where(np.isnan(quadrant_azimuth), unknown, "")
+        )
         dip_direction = dip_direction_from_quadrant(azimuth, quadrant_azimuth)
-        contradiction = np.where(np.isnan(dip_direction) & ~np.isnan(quadrant_azimuth),
-                                 "quadrant contradicts strike", "")
+        contradiction = np.where(
+            np.isnan(dip_direction) & ~np.isnan(quadrant_azimuth), "quadrant contradicts strike", ""
+        )
         reasons = _first_reason(reasons, quadrant_reasons, contradiction)
     bad = reasons != ""
-    return (np.where(bad, np.nan, dip_direction), np.where(bad, np.nan, dip),
-            reasons.astype(object))
+    return (
+        np.where(bad, np.nan, dip_direction),
+        np.where(bad, np.nan, dip),
+        reasons.astype(object),
+    )

@@ -1,19 +1,27 @@
 """Carrying attitudes onto section lines: everything a section needs of each
 attitude, for many points and lines at once."""
+
 from dataclasses import dataclass
 
 import numpy as np
 
 from .apparent_dip import apparent_dip_sd, section_attitude
 from .orientation import strike_from_dip_direction
-from .projection import (along_directions, line_azimuths, nearest_points, plunge_elevation,
-                         signed_offsets)
+from .projection import (
+    along_directions,
+    line_azimuths,
+    nearest_points,
+    plunge_elevation,
+    signed_offsets,
+)
 
 PERPENDICULAR, ALONG_STRIKE, ALONG_PLUNGE = range(3)
 TOO_FAR = "beyond max distance"
 PAST_END = "beyond the end of the line"
-PARALLEL = {ALONG_STRIKE: "strike nearly parallel to the line",
-            ALONG_PLUNGE: "plunge trend nearly parallel to the line"}
+PARALLEL = {
+    ALONG_STRIKE: "strike nearly parallel to the line",
+    ALONG_PLUNGE: "plunge trend nearly parallel to the line",
+}
 
 
 @dataclass
@@ -32,8 +40,11 @@ def _landing(network, xy, dip_direction, dip, trend, options):
     if options.method == PERPENDICULAR:
         landing = nearest_points(network, xy, options.max_distance)
     else:
-        direction = (strike_from_dip_direction(dip_direction)
-                     if options.method == ALONG_STRIKE else np.asarray(trend, dtype=float))
+        direction = (
+            strike_from_dip_direction(dip_direction)
+            if options.method == ALONG_STRIKE
+            else np.asarray(trend, dtype=float)
+        )
         landing = along_directions(network, xy, direction, options.max_distance)
         if options.method == ALONG_STRIKE:
             # Any horizontal line in a horizontal bed is a strike line: the
@@ -41,8 +52,9 @@ def _landing(network, xy, dip_direction, dip, trend, options):
             flat = np.flatnonzero(dip == 0)
             if len(flat):
                 _replace(landing, flat, nearest_points(network, xy[flat], options.max_distance))
-    reasons = np.select([landing.line >= 0, landing.past_end], ["", PAST_END],
-                        TOO_FAR).astype(object)
+    reasons = np.select([landing.line >= 0, landing.past_end], ["", PAST_END], TOO_FAR).astype(
+        object
+    )
     if options.method != PERPENDICULAR:
         missed = np.flatnonzero(landing.line < 0)
         near = nearest_points(network, xy[missed], options.max_distance).line >= 0
@@ -55,8 +67,9 @@ def _replace(landing, index, other):
         getattr(landing, name)[index] = getattr(other, name)
 
 
-def carry_attitudes(network, xy, z, dip_direction, dip, options, trend=None,
-                    elevation_at=None, unit_at=None):
+def carry_attitudes(
+    network, xy, z, dip_direction, dip, options, trend=None, elevation_at=None, unit_at=None
+):
     """Every attitude's section record, as a dict of arrays (one row per input
     point), plus ``reason`` ('' for the points that were carried).
 
@@ -68,8 +81,9 @@ def carry_attitudes(network, xy, z, dip_direction, dip, options, trend=None,
     """
     n = len(xy)
     readable = ~np.isnan(dip_direction) & ~np.isnan(dip) & np.all(np.isfinite(xy), axis=1)
-    landing, reasons = _landing(network, np.where(readable[:, None], xy, np.nan),
-                                dip_direction, dip, trend, options)
+    landing, reasons = _landing(
+        network, np.where(readable[:, None], xy, np.nan), dip_direction, dip, trend, options
+    )
     reasons[~readable] = ""
     carried = landing.line >= 0
     z = np.asarray(z, dtype=float).copy()
@@ -82,14 +96,20 @@ def carry_attitudes(network, xy, z, dip_direction, dip, options, trend=None,
     if options.method == ALONG_PLUNGE:
         z = np.where(carried, plunge_elevation(z, travel, options.plunge), np.nan)
     record.update(
-        line=landing.line, chainage=landing.chainage, landing_xy=landing.xy,
-        offset=signed_offsets(network, landing, xy), travel=np.abs(travel), elev=z,
+        line=landing.line,
+        chainage=landing.chainage,
+        landing_xy=landing.xy,
+        offset=signed_offsets(network, landing, xy),
+        travel=np.abs(travel),
+        elev=z,
         gnd_elev=_ground(elevation_at, landing.xy, carried, n),
-        dip_dir=np.asarray(dip_direction, dtype=float), dip=np.asarray(dip, dtype=float),
+        dip_dir=np.asarray(dip_direction, dtype=float),
+        dip=np.asarray(dip, dtype=float),
         line_az=line_azimuth,
         app_dip_sd=apparent_dip_sd(dip, record["line_angle"], options.dip_sd, options.strike_sd),
         dips_to=np.select([record["sense"] > 0, record["sense"] < 0], ["end", "start"], ""),
-        reason=reasons)
+        reason=reasons,
+    )
     record["flags"] = _flags(record, options, carried, xy, unit_at)
     return record
 
@@ -102,15 +122,18 @@ def _ground(elevation_at, landing_xy, carried, n):
 
 
 def _flags(record, options, carried, xy, unit_at):
-    checks = [("oblique", record["line_angle"] < options.oblique_angle),
-              ("no_elevation", np.isnan(record["elev"])),
-              ("vertical", record["dip"] == 90.0),
-              ("horizontal", record["dip"] == 0.0)]
+    checks = [
+        ("oblique", record["line_angle"] < options.oblique_angle),
+        ("no_elevation", np.isnan(record["elev"])),
+        ("vertical", record["dip"] == 90.0),
+        ("horizontal", record["dip"] == 0.0),
+    ]
     if unit_at is not None and carried.any():
         changed = np.zeros(len(xy), dtype=bool)
         here = np.flatnonzero(carried)
-        changed[here] = (np.asarray(unit_at(xy[here]), dtype=object)
-                         != np.asarray(unit_at(record["landing_xy"][here]), dtype=object))
+        changed[here] = np.asarray(unit_at(xy[here]), dtype=object) != np.asarray(
+            unit_at(record["landing_xy"][here]), dtype=object
+        )
         checks.insert(1, ("unit_changed", changed))
     flags = np.full(len(xy), "", dtype=object)
     for name, hit in checks:

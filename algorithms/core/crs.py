@@ -1,4 +1,5 @@
 """Coordinate reference systems: the automatic working CRS and transforms."""
+
 import numpy as np
 from pyproj import CRS, Transformer
 
@@ -25,8 +26,7 @@ def transformer(source_wkt, target_wkt):
     if source == target:
         return lambda x, y: (np.asarray(x, dtype=float), np.asarray(y, dtype=float))
     forward = Transformer.from_crs(source, target, always_xy=True)
-    return lambda x, y: forward.transform(np.asarray(x, dtype=float),
-                                          np.asarray(y, dtype=float))
+    return lambda x, y: forward.transform(np.asarray(x, dtype=float), np.asarray(y, dtype=float))
 
 
 def cell_size_on_ground(to_working, centre, cell_width, cell_height):
@@ -38,6 +38,7 @@ def cell_size_on_ground(to_working, centre, cell_width, cell_height):
     4.0
     """
     cx, cy = centre
-    x, y = to_working(np.array([cx, cx + abs(cell_width), cx]),
-                      np.array([cy, cy, cy + abs(cell_height)]))
+    x, y = to_working(
+        np.array([cx, cx + abs(cell_width), cx]), np.array([cy, cy, cy + abs(cell_height)])
+    )
     return min(np.hypot(x[1] - x[0], y[1] - y[0]), np.hypot(x[2] - x[0], y[2] - y[0]))

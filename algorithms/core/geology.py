@@ -1,5 +1,6 @@
 """Map geology along a section line: the unit under each stretch of the line,
 where unit boundaries and contacts cross it."""
+
 from dataclasses import dataclass
 
 import numpy as np
@@ -7,7 +8,7 @@ import shapely
 
 from .lines import positions_at, vertex_chainage
 
-TOLERANCE = 1e-6     # chainages closer than this (working-CRS units) are one
+TOLERANCE = 1e-6  # chainages closer than this (working-CRS units) are one
 
 
 @dataclass
@@ -15,6 +16,7 @@ class Intervals:
     """Consecutive stretches of a line; ``unit`` indexes the unit labels
     (-1: no mapped unit); ``overlap`` marks stretches where polygons of
     different units overlap (the first polygon in layer order wins)."""
+
     start: np.ndarray
     end: np.ndarray
     unit: np.ndarray

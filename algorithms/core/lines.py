@@ -3,6 +3,7 @@
 Chainage is horizontal distance along the line from its first vertex,
 accumulated across kinks, in the length unit of the line's (projected) CRS.
 """
+
 import numpy as np
 
 
@@ -63,7 +64,6 @@ def positions_at(coords, vertex_ch, chainages):
     x = np.interp(chainages, vertex_ch, coords[:, 0])
     y = np.interp(chainages, vertex_ch, coords[:, 1])
     return np.column_stack((x, y))
-
 
 
 def azimuth_at(coords, chainage):

@@ -5,6 +5,7 @@ north (PROJ's ``meridian_convergence``), so a grid azimuth is the true
 azimuth minus γ; a magnetic azimuth becomes true by adding the declination
 (east positive).
 """
+
 import numpy as np
 from pyproj import CRS, Proj, Transformer
 
@@ -41,5 +42,5 @@ def to_grid(azimuth, reference, convergence, declination=0.0):
     azimuth = np.asarray(azimuth, dtype=float)
     true = azimuth + (np.asarray(declination, dtype=float) if reference == MAGNETIC else 0.0)
     grid = true if reference == GRID else true - np.asarray(convergence, dtype=float)
-    with np.errstate(invalid="ignore"):   # NaN stays NaN: an unknown azimuth
+    with np.errstate(invalid="ignore"):  # NaN stays NaN: an unknown azimuth
         return grid % 360.0

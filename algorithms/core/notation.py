@@ -16,6 +16,7 @@ with or without leading zeros, 0–360; decimals allowed):
 
 Quadrant bearings: NxE = x, NxW = 360 − x, SxE = 180 − x, SxW = 180 + x.
 """
+
 import re
 from functools import lru_cache
 
@@ -29,7 +30,8 @@ _SEPARATOR = r"\s*[/,;\s]\s*"
 _AZIMUTH_PAIR = re.compile(rf"^(?P<az>{_NUMBER}){_SEPARATOR}(?P<dip>{_NUMBER})\s*{_SIDE}$")
 _BEARING_PAIR = re.compile(
     rf"^(?P<from>[NS])\s*(?P<angle>{_NUMBER})\s*(?P<to>[EW]){_SEPARATOR}?"
-    rf"(?P<dip>{_NUMBER})\s*{_SIDE}$")
+    rf"(?P<dip>{_NUMBER})\s*{_SIDE}$"
+)
 
 
 def quadrant_bearing(start, angle, end):
@@ -103,10 +105,14 @@ def parse_attitudes(texts, bare_pair_is_strike=False):
     >>> dd.tolist(), dip.tolist(), why.tolist()
     ([98.0, 330.0, nan], [12.0, 40.0, nan], ['', '', "unparsed text: '??'"])
     """
-    parsed = [parse_attitude(None if t is None else str(t), bool(bare_pair_is_strike))
-              for t in texts]
+    parsed = [
+        parse_attitude(None if t is None else str(t), bool(bare_pair_is_strike)) for t in texts
+    ]
     if not parsed:
         return np.empty(0), np.empty(0), np.empty(0, dtype=object)
     dip_direction, dip, reasons = zip(*parsed)
-    return (np.array(dip_direction, dtype=float), np.array(dip, dtype=float),
-            np.array(reasons, dtype=object))
+    return (
+        np.array(dip_direction, dtype=float),
+        np.array(dip, dtype=float),
+        np.array(reasons, dtype=object),
+    )

@@ -7,11 +7,27 @@ dips to the right, so dip direction = strike + 90.
 Functions take and return numpy arrays; a value that cannot be read comes
 back as NaN with a reason (a string, empty when the value is good).
 """
+
 import numpy as np
 
-COMPASS = {"N": 0.0, "NNE": 22.5, "NE": 45.0, "ENE": 67.5, "E": 90.0, "ESE": 112.5,
-           "SE": 135.0, "SSE": 157.5, "S": 180.0, "SSW": 202.5, "SW": 225.0,
-           "WSW": 247.5, "W": 270.0, "WNW": 292.5, "NW": 315.0, "NNW": 337.5}
+COMPASS = {
+    "N": 0.0,
+    "NNE": 22.5,
+    "NE": 45.0,
+    "ENE": 67.5,
+    "E": 90.0,
+    "ESE": 112.5,
+    "SE": 135.0,
+    "SSE": 157.5,
+    "S": 180.0,
+    "SSW": 202.5,
+    "SW": 225.0,
+    "WSW": 247.5,
+    "W": 270.0,
+    "WNW": 292.5,
+    "NW": 315.0,
+    "NNW": 337.5,
+}
 
 # A dip quadrant closer than this to the strike line does not pick a side.
 QUADRANT_TOLERANCE = 22.5
@@ -51,8 +67,13 @@ def compass_azimuth(letters):
     >>> compass_azimuth(np.array(["se", " N", "x", None], dtype=object))
     array([135.,   0.,  nan,  nan])
     """
-    return np.array([COMPASS.get(str(v).strip().upper(), np.nan) if v is not None else np.nan
-                     for v in np.asarray(letters, dtype=object).ravel()], dtype=float)
+    return np.array(
+        [
+            COMPASS.get(str(v).strip().upper(), np.nan) if v is not None else np.nan
+            for v in np.asarray(letters, dtype=object).ravel()
+        ],
+        dtype=float,
+    )
 
 
 def dip_direction_from_quadrant(strike, quadrant_azimuth):
@@ -86,10 +107,12 @@ def range_reasons(azimuth, dip):
     azimuth = np.asarray(azimuth, dtype=float)
     dip = np.asarray(dip, dtype=float)
     reasons = np.full(azimuth.shape, "", dtype=object)
-    checks = ((np.isnan(dip), "missing dip"),
-              ((dip < 0) | (dip > 90), "dip out of range"),
-              (np.isnan(azimuth), "missing azimuth"),
-              ((azimuth < 0) | (azimuth > 360), "azimuth out of range"))
+    checks = (
+        (np.isnan(dip), "missing dip"),
+        ((dip < 0) | (dip > 90), "dip out of range"),
+        (np.isnan(azimuth), "missing azimuth"),
+        ((azimuth < 0) | (azimuth > 360), "azimuth out of range"),
+    )
     for failed, reason in checks:
         reasons[failed & (reasons == "")] = reason
     return reasons

@@ -1,4 +1,5 @@
 """Topographic profile along one section line: samples and drawable runs."""
+
 import numpy as np
 
 from .lines import drop_repeated_vertices, positions_at, sample_chainages, vertex_chainage

@@ -13,6 +13,7 @@ point (a 15 km line's own envelope would cover half a map sheet); the
 geometry of every (point, piece) pair is then plain numpy. Points go in chunks so that memory
 stays bounded.
 """
+
 from dataclasses import dataclass
 
 import numpy as np
@@ -26,17 +27,24 @@ CHUNK = 10_000
 @dataclass
 class Landing:
     """Where each point lands; ``line`` is -1 for points that reach none."""
+
     line: np.ndarray
-    piece: np.ndarray     # the piece landed on (its azimuth is the line's there)
+    piece: np.ndarray  # the piece landed on (its azimuth is the line's there)
     chainage: np.ndarray
     xy: np.ndarray
-    travel: np.ndarray    # signed along the direction (perpendicular: ≥ 0)
+    travel: np.ndarray  # signed along the direction (perpendicular: ≥ 0)
     past_end: np.ndarray  # within reach of a line, but only beyond one of its ends
 
     @classmethod
     def nowhere(cls, n):
-        return cls(np.full(n, -1, dtype=int), np.full(n, -1, dtype=int), np.full(n, np.nan),
-                   np.full((n, 2), np.nan), np.full(n, np.nan), np.zeros(n, dtype=bool))
+        return cls(
+            np.full(n, -1, dtype=int),
+            np.full(n, -1, dtype=int),
+            np.full(n, np.nan),
+            np.full((n, 2), np.nan),
+            np.full(n, np.nan),
+            np.zeros(n, dtype=bool),
+        )
 
 
 class SectionNetwork:
@@ -75,11 +83,13 @@ class SectionNetwork:
         self.sx, self.sy = self.start.T.copy()
         self.ex, self.ey = (self.end - self.start).T.copy()
         self.length = np.hypot(self.ex, self.ey)
-        length2 = self.length ** 2
-        self.inverse_length2 = np.divide(1.0, length2, out=np.zeros_like(length2),
-                                         where=length2 > 0)
-        self.tree = shapely.STRtree(shapely.linestrings(
-            np.stack((self.start, self.end), axis=1)) if len(self.start) else [])
+        length2 = self.length**2
+        self.inverse_length2 = np.divide(
+            1.0, length2, out=np.zeros_like(length2), where=length2 > 0
+        )
+        self.tree = shapely.STRtree(
+            shapely.linestrings(np.stack((self.start, self.end), axis=1)) if len(self.start) else []
+        )
 
     def __len__(self):
         return self.count
@@ -100,13 +110,14 @@ def _nearest_on_pieces(network, xy, point, piece):
     along = (px * ex + py * ey) * network.inverse_length2[piece]
     t = np.clip(along, 0.0, 1.0)
     distance = np.hypot(px - t * ex, py - t * ey)
-    past_end = (((along < 0) & network.is_first[piece]) | ((along > 1) & network.is_last[piece]))
+    past_end = ((along < 0) & network.is_first[piece]) | ((along > 1) & network.is_last[piece])
     return t, distance, past_end & (distance > 0)
 
 
 def _foot(network, piece, t):
-    return np.column_stack((network.sx[piece] + t * network.ex[piece],
-                            network.sy[piece] + t * network.ey[piece]))
+    return np.column_stack(
+        (network.sx[piece] + t * network.ex[piece], network.sy[piece] + t * network.ey[piece])
+    )
 
 
 def _best_per_point(point, score):
@@ -134,7 +145,7 @@ def nearest_points(network, xy, max_distance):
     xy = np.asarray(xy, dtype=float)
     result = Landing.nowhere(len(xy))
     for start in range(0, len(xy), CHUNK):
-        chunk = np.where(np.isfinite(xy[start:start + CHUNK]), xy[start:start + CHUNK], np.inf)
+        chunk = np.where(np.isfinite(xy[start : start + CHUNK]), xy[start : start + CHUNK], np.inf)
         # Envelope candidates, then exact distances in numpy: ~10x faster
         # than asking GEOS for the distance of every candidate.
         point, piece = network.candidates(chunk - max_distance, chunk + max_distance)
@@ -146,8 +157,15 @@ def nearest_points(network, xy, max_distance):
             continue
         point, piece, t, distance = point[near], piece[near], t[near], distance[near]
         best = _best_per_point(point, distance)
-        _store(result, network, start + point[best], piece[best], t[best],
-               _foot(network, piece[best], t[best]), distance[best])
+        _store(
+            result,
+            network,
+            start + point[best],
+            piece[best],
+            t[best],
+            _foot(network, piece[best], t[best]),
+            distance[best],
+        )
     return result
 
 
@@ -180,8 +198,9 @@ def along_directions(network, xy, azimuth, max_distance):
 
 
 def _land_along(network, xy, direction, max_distance, result, start):
-    usable = np.flatnonzero(np.all(np.isfinite(direction), axis=1)
-                            & np.all(np.isfinite(xy), axis=1))
+    usable = np.flatnonzero(
+        np.all(np.isfinite(direction), axis=1) & np.all(np.isfinite(xy), axis=1)
+    )
     reach = direction[usable] * max_distance
     ends = (xy[usable] - reach, xy[usable] + reach)
     point, piece = network.candidates(np.minimum(*ends), np.maximum(*ends))
@@ -200,8 +219,10 @@ def _land_along(network, xy, direction, max_distance, result, start):
     if len(point) == 0:
         return
     best = _best_per_point(point, np.abs(travel))
-    landing_xy = network.start[piece[best]] + (network.end[piece[best]]
-                                               - network.start[piece[best]]) * s[best, None]
+    landing_xy = (
+        network.start[piece[best]]
+        + (network.end[piece[best]] - network.start[piece[best]]) * s[best, None]
+    )
     _store(result, network, start + point[best], piece[best], s[best], landing_xy, travel[best])
 
 

@@ -12,6 +12,7 @@ Index space: ``u`` (columns) and ``v`` (rows) are fractional cell indices
 with cell *centres* at whole numbers; the raster's outer edge is at -0.5 and
 ``n - 0.5``.
 """
+
 from concurrent.futures import ThreadPoolExecutor
 
 import numpy as np
@@ -50,8 +51,16 @@ class TiledRaster:
         tile_row, tile_col = divmod(key, self.tiles_across)
         row0 = tile_row * self.tile_rows
         col0 = tile_col * self.tile_cols
-        return row0, col0, reader(row0, col0, min(self.tile_rows, self.rows - row0),
-                                  min(self.tile_cols, self.cols - col0))
+        return (
+            row0,
+            col0,
+            reader(
+                row0,
+                col0,
+                min(self.tile_rows, self.rows - row0),
+                min(self.tile_cols, self.cols - col0),
+            ),
+        )
 
     def _gather(self, reader, groups, rows, cols, out):
         for key, pick in groups:
@@ -75,10 +84,12 @@ class TiledRaster:
             return out
         # Each reader has its own handle; readers release Python's lock while
         # they decompress, so tiles decode in parallel.
-        shares = [groups[i::len(self.readers)] for i in range(len(self.readers))]
+        shares = [groups[i :: len(self.readers)] for i in range(len(self.readers))]
         with ThreadPoolExecutor(max_workers=len(self.readers)) as pool:
-            for done in [pool.submit(self._gather, reader, share, rows, cols, out)
-                         for reader, share in zip(self.readers, shares)]:
+            for done in [
+                pool.submit(self._gather, reader, share, rows, cols, out)
+                for reader, share in zip(self.readers, shares)
+            ]:
                 done.result()
         return out
 
@@ -109,16 +120,14 @@ def bilinear(u, v, raster):
     u = np.asarray(u, dtype=float)
     v = np.asarray(v, dtype=float)
     z = np.full(u.shape, np.nan)
-    inside = ((u >= -0.5) & (u <= raster.cols - 0.5)
-              & (v >= -0.5) & (v <= raster.rows - 0.5))
+    inside = (u >= -0.5) & (u <= raster.cols - 0.5) & (v >= -0.5) & (v <= raster.rows - 0.5)
     if not inside.any():
         return z
     c0, c1, fx = _corner_indices(u[inside], raster.cols)
     r0, r1, fy = _corner_indices(v[inside], raster.rows)
     rows = np.concatenate((r0, r0, r1, r1))
     cols = np.concatenate((c0, c1, c0, c1))
-    weights = np.concatenate(((1 - fx) * (1 - fy), fx * (1 - fy),
-                              (1 - fx) * fy, fx * fy))
+    weights = np.concatenate(((1 - fx) * (1 - fy), fx * (1 - fy), (1 - fx) * fy, fx * fy))
     values = raster.cells(rows, cols)
     carries = weights > 0
     missing = carries & np.isnan(values)

@@ -1,4 +1,5 @@
 """Dip ticks: short lines drawn in the section view at the plotted dip."""
+
 import numpy as np
 
 

@@ -19,6 +19,7 @@ eigenvalues λ1 ≥ λ2 ≥ λ3 of that covariance:
 
 Either makes the estimate ill-conditioned: it is still given, flagged.
 """
+
 import numpy as np
 import shapely
 
@@ -55,18 +56,20 @@ def plane_fits(xyz, group):
     covariance = np.zeros((k, 3, 3))
     for i in range(3):
         for j in range(i, 3):
-            covariance[:, i, j] = covariance[:, j, i] = np.bincount(
-                group, centred[:, i] * centred[:, j], minlength=k) / safe
-    eigenvalues, eigenvectors = np.linalg.eigh(covariance)      # ascending
+            covariance[:, i, j] = covariance[:, j, i] = (
+                np.bincount(group, centred[:, i] * centred[:, j], minlength=k) / safe
+            )
+    eigenvalues, eigenvectors = np.linalg.eigh(covariance)  # ascending
     normal = eigenvectors[:, :, 0]
-    normal = np.where(normal[:, 2:3] < 0, -normal, normal)      # upward
+    normal = np.where(normal[:, 2:3] < 0, -normal, normal)  # upward
     dip = np.degrees(np.arccos(np.clip(normal[:, 2], -1.0, 1.0)))
     dip_direction = np.degrees(np.arctan2(normal[:, 0], normal[:, 1])) % 360.0
     rms = np.sqrt(np.maximum(eigenvalues[:, 0], 0.0))
     largest = np.maximum(eigenvalues[:, 2], 1e-300)
     bend = np.sqrt(np.maximum(eigenvalues[:, 1], 0.0))
-    straight = ((bend / np.sqrt(largest) < STRAIGHTNESS)
-                | (bend < SCATTER_RATIO * np.sqrt(np.maximum(eigenvalues[:, 0], 0.0))))
+    straight = (bend / np.sqrt(largest) < STRAIGHTNESS) | (
+        bend < SCATTER_RATIO * np.sqrt(np.maximum(eigenvalues[:, 0], 0.0))
+    )
     horizontal_spread = np.sqrt(covariance[:, 0, 0] + covariance[:, 1, 1])
     flat = np.sqrt(covariance[:, 2, 2]) < MIN_RELIEF * horizontal_spread
     too_few = count < 3

@@ -1,4 +1,5 @@
 """Which mapped unit a point lies in."""
+
 import numpy as np
 import shapely
 

@@ -1,4 +1,5 @@
 """One help text per algorithm, in ``<algorithm id>.html`` beside this file."""
+
 from pathlib import Path
 
 

@@ -1,23 +1,29 @@
 """sectionwright:geologycrossings through processing.run."""
+
+import demo_world as W
 import numpy as np
-import pytest
 import processing
+import pytest
 import shapely
+from feedback import LogFeedback
+from layers import attributes, line_layer, plane_raster, point_layer
 from pyproj import Transformer
 from qgis.core import QgsVectorLayer
 
-import demo_world as W
-from feedback import LogFeedback
-from layers import attributes, line_layer, plane_raster, point_layer
-
 
 def run(demo_dir, feedback=None, **extra):
-    parameters = {"INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-                  "LINE_ID_FIELD": "name", "DEM": f"{demo_dir}/dem.tif",
-                  "UNITS": f"{demo_dir}/tarrowgill.gpkg|layername=units", "UNIT_FIELD": "unit",
-                  "CONTACTS": f"{demo_dir}/tarrowgill.gpkg|layername=contacts",
-                  "CONTACT_TYPE_FIELD": "type", "OUTPUT": "memory:",
-                  "OUTPUT_INTERVALS": "memory:", "SKIPPED": "memory:"}
+    parameters = {
+        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
+        "LINE_ID_FIELD": "name",
+        "DEM": f"{demo_dir}/dem.tif",
+        "UNITS": f"{demo_dir}/tarrowgill.gpkg|layername=units",
+        "UNIT_FIELD": "unit",
+        "CONTACTS": f"{demo_dir}/tarrowgill.gpkg|layername=contacts",
+        "CONTACT_TYPE_FIELD": "type",
+        "OUTPUT": "memory:",
+        "OUTPUT_INTERVALS": "memory:",
+        "SKIPPED": "memory:",
+    }
     parameters.update(extra)
     return processing.run("sectionwright:geologycrossings", parameters, feedback=feedback)
 
@@ -48,7 +54,7 @@ def test_geology_strip_is_the_exaggerated_ground(demo_result):
         assert vertices[0].x() == pytest.approx(feature["ch_from"])
         assert vertices[-1].x() == pytest.approx(feature["ch_to"])
         assert feature["ve"] == 2.0
-        assert all(700 < v.y() < 1800 for v in vertices)       # 2 × 390…875 m
+        assert all(700 < v.y() < 1800 for v in vertices)  # 2 × 390…875 m
 
 
 def test_units_either_side_of_boundaries_are_the_demo_worlds(demo_result, demo_dir):
@@ -59,9 +65,14 @@ def test_units_either_side_of_boundaries_are_the_demo_worlds(demo_result, demo_d
     # apart; only crossings 40 m from any other are compared.
     lines = section_lines(demo_dir)
     every = [r for r in attributes(demo_result["OUTPUT"]) if r["kind"] == "unit boundary"]
-    crossings = [r for r in every if all(
-        o is r or o["section"] != r["section"] or abs(o["chainage"] - r["chainage"]) > 40
-        for o in every)]
+    crossings = [
+        r
+        for r in every
+        if all(
+            o is r or o["section"] != r["section"] or abs(o["chainage"] - r["chainage"]) > 40
+            for o in every
+        )
+    ]
     assert len(crossings) > 20
     agree = 0
     for row in crossings:
@@ -82,31 +93,42 @@ def test_contact_crossings_sit_on_the_known_contacts(demo_result, demo_dir):
     assert len(rows) > 20
     for row in rows:
         p = lines[row["section"]].interpolate(row["chainage"])
-        misfit = min(abs(W.ground(p.x, p.y) - W.contact_elevation(k, p.x, p.y))
-                     for k in range(len(W.CONTACT_LEVELS)))
+        misfit = min(
+            abs(W.ground(p.x, p.y) - W.contact_elevation(k, p.x, p.y))
+            for k in range(len(W.CONTACT_LEVELS))
+        )
         assert misfit < 6.0
         assert row["elev"] == pytest.approx(float(W.ground(p.x, p.y)), abs=2.0)
-    fault = next(f for f in QgsVectorLayer(f"{demo_dir}/tarrowgill.gpkg|layername=contacts")
-                 .getFeatures() if f["type"] == "fault")
+    fault = next(
+        f
+        for f in QgsVectorLayer(f"{demo_dir}/tarrowgill.gpkg|layername=contacts").getFeatures()
+        if f["type"] == "fault"
+    )
     fault_line = shapely.from_wkt(fault.geometry().asWkt())
     crossed = {name for name, line in lines.items() if line.intersects(fault_line)}
     faults = [r for r in attributes(demo_result["OUTPUT"]) if r["kind"] == "fault"]
     assert crossed and {r["section"] for r in faults} == crossed
 
 
-
 def test_crossing_chainages_match_shapely(demo_result, demo_dir):
     # Source: shapely 2 / GEOS intersection of each section with each
     # contact line, located with line_locate_point.
     lines = section_lines(demo_dir)
-    contacts = [shapely.from_wkt(f.geometry().asWkt()) for f in QgsVectorLayer(
-        f"{demo_dir}/tarrowgill.gpkg|layername=contacts").getFeatures()]
+    contacts = [
+        shapely.from_wkt(f.geometry().asWkt())
+        for f in QgsVectorLayer(f"{demo_dir}/tarrowgill.gpkg|layername=contacts").getFeatures()
+    ]
     rows = attributes(demo_result["OUTPUT"])
     for name, line in lines.items():
-        expected = sorted(line.project(p) for c in contacts
-                          for p in shapely.get_parts(line.intersection(c)) if not p.is_empty)
-        mine = sorted(r["chainage"] for r in rows if r["section"] == name
-                      and r["kind"] != "unit boundary")
+        expected = sorted(
+            line.project(p)
+            for c in contacts
+            for p in shapely.get_parts(line.intersection(c))
+            if not p.is_empty
+        )
+        mine = sorted(
+            r["chainage"] for r in rows if r["section"] == name and r["kind"] != "unit boundary"
+        )
         np.testing.assert_allclose(mine, expected, atol=1e-6)
 
 
@@ -125,11 +147,13 @@ def test_trace_window_recovers_a_known_plane(provider, tmp_path):
     # is found with GDAL's contouring (a general-purpose library) and given
     # as the contact; the algorithm drapes it on the 2 m DEM and fits.
     from osgeo import gdal, ogr
+
     x0, y0, size, cell = 431000.0, 5127000.0, 600, 2.0
     d = np.radians(140.0)
 
     def plane(x, y):
         return 420 - np.tan(np.radians(35.0)) * ((x - x0) * np.sin(d) + (y - y0) * np.cos(d))
+
     gt = (x0, cell, 0.0, y0 + size * cell, 0.0, -cell)
     dem = plane_raster(tmp_path / "rugged.tif", rugged, gt, (size, size), 32633)
     misfit = gdal.GetDriverByName("MEM").Create("", size, size, 1, gdal.GDT_Float64)
@@ -142,17 +166,30 @@ def test_trace_window_recovers_a_known_plane(provider, tmp_path):
     layer.CreateField(ogr.FieldDefn("id", ogr.OFTInteger))
     layer.CreateField(ogr.FieldDefn("z", ogr.OFTReal))
     gdal.ContourGenerate(misfit.GetRasterBand(1), 0, 0, [0.0], 0, 0, layer, 0, 1)
-    trace = max((shapely.from_wkt(f.GetGeometryRef().ExportToWkt()) for f in layer),
-                key=lambda g: g.length)
-    contacts = point_layer([(trace.wkt, ["fault"])], [("type", "string")],
-                           geometry_type="LineString")
+    trace = max(
+        (shapely.from_wkt(f.GetGeometryRef().ExportToWkt()) for f in layer), key=lambda g: g.length
+    )
+    contacts = point_layer(
+        [(trace.wkt, ["fault"])], [("type", "string")], geometry_type="LineString"
+    )
     middle = trace.interpolate(0.5, normalized=True)
-    section = line_layer([f"LINESTRING({middle.x - 300} {middle.y - 100}, "
-                          f"{middle.x + 300} {middle.y + 100})"], names=["T"])
-    result = processing.run("sectionwright:geologycrossings", {
-        "INPUT": section, "LINE_ID_FIELD": "name", "DEM": dem, "CONTACTS": contacts,
-        "CONTACT_TYPE_FIELD": "type", "TRACE_WINDOW": 250.0, "OUTPUT": "memory:",
-        "OUTPUT_INTERVALS": "memory:"})
+    section = line_layer(
+        [f"LINESTRING({middle.x - 300} {middle.y - 100}, {middle.x + 300} {middle.y + 100})"],
+        names=["T"],
+    )
+    result = processing.run(
+        "sectionwright:geologycrossings",
+        {
+            "INPUT": section,
+            "LINE_ID_FIELD": "name",
+            "DEM": dem,
+            "CONTACTS": contacts,
+            "CONTACT_TYPE_FIELD": "type",
+            "TRACE_WINDOW": 250.0,
+            "OUTPUT": "memory:",
+            "OUTPUT_INTERVALS": "memory:",
+        },
+    )
     rows = attributes(result["OUTPUT"])
     assert rows and all(r["kind"] == "fault" for r in rows)
     best = min(rows, key=lambda r: abs(r["chainage"] - 316.2))
@@ -160,7 +197,9 @@ def test_trace_window_recovers_a_known_plane(provider, tmp_path):
     assert best["est_dipdir"] == pytest.approx(140.0, abs=2.0)
     assert "ill_conditioned" not in best["flags"]
     azimuth = np.degrees(np.arctan2(600, 200))
-    expected = np.degrees(np.arctan(np.tan(np.radians(35)) * abs(np.cos(np.radians(azimuth - 140)))))
+    expected = np.degrees(
+        np.arctan(np.tan(np.radians(35)) * abs(np.cos(np.radians(azimuth - 140))))
+    )
     assert best["est_appdip"] == pytest.approx(expected, abs=1.0)
 
 
@@ -170,37 +209,70 @@ def test_bad_geology_input(provider, demo_dir, tmp_path):
     # they should, a trace window larger than the line is fine, a null
     # section line is SKIPPED.
     x, y = 433000.0, 5130000.0
-    units = point_layer([
-        (f"POLYGON(({x} {y}, {x + 400} {y + 400}, {x + 400} {y}, {x} {y + 400}, {x} {y}))", ["BOW"]),
-        (f"POLYGON(({x + 500} {y}, {x + 700} {y}, {x + 700} {y + 400}, {x + 500} {y + 400}, "
-         f"{x + 500} {y}))", [None])], [("unit", "string")], geometry_type="Polygon")
+    units = point_layer(
+        [
+            (
+                f"POLYGON(({x} {y}, {x + 400} {y + 400}, {x + 400} {y}, {x} {y + 400}, {x} {y}))",
+                ["BOW"],
+            ),
+            (
+                f"POLYGON(({x + 500} {y}, {x + 700} {y}, {x + 700} {y + 400}, {x + 500} {y + 400}, "
+                f"{x + 500} {y}))",
+                [None],
+            ),
+        ],
+        [("unit", "string")],
+        geometry_type="Polygon",
+    )
     to_geo = Transformer.from_crs(32633, 4326, always_xy=True)
     (ax, bx), (ay, by) = to_geo.transform([x + 600, x + 600], [y - 50, y + 450])
-    contacts = point_layer([(f"LINESTRING({ax} {ay}, {bx} {by})", ["fault"])],
-                           [("type", "string")], epsg="EPSG:4326", geometry_type="LineString")
-    lines = line_layer([f"LINESTRING({x - 100} {y + 200}, {x + 900} {y + 200})", None],
-                       names=["S", "EMPTY"])
+    contacts = point_layer(
+        [(f"LINESTRING({ax} {ay}, {bx} {by})", ["fault"])],
+        [("type", "string")],
+        epsg="EPSG:4326",
+        geometry_type="LineString",
+    )
+    lines = line_layer(
+        [f"LINESTRING({x - 100} {y + 200}, {x + 900} {y + 200})", None], names=["S", "EMPTY"]
+    )
     log = LogFeedback()
-    result = processing.run("sectionwright:geologycrossings", {
-        "INPUT": lines, "LINE_ID_FIELD": "name", "DEM": f"{demo_dir}/dem.tif", "UNITS": units,
-        "UNIT_FIELD": "unit", "CONTACTS": contacts, "CONTACT_TYPE_FIELD": "type",
-        "TRACE_WINDOW": 50000.0, "OUTPUT": "memory:", "OUTPUT_INTERVALS": "memory:",
-        "SKIPPED": "memory:"}, feedback=log)
+    result = processing.run(
+        "sectionwright:geologycrossings",
+        {
+            "INPUT": lines,
+            "LINE_ID_FIELD": "name",
+            "DEM": f"{demo_dir}/dem.tif",
+            "UNITS": units,
+            "UNIT_FIELD": "unit",
+            "CONTACTS": contacts,
+            "CONTACT_TYPE_FIELD": "type",
+            "TRACE_WINDOW": 50000.0,
+            "OUTPUT": "memory:",
+            "OUTPUT_INTERVALS": "memory:",
+            "SKIPPED": "memory:",
+        },
+        feedback=log,
+    )
     assert any("repaired" in line for line in log.lines)
     assert any("no unit value" in line for line in log.lines)
     intervals = sorted(attributes(result["OUTPUT_INTERVALS"]), key=lambda r: r["ch_from"])
     assert [r["unit"] for r in intervals] == ["", "BOW", ""]
-    assert intervals[1]["ch_from"] == pytest.approx(100.0) and intervals[1]["ch_to"] == pytest.approx(500.0)
+    assert intervals[1]["ch_from"] == pytest.approx(100.0) and intervals[1][
+        "ch_to"
+    ] == pytest.approx(500.0)
     (fault,) = [r for r in attributes(result["OUTPUT"]) if r["kind"] == "fault"]
     assert fault["chainage"] == pytest.approx(700.0, abs=1e-3)
-    assert "ill_conditioned" in fault["flags"]           # a straight trace fixes no plane
+    assert "ill_conditioned" in fault["flags"]  # a straight trace fixes no plane
     assert [r["reason"] for r in attributes(result["SKIPPED"])] == ["null geometry"]
-    assert log.algorithm_log()[-2:] == ["Summary: read=2 written=1 skipped=1",
-                                        "Skipped: null geometry=1"]
+    assert log.algorithm_log()[-2:] == [
+        "Summary: read=2 written=1 skipped=1",
+        "Skipped: null geometry=1",
+    ]
 
 
 def test_unit_colours_are_applied_when_loaded(provider, demo_result):
     from sectionwright.plugin.styles import UNIT_COLOURS, UnitStripStyler
+
     layer = demo_result["OUTPUT_INTERVALS"]
     UnitStripStyler(["ASH", "BRS"], "unit").postProcessLayer(layer, None, None)
     renderer = layer.renderer()

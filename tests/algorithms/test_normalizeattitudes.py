@@ -1,14 +1,19 @@
 """sectionwright:normalizeattitudes through processing.run."""
-import pytest
-import processing
-from pyproj import Proj, Transformer
 
+import processing
+import pytest
 from layers import attributes, point_layer
+from pyproj import Proj, Transformer
 
 
 def run(layer, **extra):
-    parameters = {"INPUT": layer, "CONVENTION": 3, "TEXT_FIELD": "attitude",
-                  "OUTPUT": "memory:", "SKIPPED": "memory:"}
+    parameters = {
+        "INPUT": layer,
+        "CONVENTION": 3,
+        "TEXT_FIELD": "attitude",
+        "OUTPUT": "memory:",
+        "SKIPPED": "memory:",
+    }
     parameters.update(extra)
     return processing.run("sectionwright:normalizeattitudes", parameters)
 
@@ -28,13 +33,18 @@ def test_the_demo_notebook_is_read_back_to_its_true_planes(provider, demo_dir):
 
 
 def test_a_plain_table_and_fields_of_the_same_names(provider):
-    table = point_layer([(None, ["N30E 40SE", 999.0]), (None, ["s60w 40n", 999.0]),
-                         (None, ["30/40", 999.0])],
-                        [("attitude", "string"), ("dip_dir", "double")], geometry_type="None")
+    table = point_layer(
+        [(None, ["N30E 40SE", 999.0]), (None, ["s60w 40n", 999.0]), (None, ["30/40", 999.0])],
+        [("attitude", "string"), ("dip_dir", "double")],
+        geometry_type="None",
+    )
     result = run(table)
     rows = attributes(result["OUTPUT"])
     assert [(r["dip_dir"], r["dip"], r["strike"]) for r in rows] == [
-        (120.0, 40.0, 30.0), (330.0, 40.0, 240.0), (30.0, 40.0, 300.0)]
+        (120.0, 40.0, 30.0),
+        (330.0, 40.0, 240.0),
+        (30.0, 40.0, 300.0),
+    ]
     assert [f.name() for f in result["OUTPUT"].fields()] == ["attitude", "dip_dir", "dip", "strike"]
 
 
@@ -43,22 +53,39 @@ def test_magnetic_azimuths_become_grid_azimuths_of_the_layer(provider):
     x, y = 431500.0, 5128000.0
     lon, lat = Transformer.from_crs(32633, 4326, always_xy=True).transform(x, y)
     gamma = Proj("EPSG:32633").get_factors(lon, lat).meridian_convergence
-    layer = point_layer([(f"POINT({x} {y})", ["120/40"]), (None, ["120/40"])],
-                        [("attitude", "string")])
+    layer = point_layer(
+        [(f"POINT({x} {y})", ["120/40"]), (None, ["120/40"])], [("attitude", "string")]
+    )
     result = run(layer, NORTH_REFERENCE=2, DECLINATION=3.0)
     (row,) = attributes(result["OUTPUT"])
     assert row["dip_dir"] == pytest.approx(123.0 - gamma)
     assert [r["reason"] for r in attributes(result["SKIPPED"])] == [
-        "no position for the north correction"]
+        "no position for the north correction"
+    ]
 
 
 def test_numeric_conventions_and_bad_values(provider):
-    layer = point_layer([(None, ["30", "40", "SE"]), (None, ["45", "30", "NE"]),
-                         (None, ["30", "140", "SE"]), (None, [None, "40", "SE"])],
-                        [("strike", "string"), ("dip", "string"), ("quad", "string")],
-                        geometry_type="None")
-    result = run(layer, CONVENTION=2, AZIMUTH_FIELD="strike", DIP_FIELD="dip",
-                 QUADRANT_FIELD="quad", TEXT_FIELD=None)
+    layer = point_layer(
+        [
+            (None, ["30", "40", "SE"]),
+            (None, ["45", "30", "NE"]),
+            (None, ["30", "140", "SE"]),
+            (None, [None, "40", "SE"]),
+        ],
+        [("strike", "string"), ("dip", "string"), ("quad", "string")],
+        geometry_type="None",
+    )
+    result = run(
+        layer,
+        CONVENTION=2,
+        AZIMUTH_FIELD="strike",
+        DIP_FIELD="dip",
+        QUADRANT_FIELD="quad",
+        TEXT_FIELD=None,
+    )
     assert [(r["dip_dir"], r["strike"]) for r in attributes(result["OUTPUT"])] == [(120.0, 30.0)]
     assert [r["reason"] for r in attributes(result["SKIPPED"])] == [
-        "quadrant contradicts strike", "dip out of range", "missing azimuth"]
+        "quadrant contradicts strike",
+        "dip out of range",
+        "missing azimuth",
+    ]

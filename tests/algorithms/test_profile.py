@@ -1,18 +1,17 @@
 """sectionwright:profile through processing.run."""
-import numpy as np
-import pytest
-import processing
-from pyproj import Transformer
-from qgis.core import (QgsProcessingException, QgsProcessingFeedback, QgsVectorLayer,
-                       QgsWkbTypes)
-from scipy import ndimage
-from osgeo import gdal
 
+import numpy as np
+import processing
+import pytest
 from feedback import LogFeedback
 from layers import by_section, is_null, line_layer, plane_raster, write_raster
+from osgeo import gdal
+from pyproj import Transformer
+from qgis.core import QgsProcessingException, QgsProcessingFeedback, QgsVectorLayer, QgsWkbTypes
+from scipy import ndimage
 
 ORIGIN_X, ORIGIN_Y = 431000.0, 5127000.0
-GT = (ORIGIN_X, 10.0, 0.0, ORIGIN_Y + 2000.0, 0.0, -10.0)   # 200 x 200 cells of 10 m
+GT = (ORIGIN_X, 10.0, 0.0, ORIGIN_Y + 2000.0, 0.0, -10.0)  # 200 x 200 cells of 10 m
 
 
 def plane(x, y):
@@ -20,20 +19,28 @@ def plane(x, y):
 
 
 def run_profile(lines, dem, feedback=None, **extra):
-    parameters = {"INPUT": lines, "LINE_ID_FIELD": "name", "DEM": dem, "STEP": 25.0,
-                  "OUTPUT": "memory:", "OUTPUT_SECTION": "memory:", "SKIPPED": "memory:"}
+    parameters = {
+        "INPUT": lines,
+        "LINE_ID_FIELD": "name",
+        "DEM": dem,
+        "STEP": 25.0,
+        "OUTPUT": "memory:",
+        "OUTPUT_SECTION": "memory:",
+        "SKIPPED": "memory:",
+    }
     parameters.update(extra)
     return processing.run("sectionwright:profile", parameters, feedback=feedback)
 
 
 @pytest.fixture(scope="module")
 def plane_dem(tmp_path_factory):
-    return plane_raster(tmp_path_factory.mktemp("dem") / "plane.tif", plane, GT, (200, 200),
-                        32633)
+    return plane_raster(tmp_path_factory.mktemp("dem") / "plane.tif", plane, GT, (200, 200), 32633)
 
 
-KINKED = (f"LINESTRING({ORIGIN_X + 100} {ORIGIN_Y + 150}, {ORIGIN_X + 900} {ORIGIN_Y + 700}, "
-          f"{ORIGIN_X + 1100} {ORIGIN_Y + 1600}, {ORIGIN_X + 1900} {ORIGIN_Y + 1850})")
+KINKED = (
+    f"LINESTRING({ORIGIN_X + 100} {ORIGIN_Y + 150}, {ORIGIN_X + 900} {ORIGIN_Y + 700}, "
+    f"{ORIGIN_X + 1100} {ORIGIN_Y + 1600}, {ORIGIN_X + 1900} {ORIGIN_Y + 1850})"
+)
 
 
 def test_plane_dem_is_reproduced_exactly(provider, plane_dem):
@@ -70,6 +77,7 @@ def test_values_match_scipy_bilinear_on_the_demo_dem(provider, demo_dir):
 
 def test_chainages_match_shapely_and_the_line_length(provider, plane_dem):
     import shapely
+
     result = run_profile(line_layer([KINKED]), plane_dem, STEP=33.0)
     features = by_section(result["OUTPUT"])["L0"]
     line = shapely.from_wkt(KINKED)
@@ -126,16 +134,27 @@ def test_dem_in_another_crs_than_the_lines(provider, tmp_path):
 def test_geographic_lines_give_the_chainages_of_the_same_lines_in_utm(provider, plane_dem):
     # Reference: the same line in UTM 33N; vertices moved to WGS 84 by pyproj.
     # Tolerance from the issue: 0.5 m per 10 km.
-    utm = [(ORIGIN_X + 100, ORIGIN_Y + 150), (ORIGIN_X + 5100, ORIGIN_Y + 3150),
-           (ORIGIN_X + 9100, ORIGIN_Y + 9150)]
+    utm = [
+        (ORIGIN_X + 100, ORIGIN_Y + 150),
+        (ORIGIN_X + 5100, ORIGIN_Y + 3150),
+        (ORIGIN_X + 9100, ORIGIN_Y + 9150),
+    ]
     to_geo = Transformer.from_crs(32633, 4326, always_xy=True)
     geo = [to_geo.transform(x, y) for x, y in utm]
     feedback = LogFeedback()
-    projected = run_profile(line_layer(["LINESTRING(%s)" % ", ".join(f"{x} {y}" for x, y in utm)]),
-                            plane_dem, STEP=500.0)
+    projected = run_profile(
+        line_layer(["LINESTRING(%s)" % ", ".join(f"{x} {y}" for x, y in utm)]),
+        plane_dem,
+        STEP=500.0,
+    )
     geographic = run_profile(
-        line_layer(["LINESTRING(%s)" % ", ".join(f"{x!r} {y!r}" for x, y in geo)],
-                   epsg="EPSG:4326"), plane_dem, feedback=feedback, STEP=500.0)
+        line_layer(
+            ["LINESTRING(%s)" % ", ".join(f"{x!r} {y!r}" for x, y in geo)], epsg="EPSG:4326"
+        ),
+        plane_dem,
+        feedback=feedback,
+        STEP=500.0,
+    )
     a = np.array([f["chainage"] for f in by_section(projected["OUTPUT"])["L0"]])
     b = np.array([f["chainage"] for f in by_section(geographic["OUTPUT"])["L0"]])
     assert len(a) == len(b)
@@ -153,12 +172,15 @@ def test_step_zero_takes_the_dem_cell_size(provider, plane_dem):
 
 def test_multipart_and_curved_lines(provider, plane_dem):
     x, y = ORIGIN_X, ORIGIN_Y
-    multi = (f"MULTILINESTRING(({x + 100} {y + 100}, {x + 600} {y + 100}),"
-             f"({x + 100} {y + 400}, {x + 600} {y + 900}))")
+    multi = (
+        f"MULTILINESTRING(({x + 100} {y + 100}, {x + 600} {y + 100}),"
+        f"({x + 100} {y + 400}, {x + 600} {y + 900}))"
+    )
     arc = f"CIRCULARSTRING({x + 1000} {y + 1000}, {x + 1500} {y + 1500}, {x + 2000} {y + 1000})"
     layer = line_layer([multi], names=["M"])
     curved = QgsVectorLayer("CompoundCurve?crs=EPSG:32633&field=name:string", "c", "memory")
     from qgis.core import QgsFeature, QgsGeometry
+
     feature = QgsFeature(curved.fields())
     feature.setGeometry(QgsGeometry.fromWkt(f"COMPOUNDCURVE({arc})"))
     feature.setAttributes(["arc"])
@@ -169,7 +191,7 @@ def test_multipart_and_curved_lines(provider, plane_dem):
     assert any("2 parts" in line for line in feedback.lines)
     arc_result = run_profile(curved, plane_dem)
     section = next(arc_result["OUTPUT_SECTION"].getFeatures())
-    assert section["length"] == pytest.approx(np.pi * 500.0, rel=1e-3)   # half circle
+    assert section["length"] == pytest.approx(np.pi * 500.0, rel=1e-3)  # half circle
 
 
 def test_nodata_gives_null_and_a_gap_in_the_section(provider, tmp_path):
@@ -188,19 +210,28 @@ def test_nodata_gives_null_and_a_gap_in_the_section(provider, tmp_path):
 
 def test_bad_lines_go_to_skipped_with_reasons(provider, plane_dem):
     x, y = ORIGIN_X, ORIGIN_Y
-    wkts = [KINKED, None, "MULTILINESTRING EMPTY",
-            f"LINESTRING({x + 500} {y + 500}, {x + 500} {y + 500})",
-            f"LINESTRING({x - 9000} {y}, {x - 5000} {y})"]
+    wkts = [
+        KINKED,
+        None,
+        "MULTILINESTRING EMPTY",
+        f"LINESTRING({x + 500} {y + 500}, {x + 500} {y + 500})",
+        f"LINESTRING({x - 9000} {y}, {x - 5000} {y})",
+    ]
     feedback = LogFeedback()
     result = run_profile(line_layer(wkts), plane_dem, feedback=feedback)
     reasons = {f["section"]: f["reason"] for f in result["SKIPPED"].getFeatures()}
-    assert reasons == {"L1": "null geometry", "L2": "empty geometry",
-                       "L3": "zero-length line", "L4": "no DEM coverage"}
+    assert reasons == {
+        "L1": "null geometry",
+        "L2": "empty geometry",
+        "L3": "zero-length line",
+        "L4": "no DEM coverage",
+    }
     assert set(by_section(result["OUTPUT"])) == {"L0"}
     log = feedback.algorithm_log()
     assert log[-2] == "Summary: read=5 written=1 skipped=4"
-    assert log[-1] == ("Skipped: empty geometry=1, no DEM coverage=1, "
-                                  "null geometry=1, zero-length line=1")
+    assert log[-1] == (
+        "Skipped: empty geometry=1, no DEM coverage=1, null geometry=1, zero-length line=1"
+    )
 
 
 def test_missing_band_and_non_raster_are_clear_errors(provider, plane_dem, demo_dir):
@@ -215,6 +246,7 @@ def test_cancel_stops_between_sections(provider, plane_dem):
         def setProgress(self, progress):
             super().setProgress(progress)
             self.cancel()
+
     lines = line_layer([KINKED] * 5)
     result = run_profile(lines, plane_dem, feedback=CancelAfterFirst())
     assert result["OUTPUT_SECTION"].featureCount() == 1
@@ -237,6 +269,7 @@ def test_output_geometry_types(provider, plane_dem):
 def virtual_raster(path):
     """The same raster behind QGIS's own 'virtualraster' provider (not GDAL)."""
     from qgis.core import QgsRasterDataProvider, QgsRasterLayer
+
     source = QgsRasterLayer(path, "source", "gdal")
     parameters = QgsRasterDataProvider.VirtualRasterParameters()
     parameters.crs = source.crs()
@@ -266,6 +299,7 @@ def test_step_zero_on_a_geographic_dem_is_its_cell_size_in_metres(provider, tmp_
     # 0.0001° cell at the DEM's latitude; UTM grid distance differs from the
     # geodesic one by the scale factor (< 0.1 % here).
     from pyproj import Geod
+
     lon0, lat0 = 14.05, 46.30
     gt = (lon0, 0.0001, 0.0, lat0 + 0.02, 0.0, -0.0001)
     dem = plane_raster(tmp_path / "geo.tif", lambda x, y: 500.0 + 0 * x, gt, (200, 200), 4326)
@@ -280,26 +314,42 @@ def test_step_zero_on_a_geographic_dem_is_its_cell_size_in_metres(provider, tmp_
 
 def test_runs_as_a_step_of_a_graphical_model(provider, plane_dem):
     # The modeler: a model whose only child is sectionwright:profile.
-    from qgis.core import (QgsProcessingModelAlgorithm, QgsProcessingModelChildAlgorithm,
-                           QgsProcessingModelChildParameterSource, QgsProcessingModelOutput,
-                           QgsProcessingModelParameter, QgsProcessingParameterFeatureSource,
-                           QgsProcessingParameterRasterLayer)
+    from qgis.core import (
+        QgsProcessingModelAlgorithm,
+        QgsProcessingModelChildAlgorithm,
+        QgsProcessingModelChildParameterSource,
+        QgsProcessingModelOutput,
+        QgsProcessingModelParameter,
+        QgsProcessingParameterFeatureSource,
+        QgsProcessingParameterRasterLayer,
+    )
+
     model = QgsProcessingModelAlgorithm("sections", "tests")
-    model.addModelParameter(QgsProcessingParameterFeatureSource("lines", "lines"),
-                            QgsProcessingModelParameter("lines"))
-    model.addModelParameter(QgsProcessingParameterRasterLayer("dem", "dem"),
-                            QgsProcessingModelParameter("dem"))
+    model.addModelParameter(
+        QgsProcessingParameterFeatureSource("lines", "lines"), QgsProcessingModelParameter("lines")
+    )
+    model.addModelParameter(
+        QgsProcessingParameterRasterLayer("dem", "dem"), QgsProcessingModelParameter("dem")
+    )
     child = QgsProcessingModelChildAlgorithm("sectionwright:profile")
     child.setChildId("profile")
-    child.addParameterSources("INPUT", [QgsProcessingModelChildParameterSource.fromModelParameter("lines")])
-    child.addParameterSources("DEM", [QgsProcessingModelChildParameterSource.fromModelParameter("dem")])
-    child.addParameterSources("STEP", [QgsProcessingModelChildParameterSource.fromStaticValue(50.0)])
+    child.addParameterSources(
+        "INPUT", [QgsProcessingModelChildParameterSource.fromModelParameter("lines")]
+    )
+    child.addParameterSources(
+        "DEM", [QgsProcessingModelChildParameterSource.fromModelParameter("dem")]
+    )
+    child.addParameterSources(
+        "STEP", [QgsProcessingModelChildParameterSource.fromStaticValue(50.0)]
+    )
     output = QgsProcessingModelOutput("profile_section")
     output.setChildOutputName("OUTPUT_SECTION")
     child.setModelOutputs({"profile_section": output})
     model.addChildAlgorithm(child)
-    result = processing.run(model, {"lines": line_layer([KINKED]), "dem": plane_dem,
-                                    "profile:profile_section": "memory:"})
+    result = processing.run(
+        model,
+        {"lines": line_layer([KINKED]), "dem": plane_dem, "profile:profile_section": "memory:"},
+    )
     layer = result["profile:profile_section"]
     layer = QgsVectorLayer(layer) if isinstance(layer, str) else layer
     assert layer.featureCount() == 1

@@ -3,6 +3,7 @@ from a throwaway profile with qgis.utils, as QGIS does, and prints JSON.
 
     python load_installed_plugin.py PROFILE_DIR [--without shapely]
 """
+
 import importlib.abc
 import json
 import sys
@@ -31,16 +32,21 @@ def main():
     app.initQgis()
     messages = []
     QgsApplication.messageLog().messageReceived.connect(
-        lambda message, tag, level: messages.append([tag, message]))
+        lambda message, tag, level: messages.append([tag, message])
+    )
     sys.path.append(str(Path(QgsApplication.pkgDataPath()) / "python" / "plugins"))
     from processing.core.Processing import Processing
+
     Processing.initialize()
     import qgis.utils
+
     plugins = profile / "python" / "plugins"
     sys.path.insert(0, str(plugins))
     qgis.utils.plugin_paths = [str(plugins)]
     qgis.utils.updateAvailablePlugins()
-    loaded = qgis.utils.loadPlugin("sectionwright") and qgis.utils.startProcessingPlugin("sectionwright")
+    loaded = qgis.utils.loadPlugin("sectionwright") and qgis.utils.startProcessingPlugin(
+        "sectionwright"
+    )
     registry = QgsApplication.processingRegistry()
     provider = registry.providerById("sectionwright")
     report = {

@@ -1,4 +1,5 @@
 """The plugin zip installs into a throwaway profile and loads as QGIS loads it."""
+
 import json
 import os
 import subprocess
@@ -27,9 +28,18 @@ def profile(tmp_path_factory):
 
 def load(profile, *extra):
     env = dict(os.environ, QT_QPA_PLATFORM="offscreen")
-    done = subprocess.run([sys.executable, str(Path(__file__).with_name("load_installed_plugin.py")),
-                           str(profile), *extra], capture_output=True, text=True, env=env,
-                          timeout=120)
+    done = subprocess.run(
+        [
+            sys.executable,
+            str(Path(__file__).with_name("load_installed_plugin.py")),
+            str(profile),
+            *extra,
+        ],
+        capture_output=True,
+        text=True,
+        env=env,
+        timeout=120,
+    )
     assert done.returncode == 0, done.stderr
     return json.loads(done.stdout.strip().splitlines()[-1])
 
@@ -38,9 +48,12 @@ def test_zip_installs_and_registers_the_provider(profile):
     report = load(profile)
     assert report["available"] and report["started"]
     assert report["provider"] == "Sectionwright"
-    assert report["algorithms"] == ["sectionwright:geologycrossings",
-                                    "sectionwright:normalizeattitudes",
-                                    "sectionwright:profile", "sectionwright:projectattitudes"]
+    assert report["algorithms"] == [
+        "sectionwright:geologycrossings",
+        "sectionwright:normalizeattitudes",
+        "sectionwright:profile",
+        "sectionwright:projectattitudes",
+    ]
     assert report["unloaded"]
 
 

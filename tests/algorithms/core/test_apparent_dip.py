@@ -1,31 +1,38 @@
 """Apparent dip, exaggerated dip and their uncertainty."""
+
 import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from sectionwright.algorithms.core.apparent_dip import (apparent_dip, apparent_dip_sd,
-                                                        exaggerated_dip, line_angle)
+from sectionwright.algorithms.core.apparent_dip import (
+    apparent_dip,
+    apparent_dip_sd,
+    exaggerated_dip,
+    line_angle,
+)
 
 
 def apparent_dip_from_beta(dip, beta):
     """α for a line at β to strike: the line azimuth is strike + β."""
-    dip_direction = 90.0          # strike 0 (right-hand rule)
-    alpha, _ = apparent_dip(np.atleast_1d(dip), np.atleast_1d(dip_direction),
-                            np.atleast_1d(beta))
+    dip_direction = 90.0  # strike 0 (right-hand rule)
+    alpha, _ = apparent_dip(np.atleast_1d(dip), np.atleast_1d(dip_direction), np.atleast_1d(beta))
     return float(alpha[0])
 
 
-@pytest.mark.parametrize("dip, beta, expected", [
-    # Source: tan α = tan δ · sin β (J. B. Jukes, The South Staffordshire
-    # Coalfield, Mem. Geol. Surv., 1859, appendix; D. M. Ragan, Structural
-    # Geology, 4th ed., 2009, ch. 1, from memory). Expected values computed
-    # from the formula to two decimals.
-    (40.0, 88.0, 39.98),
-    (25.0, 65.0, 22.91),
-    (60.0, 30.0, 40.89),
-    (10.0, 45.0, 7.11),
-])
+@pytest.mark.parametrize(
+    "dip, beta, expected",
+    [
+        # Source: tan α = tan δ · sin β (J. B. Jukes, The South Staffordshire
+        # Coalfield, Mem. Geol. Surv., 1859, appendix; D. M. Ragan, Structural
+        # Geology, 4th ed., 2009, ch. 1, from memory). Expected values computed
+        # from the formula to two decimals.
+        (40.0, 88.0, 39.98),
+        (25.0, 65.0, 22.91),
+        (60.0, 30.0, 40.89),
+        (10.0, 45.0, 7.11),
+    ],
+)
 def test_worked_values_of_the_published_formula(dip, beta, expected):
     assert apparent_dip_from_beta(dip, beta) == pytest.approx(expected, abs=0.005)
 
@@ -55,8 +62,9 @@ def cross_product_apparent_dip(dip, dip_direction, line_azimuth):
 def test_matches_the_intersection_of_planes_by_cross_product(dip, dip_direction, azimuth):
     # Property-based (hypothesis) over random planes and lines.
     alpha, sense = apparent_dip(np.array([dip]), np.array([dip_direction]), np.array([azimuth]))
-    assert alpha[0] == pytest.approx(cross_product_apparent_dip(dip, dip_direction, azimuth),
-                                     abs=1e-7)
+    assert alpha[0] == pytest.approx(
+        cross_product_apparent_dip(dip, dip_direction, azimuth), abs=1e-7
+    )
     # Common practice: the apparent dip never exceeds the true dip.
     assert alpha[0] <= dip + 1e-9
     # Sense: the bed goes down toward the end when the dip direction points
@@ -79,8 +87,9 @@ def test_rules_of_thumb():
 
 
 def test_horizontal_and_vertical_have_no_sense():
-    alpha, sense = apparent_dip(np.array([0.0, 90.0]), np.array([10.0, 10.0]),
-                                np.array([10.0, 10.0]))
+    alpha, sense = apparent_dip(
+        np.array([0.0, 90.0]), np.array([10.0, 10.0]), np.array([10.0, 10.0])
+    )
     assert alpha.tolist() == [0.0, 90.0] and sense.tolist() == [0, 0]
 
 
@@ -102,6 +111,7 @@ def test_uncertainty_is_first_order_propagation(dip, beta, dip_sd, strike_sd):
     # checked here by central finite differences of the formula itself.
     def alpha(d, b):
         return np.degrees(np.arctan(np.tan(np.radians(d)) * np.sin(np.radians(b))))
+
     h = 1e-5
     by_dip = (alpha(dip + h, beta) - alpha(dip - h, beta)) / (2 * h)
     by_beta = (alpha(dip, beta + h) - alpha(dip, beta - h)) / (2 * h)

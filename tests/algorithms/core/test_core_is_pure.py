@@ -1,4 +1,5 @@
 """The core imports no QGIS and its docstring examples run."""
+
 import doctest
 import importlib
 import pkgutil
@@ -21,7 +22,8 @@ def test_core_modules_import_without_qgis(tmp_path):
         "module = importlib.util.module_from_spec(spec); sys.modules['swcore'] = module\n"
         "spec.loader.exec_module(module)\n"
         f"for name in {CORE_MODULES!r}: importlib.import_module('swcore.' + name)\n"
-        "assert not any(m.split('.')[0] == 'qgis' for m in sys.modules)\n")
+        "assert not any(m.split('.')[0] == 'qgis' for m in sys.modules)\n"
+    )
     env = {"PYTHONPATH": str(tmp_path), "PROJ_DATA": "/usr/share/proj", "PATH": "/usr/bin"}
     subprocess.run([sys.executable, "-c", script], check=True, env=env)
 

@@ -1,12 +1,16 @@
 """Unit intervals, crossings and contact planes from traces."""
+
 import numpy as np
 import pytest
 import shapely
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from sectionwright.algorithms.core.geology import (boundary_crossings, contact_crossings,
-                                                   unit_intervals)
+from sectionwright.algorithms.core.geology import (
+    boundary_crossings,
+    contact_crossings,
+    unit_intervals,
+)
 from sectionwright.algorithms.core.trace_fit import plane_fits, trace_windows
 
 LINE = np.array([[0.0, 0.0], [600.0, 300.0], [900.0, 900.0]])
@@ -67,12 +71,15 @@ def test_a_corner_touching_the_line_cuts_nothing():
 
 
 def test_contacts_crossing_twice_and_touching_at_a_vertex():
-    contacts = [shapely.LineString([(100, 100), (400, -50), (700, 500)]),
-                shapely.LineString([(600, 300), (650, 100)])]
+    contacts = [
+        shapely.LineString([(100, 100), (400, -50), (700, 500)]),
+        shapely.LineString([(600, 300), (650, 100)]),
+    ]
     chainage, which, along = contact_crossings(LINE, contacts)
     line = shapely.LineString(LINE)
     expected = shapely.line_locate_point(
-        line, shapely.get_parts(shapely.intersection(line, contacts[0])))
+        line, shapely.get_parts(shapely.intersection(line, contacts[0]))
+    )
     assert sorted(chainage[which == 0]) == pytest.approx(sorted(expected))
     assert len(chainage[which == 0]) == len(expected) >= 2
     assert chainage[which == 1].tolist() == pytest.approx([line.project(shapely.Point(600, 300))])
@@ -85,8 +92,11 @@ def test_the_classic_three_point_problem():
     # from the highest to the lowest point find the point at the middle
     # elevation; the line from it to the middle point is the strike; the dip
     # is the height difference over the horizontal distance across strike.
-    a, b, c = np.array([0.0, 0.0, 320.0]), np.array([800.0, 200.0, 180.0]), \
-        np.array([300.0, 700.0, 250.0])
+    a, b, c = (
+        np.array([0.0, 0.0, 320.0]),
+        np.array([800.0, 200.0, 180.0]),
+        np.array([300.0, 700.0, 250.0]),
+    )
     high, low, middle = a, b, c
     t = (high[2] - middle[2]) / (high[2] - low[2])
     on_line = high + t * (low - high)
@@ -111,18 +121,20 @@ def test_a_known_plane_is_recovered_from_its_trace_on_rugged_ground():
     # ContourGenerate, a general-purpose library) at level 0 of
     # ground − plane on a 2 m grid; its points are draped on the exact ground.
     from osgeo import gdal, ogr
+
     dip, direction = 35.0, 140.0
     d = np.radians(direction)
 
     def plane(x, y):
         return 420 - np.tan(np.radians(dip)) * (x * np.sin(d) + y * np.cos(d))
+
     size, cell = 600, 2.0
     centres = (np.arange(size) + 0.5) * cell
     x, y = np.meshgrid(centres, centres[::-1])
     raster = gdal.GetDriverByName("MEM").Create("", size, size, 1, gdal.GDT_Float64)
     raster.SetGeoTransform((0, cell, 0, size * cell, 0, -cell))
     raster.GetRasterBand(1).WriteArray(rugged(x, y) - plane(x, y))
-    store = ogr.GetDriverByName("Memory").CreateDataSource("")   # keep: layers die with it
+    store = ogr.GetDriverByName("Memory").CreateDataSource("")  # keep: layers die with it
     layer = store.CreateLayer("c")
     layer.CreateField(ogr.FieldDefn("id", ogr.OFTInteger))
     layer.CreateField(ogr.FieldDefn("z", ogr.OFTReal))
@@ -130,8 +142,9 @@ def test_a_known_plane_is_recovered_from_its_trace_on_rugged_ground():
     traces = [shapely.from_wkt(f.GetGeometryRef().ExportToWkt()) for f in layer]
     longest = max(traces, key=lambda g: g.length)
     centre = longest.interpolate(0.5, normalized=True)
-    xy, which = trace_windows([longest], np.array([0]), np.array([[centre.x, centre.y]]),
-                              250.0, 5.0)
+    xy, which = trace_windows(
+        [longest], np.array([0]), np.array([[centre.x, centre.y]]), 250.0, 5.0
+    )
     xyz = np.column_stack((xy, rugged(xy[:, 0], xy[:, 1])))
     got_direction, got_dip, rms, ill = plane_fits(xyz, which)
     assert got_dip[0] == pytest.approx(dip, abs=0.5)

@@ -1,11 +1,15 @@
 """Chainage and sampling along section lines."""
+
 import numpy as np
 import shapely
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from sectionwright.algorithms.core.lines import (drop_repeated_vertices, sample_chainages,
-                                                 vertex_chainage)
+from sectionwright.algorithms.core.lines import (
+    drop_repeated_vertices,
+    sample_chainages,
+    vertex_chainage,
+)
 from sectionwright.algorithms.core.profile import profile_samples
 
 KINKED = np.array([[0.0, 0.0], [700.0, 300.0], [900.0, 1200.0], [2000.0, 1150.0]])
@@ -46,8 +50,7 @@ def test_repeated_vertices_do_not_make_duplicate_samples():
 
 
 @settings(max_examples=200, deadline=None)
-@given(st.lists(st.floats(0.0, 5000.0), min_size=2, max_size=8, unique=True),
-       st.floats(0.5, 400.0))
+@given(st.lists(st.floats(0.0, 5000.0), min_size=2, max_size=8, unique=True), st.floats(0.5, 400.0))
 def test_samples_are_strictly_increasing_and_include_vertices(cuts, step):
     # Property-based (hypothesis): for any vertex chainages and step.
     vertex_ch = np.sort(np.array(cuts)) - min(cuts)

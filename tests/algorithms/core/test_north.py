@@ -1,4 +1,5 @@
 """Grid, true and magnetic north."""
+
 import numpy as np
 import pytest
 from pyproj import CRS, Proj, Transformer

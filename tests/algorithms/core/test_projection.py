@@ -1,13 +1,19 @@
 """Points carried onto the nearest of many section lines."""
+
 import numpy as np
 import pytest
 import shapely
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from sectionwright.algorithms.core.projection import (SectionNetwork, along_directions,
-                                                      line_azimuths, nearest_points,
-                                                      plunge_elevation, signed_offsets)
+from sectionwright.algorithms.core.projection import (
+    SectionNetwork,
+    along_directions,
+    line_azimuths,
+    nearest_points,
+    plunge_elevation,
+    signed_offsets,
+)
 
 REACH = 300.0
 
@@ -62,8 +68,9 @@ def test_nearest_line_and_chainage_match_shapely(world):
     np.testing.assert_allclose(landing.travel[hit], distances.min(axis=0)[hit], atol=1e-8)
     geometries = [shapely.LineString(c) for c in lines]
     foot = shapely.points(landing.xy[hit])
-    expected_chainage = [shapely.line_locate_point(geometries[nearest[i]], f)
-                         for i, f in zip(hit, foot)]
+    expected_chainage = [
+        shapely.line_locate_point(geometries[nearest[i]], f) for i, f in zip(hit, foot)
+    ]
     np.testing.assert_allclose(landing.chainage[hit], expected_chainage, atol=1e-7)
 
 
@@ -96,7 +103,7 @@ def test_kinked_line_chainage_and_segment_azimuth():
 
 
 def test_offsets_are_positive_right_of_the_line_whatever_the_method():
-    network = SectionNetwork([np.array([[0.0, 0.0], [0.0, 1000.0]])], 200.0)   # northward
+    network = SectionNetwork([np.array([[0.0, 0.0], [0.0, 1000.0]])], 200.0)  # northward
     xy = np.array([[30.0, 500.0], [-40.0, 600.0]])
     perpendicular = nearest_points(network, xy, 100.0)
     np.testing.assert_allclose(signed_offsets(network, perpendicular, xy), [30.0, -40.0])
@@ -105,14 +112,20 @@ def test_offsets_are_positive_right_of_the_line_whatever_the_method():
     np.testing.assert_allclose(signed_offsets(network, oblique, xy), [30.0, -40.0])
 
 
-@pytest.mark.parametrize("trend, travel, z", [
-    # Hand-computed (REFERENCES.md; Groshong 2006, ch. 6): a point 100 m
-    # north of an east-west section at 500 m, plunge 30°.
-    (180.0, 100.0, 500.0 - 100.0 * np.tan(np.radians(30.0))),     # down-plunge: 442.26
-    (0.0, -100.0, 500.0 + 100.0 * np.tan(np.radians(30.0))),      # up-plunge: 557.74
-    (135.0, 100.0 / np.cos(np.radians(45.0)),
-     500.0 - 100.0 / np.cos(np.radians(45.0)) * np.tan(np.radians(30.0))),   # 418.35
-])
+@pytest.mark.parametrize(
+    "trend, travel, z",
+    [
+        # Hand-computed (REFERENCES.md; Groshong 2006, ch. 6): a point 100 m
+        # north of an east-west section at 500 m, plunge 30°.
+        (180.0, 100.0, 500.0 - 100.0 * np.tan(np.radians(30.0))),  # down-plunge: 442.26
+        (0.0, -100.0, 500.0 + 100.0 * np.tan(np.radians(30.0))),  # up-plunge: 557.74
+        (
+            135.0,
+            100.0 / np.cos(np.radians(45.0)),
+            500.0 - 100.0 / np.cos(np.radians(45.0)) * np.tan(np.radians(30.0)),
+        ),  # 418.35
+    ],
+)
 def test_plunge_projection_shifts_elevation_by_travel_times_tan_plunge(trend, travel, z):
     network = SectionNetwork([np.array([[-1000.0, 0.0], [1000.0, 0.0]])], 400.0)
     landing = along_directions(network, np.array([[0.0, 100.0]]), np.array([trend]), 250.0)
@@ -130,6 +143,7 @@ def test_direction_parallel_to_the_line_reaches_nothing():
 @given(st.integers(0, 10_000))
 def test_chunking_does_not_change_results(seed):
     import sectionwright.algorithms.core.projection as projection
+
     rng = np.random.default_rng(seed)
     lines = random_lines(rng, 5)
     network = SectionNetwork(lines, 2 * REACH)

@@ -1,4 +1,5 @@
 """Bilinear interpolation between cell centres, tile by tile."""
+
 import numpy as np
 import pytest
 from scipy import ndimage
@@ -11,7 +12,8 @@ def cache_for(grid, tile_shape=(7, 5), readers=1):
 
     def read(row0, col0, nrows, ncols):
         reads.append((row0, col0))
-        return grid[row0:row0 + nrows, col0:col0 + ncols].astype(float)
+        return grid[row0 : row0 + nrows, col0 : col0 + ncols].astype(float)
+
     raster = TiledRaster([read] * readers, grid.shape, tile_shape)
     raster.reads = reads
     return raster
@@ -40,14 +42,18 @@ def test_a_plane_is_reproduced_exactly():
     plane = 312.5 + 0.75 * cols - 1.25 * rows
     u = np.random.default_rng(2).uniform(0, 59, 500)
     v = np.random.default_rng(3).uniform(0, 39, 500)
-    np.testing.assert_allclose(bilinear(u, v, cache_for(plane)), 312.5 + 0.75 * u - 1.25 * v,
-                               atol=1e-9)
+    np.testing.assert_allclose(
+        bilinear(u, v, cache_for(plane)), 312.5 + 0.75 * u - 1.25 * v, atol=1e-9
+    )
 
 
 def test_edge_cells_extend_to_the_raster_edge_and_nothing_beyond(grid):
     cache = cache_for(grid)
-    z = bilinear(np.array([-0.5, -0.2, 30.5, 10.0, -0.51, 30.51]),
-                 np.array([3.0, 0.0, 22.5, -0.5, 3.0, 3.0]), cache)
+    z = bilinear(
+        np.array([-0.5, -0.2, 30.5, 10.0, -0.51, 30.51]),
+        np.array([3.0, 0.0, 22.5, -0.5, 3.0, 3.0]),
+        cache,
+    )
     assert z[0] == pytest.approx(grid[3, 0])
     assert z[1] == pytest.approx(grid[0, 0])
     assert z[2] == pytest.approx(grid[22, 30])
@@ -58,8 +64,9 @@ def test_edge_cells_extend_to_the_raster_edge_and_nothing_beyond(grid):
 def test_nodata_in_a_weighted_cell_gives_nan_and_only_then(grid):
     grid = grid.copy()
     grid[5, 5] = np.nan
-    z = bilinear(np.array([5.5, 4.5, 6.0, 5.0, 7.0]), np.array([5.5, 4.5, 4.0, 4.0, 5.0]),
-                 cache_for(grid))
+    z = bilinear(
+        np.array([5.5, 4.5, 6.0, 5.0, 7.0]), np.array([5.5, 4.5, 4.0, 4.0, 5.0]), cache_for(grid)
+    )
     assert np.isnan(z[0]) and np.isnan(z[1])
     # (6, 4) and (5, 4) are cell centres off the nodata cell: it carries no weight.
     assert not np.isnan(z[2]) and not np.isnan(z[3])
