@@ -90,9 +90,48 @@ class SectionNetwork:
         self.tree = shapely.STRtree(
             shapely.linestrings(np.stack((self.start, self.end), axis=1)) if len(self.start) else []
         )
+        self.lines = np.array([shapely.LineString(c) for c in coords_list], dtype=object)
+        self.first_piece = np.flatnonzero(self.is_first)
+        self.last_piece = np.flatnonzero(self.is_last)
+        # One sorted key for all pieces: a line's chainages shifted past the
+        # previous lines', so that one search finds any point's piece.
+        lengths = np.array([g.length for g in self.lines])
+        self.line_offset = np.concatenate(([0.0], np.cumsum(lengths + 1.0)[:-1]))
+        self.piece_key = self.line_offset[self.line] + self.chainage
 
     def __len__(self):
         return self.count
+
+    def locate(self, line, xy, extend=False):
+        """(chainage, signed offset) of points on the given lines: the foot
+        of the nearest point (+ right of the line looking from its start to
+        its end). With ``extend``, points beyond a line's ends are located
+        on its end segments carried on (chainage < 0 or > length).
+
+        >>> net = SectionNetwork([np.array([[0.0, 0.0], [100.0, 0.0]])], 40.0)
+        >>> net.locate(np.array([0, 0]), np.array([[30.0, -8.0], [-20.0, 5.0]]), extend=True)
+        (array([ 30., -20.]), array([ 8., -5.]))
+        """
+        line = np.asarray(line, dtype=int)
+        xy = np.asarray(xy, dtype=float)
+        chainage = shapely.line_locate_point(self.lines[line], shapely.points(xy))
+        foot = shapely.get_coordinates(shapely.line_interpolate_point(self.lines[line], chainage))
+        piece = np.searchsorted(self.piece_key, self.line_offset[line] + chainage, side="right") - 1
+        piece = np.clip(piece, self.first_piece[line], self.last_piece[line])
+        unit = np.column_stack((self.ex[piece], self.ey[piece])) / self.length[piece, None]
+        if extend:
+            along = np.einsum("ij,ij->i", xy - foot, unit)
+            at_end = ((chainage <= 0) & (along < 0) & (piece == self.first_piece[line])) | (
+                (chainage >= self.length_of(line)) & (along > 0) & (piece == self.last_piece[line])
+            )
+            chainage = np.where(at_end, chainage + along, chainage)
+            foot = np.where(at_end[:, None], foot + along[:, None] * unit, foot)
+        away = xy - foot
+        cross = unit[:, 0] * away[:, 1] - unit[:, 1] * away[:, 0]
+        return chainage, np.where(cross > 0, -1.0, 1.0) * np.hypot(away[:, 0], away[:, 1])
+
+    def length_of(self, line):
+        return shapely.length(self.lines[line])
 
     def candidates(self, low, high):
         """(query index, piece index) pairs whose envelopes meet the boxes,
@@ -234,24 +273,12 @@ def line_azimuths(network, landing):
 
 def signed_offsets(network, landing, xy):
     """Signed horizontal distance from each landed point to the nearest point
-    of its own line (+ right of the line looking from start to end)."""
-    xy = np.asarray(xy, dtype=float)
+    of its own line (+ right of the line looking from start to end); NaN for
+    points that landed nowhere."""
     offsets = np.full(len(xy), np.nan)
     landed = np.flatnonzero(landing.line >= 0)
-    if len(landed) == 0:
-        return offsets
-    line = landing.line[landed]
-    # The nearest point of a given line: its pieces' envelopes near the point.
-    reach = np.abs(landing.travel[landed])[:, None] + 1e-9
-    point, piece = network.candidates(xy[landed] - reach, xy[landed] + reach)
-    same = network.line[piece] == line[point]
-    point, piece = point[same], piece[same]
-    t, distance, _ = _nearest_on_pieces(network, xy[landed], point, piece)
-    best = _best_per_point(point, distance)
-    azimuth = np.radians(network.azimuth[piece[best]])
-    away = xy[landed][point[best]] - _foot(network, piece[best], t[best])
-    cross = np.sin(azimuth) * away[:, 1] - np.cos(azimuth) * away[:, 0]
-    offsets[landed[point[best]]] = np.where(cross > 0, -distance[best], distance[best])
+    if len(landed):
+        offsets[landed] = network.locate(landing.line[landed], np.asarray(xy)[landed])[1]
     return offsets
 
 

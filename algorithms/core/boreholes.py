@@ -1,0 +1,117 @@
+"""Collars, surveys and intervals checked and assembled into survey
+stations, many holes at once. Rows that cannot be used come back with a
+reason; the rest are still used."""
+from dataclasses import dataclass
+
+import numpy as np
+
+from .desurvey import inclination_from_vertical
+
+NO_COLLAR = "no collar for hole"
+OUT_OF_ORDER = "survey out of depth order"
+BEYOND_DEPTH = "beyond total depth"
+OVERLAP = "overlaps the interval above"
+EMPTY = "empty interval"
+
+
+def _running_max_before(group, values):
+    """For rows sorted by group: the largest earlier value in the same group
+    (-inf for a group's first row)."""
+    scale = 4.0 * (np.nanmax(np.abs(values), initial=0.0) + 1.0)
+    shifted = values + group * scale
+    running = np.maximum.accumulate(shifted)
+    before = np.r_[-np.inf, running[:-1]]
+    first = np.r_[True, group[1:] != group[:-1]]
+    return np.where(first, -np.inf, before - group * scale)
+
+
+def _first_reason(reasons, *checks):
+    for failed, reason in checks:
+        reasons[failed & (reasons == "")] = reason
+    return reasons
+
+
+def check_surveys(hole, depth, azimuth, inclination, total_depth):
+    """Reasons ('' = usable) for survey rows in table order. ``hole`` is the
+    collar index of each row (-1: no collar), ``total_depth`` per collar.
+    A row not deeper than an earlier row of its hole is out of order.
+
+    >>> check_surveys(np.array([0, 0, 0, -1, 0]), np.array([0.0, 50, 40, 10, 300]),
+    ...               np.zeros(5), np.full(5, 60.0), np.array([200.0])).tolist()
+    ['', '', 'survey out of depth order', 'no collar for hole', 'beyond total depth']
+    """
+    hole = np.asarray(hole)
+    depth = np.asarray(depth, dtype=float)
+    reasons = np.full(len(hole), "", dtype=object)
+    _first_reason(reasons, (hole < 0, NO_COLLAR), (np.isnan(depth), "missing depth"),
+                  (np.isnan(np.asarray(azimuth, dtype=float)), "missing azimuth"),
+                  (np.isnan(np.asarray(inclination, dtype=float)), "missing inclination"),
+                  (np.abs(np.asarray(inclination, dtype=float)) > 90, "inclination out of range"),
+                  (depth < 0, "negative depth"))
+    known = np.flatnonzero(reasons == "")
+    order = known[np.argsort(hole[known], kind="stable")]
+    earlier = _running_max_before(hole[order], depth[order])
+    reasons[order[depth[order] <= earlier]] = OUT_OF_ORDER
+    deeper = (reasons == "") & (hole >= 0)
+    deeper[deeper] = depth[deeper] > np.asarray(total_depth)[hole[deeper]] + 1e-9
+    reasons[deeper] = BEYOND_DEPTH
+    return reasons
+
+
+def check_intervals(hole, top, bottom, total_depth):
+    """Reasons for interval rows: no collar, missing or empty, beyond the
+    hole's total depth, or overlapping an interval above (the deeper-starting
+    of two overlapping intervals is the one refused).
+
+    >>> check_intervals(np.array([0, 0, 0, 0]), np.array([0.0, 10, 15, 30]),
+    ...                 np.array([10.0, 20, 25, 90]), np.array([80.0])).tolist()
+    ['', '', 'overlaps the interval above', 'beyond total depth']
+    """
+    hole = np.asarray(hole)
+    top = np.asarray(top, dtype=float)
+    bottom = np.asarray(bottom, dtype=float)
+    reasons = np.full(len(hole), "", dtype=object)
+    _first_reason(reasons, (hole < 0, NO_COLLAR),
+                  (np.isnan(top) | np.isnan(bottom), "missing depth"),
+                  (top < 0, "negative depth"), (bottom <= top, EMPTY))
+    usable = reasons == ""
+    usable[usable] = bottom[usable] > np.asarray(total_depth)[hole[usable]] + 1e-9
+    reasons[usable] = BEYOND_DEPTH
+    known = np.flatnonzero(reasons == "")
+    order = known[np.lexsort((top[known], hole[known]))]
+    reasons[order[top[order] < _running_max_before(hole[order], bottom[order]) - 1e-9]] = OVERLAP
+    return reasons
+
+
+@dataclass
+class Stations:
+    """Survey stations of many holes, sorted by hole then depth."""
+    hole: np.ndarray
+    md: np.ndarray
+    inclination: np.ndarray   # from vertical
+    azimuth: np.ndarray
+
+
+def assemble_stations(collar_inclination, collar_azimuth, hole, depth, inclination, azimuth):
+    """Stations for every collar: one at depth 0 with the collar's own
+    direction (unless a survey is at 0), then its usable surveys. Logged
+    inclinations (below horizontal, mining negatives) become inclinations
+    from vertical.
+
+    >>> s = assemble_stations(np.array([90.0, -60.0]), np.array([0.0, 45.0]),
+    ...                       np.array([1, 1]), np.array([0.0, 100.0]),
+    ...                       np.array([-55.0, -50.0]), np.array([44.0, 43.0]))
+    >>> s.hole.tolist(), s.md.tolist(), s.inclination.tolist()
+    ([0, 1, 1], [0.0, 0.0, 100.0], [0.0, 35.0, 40.0])
+    """
+    collars = np.arange(len(collar_inclination))
+    surveyed_at_top = np.zeros(len(collars), dtype=bool)
+    surveyed_at_top[np.asarray(hole)[np.asarray(depth) == 0]] = True
+    top = collars[~surveyed_at_top]
+    holes = np.concatenate((top, hole))
+    md = np.concatenate((np.zeros(len(top)), depth))
+    logged = np.concatenate((np.asarray(collar_inclination, dtype=float)[top], inclination))
+    azimuths = np.concatenate((np.asarray(collar_azimuth, dtype=float)[top], azimuth))
+    order = np.lexsort((md, holes))
+    return Stations(holes[order], md[order], inclination_from_vertical(logged[order]),
+                    np.nan_to_num(azimuths[order]) % 360.0)
