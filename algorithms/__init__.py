@@ -5,6 +5,7 @@ def all_algorithms():
     from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
+    from .projectboreholes import ProjectBoreholesAlgorithm
     from .projectattitudes import ProjectAttitudesAlgorithm
 
     return [
@@ -12,4 +13,5 @@ def all_algorithms():
         ProjectAttitudesAlgorithm(),
         NormalizeAttitudesAlgorithm(),
         GeologyCrossingsAlgorithm(),
+        ProjectBoreholesAlgorithm(),
     ]

@@ -16,6 +16,8 @@ def _scoped(scope, member, legacy):
 
 POINT_Z = _scoped("WkbType", "PointZ", QgsWkbTypes.PointZ)
 LINE_STRING = _scoped("WkbType", "LineString", QgsWkbTypes.LineString)
+LINE_STRING_Z = _scoped("WkbType", "LineStringZ", QgsWkbTypes.LineStringZ)
+NO_GEOMETRY = _scoped("WkbType", "NoGeometry", QgsWkbTypes.NoGeometry)
 MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", QgsWkbTypes.MultiLineString)
 
 SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", QgsProcessing.TypeVectorLine)

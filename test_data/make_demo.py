@@ -238,28 +238,50 @@ def write_attitudes(gpkg, rng):
 
 # Boreholes: local collar position, azimuth, inclination as logged, depth.
 HOLES = (
-    ("TG-01", 2300.0, 5600.0, 0.0, 90.0, 420.0),
-    ("TG-02", 4100.0, 4100.0, 125.0, 60.0, 380.0),
-    ("TG-03", 5600.0, 3000.0, 305.0, -70.0, 450.0),  # mining convention
-    ("TG-04", 6900.0, 2300.0, 0.0, 90.0, 300.0),
-    ("TG-05", 3100.0, 2200.0, 80.0, 75.0, 350.0),
-    ("TG-06", 7700.0, 5600.0, 215.0, -60.0, 400.0),
+    ("TG-01", 2300.0, 5600.0, 0.0, 90.0, 620.0),
+    ("TG-02", 4100.0, 4100.0, 125.0, 60.0, 560.0),
+    ("TG-03", 5600.0, 3000.0, 305.0, -70.0, 650.0),  # mining convention
+    ("TG-04", 6900.0, 2300.0, 0.0, 90.0, 480.0),
+    ("TG-05", 3100.0, 2200.0, 80.0, 75.0, 520.0),
+    ("TG-06", 7700.0, 5600.0, 215.0, -60.0, 600.0),
 )
+# A hole drilled as a circular arc: vertical at the collar, turning at a
+# constant rate toward CURVED_AZIMUTH until CURVED_END_INCLINATION below the
+# horizontal at its total depth. Minimum curvature reproduces such an arc
+# exactly, so its analytic path is ground truth.
+CURVED = ("TG-07", 5000.0, 3400.0, 170.0, 90.0, 500.0)
+CURVED_END_INCLINATION = 40.0
+SURVEY_SPACING = 25.0
 
 
-def hole_direction(azimuth, inclination):
-    """Unit vector (east, north, up) of a straight hole; inclination below
+def straight_path(azimuth, inclination):
+    """md -> (east, north, up) offsets of a straight hole; inclination below
     horizontal, negative values read as the mining convention."""
     plunge = np.radians(abs(inclination))
     a = np.radians(azimuth)
-    return np.array([np.cos(plunge) * np.sin(a), np.cos(plunge) * np.cos(a), -np.sin(plunge)])
+    direction = np.array([np.cos(plunge) * np.sin(a), np.cos(plunge) * np.cos(a), -np.sin(plunge)])
+    return lambda md: np.outer(md, direction)
 
 
-def hole_intervals(x, y, z, direction, depth):
-    """(from, to, unit) along a straight hole, boundaries to 1 cm."""
+def arc_path(azimuth, depth):
+    """md -> offsets along the curved hole (radius 1/k in a vertical plane)."""
+    k = np.radians(90.0 - CURVED_END_INCLINATION) / depth
+    a = np.radians(azimuth)
+
+    def path(md):
+        md = np.asarray(md, dtype=float)
+        across = (1 - np.cos(k * md)) / k
+        return np.column_stack((across * np.sin(a), across * np.cos(a), -np.sin(k * md) / k))
+
+    path.logged_inclination = lambda md: 90.0 - np.degrees(k * np.asarray(md))
+    return path
+
+
+def hole_intervals(x, y, z, path, depth):
+    """(from, to, unit) along a hole, boundaries to 1 cm."""
     md = np.arange(0.0, depth + 0.005, 0.01)
-    px, py, pz = (c + md * d for c, d in zip((x, y, z), direction))
-    index = W.unit_index(px, py, pz)
+    offsets = path(md)
+    index = W.unit_index(x + offsets[:, 0], y + offsets[:, 1], z + offsets[:, 2])
     breaks = np.flatnonzero(np.diff(index)) + 1
     starts = np.r_[0, breaks]
     ends = np.r_[breaks, len(md) - 1]
@@ -267,64 +289,34 @@ def hole_intervals(x, y, z, direction, depth):
 
 
 def write_boreholes(gpkg):
-    collars = new_layer(
-        gpkg,
-        "collars",
-        ogr.wkbPoint25D,
-        [
-            ("hole_id", ogr.OFTString),
-            ("azimuth", ogr.OFTReal),
-            ("incl", ogr.OFTReal),
-            ("depth", ogr.OFTReal),
-        ],
-    )
-    surveys = new_layer(
-        gpkg,
-        "surveys",
-        ogr.wkbNone,
-        [
-            ("hole_id", ogr.OFTString),
-            ("depth", ogr.OFTReal),
-            ("azimuth", ogr.OFTReal),
-            ("incl", ogr.OFTReal),
-        ],
-    )
-    intervals = new_layer(
-        gpkg,
-        "intervals",
-        ogr.wkbNone,
-        [
-            ("hole_id", ogr.OFTString),
-            ("from_m", ogr.OFTReal),
-            ("to_m", ogr.OFTReal),
-            ("unit", ogr.OFTString),
-        ],
-    )
-    for hole_id, u, v, azimuth, inclination, depth in HOLES:
+    collars = new_layer(gpkg, "collars", ogr.wkbPoint25D,
+                        [("hole_id", ogr.OFTString), ("azimuth", ogr.OFTReal),
+                         ("incl", ogr.OFTReal), ("depth", ogr.OFTReal)])
+    surveys = new_layer(gpkg, "surveys", ogr.wkbNone,
+                        [("hole_id", ogr.OFTString), ("depth", ogr.OFTReal),
+                         ("azimuth", ogr.OFTReal), ("incl", ogr.OFTReal)])
+    intervals = new_layer(gpkg, "intervals", ogr.wkbNone,
+                          [("hole_id", ogr.OFTString), ("from_m", ogr.OFTReal),
+                           ("to_m", ogr.OFTReal), ("unit", ogr.OFTString)])
+    for hole_id, u, v, azimuth, inclination, depth in HOLES + (CURVED,):
         x, y = W.ORIGIN[0] + u, W.ORIGIN[1] + v
         z = float(W.ground(x, y))
         collar = ogr.Geometry(ogr.wkbPoint25D)
         collar.AddPoint(x, y, z)
-        add_feature(
-            collars,
-            {"hole_id": hole_id, "azimuth": azimuth, "incl": inclination, "depth": depth},
-            collar,
-        )
-        for station in np.arange(0.0, depth + 1e-9, 50.0):
-            add_feature(
-                surveys,
-                {
-                    "hole_id": hole_id,
-                    "depth": float(station),
-                    "azimuth": azimuth,
-                    "incl": inclination,
-                },
-            )
-        direction = hole_direction(azimuth, inclination)
-        for top, bottom, code in hole_intervals(x, y, z, direction, depth):
-            add_feature(
-                intervals, {"hole_id": hole_id, "from_m": top, "to_m": bottom, "unit": code}
-            )
+        add_feature(collars, {"hole_id": hole_id, "azimuth": azimuth, "incl": inclination,
+                              "depth": depth}, collar)
+        curved = hole_id == CURVED[0]
+        path = arc_path(azimuth, depth) if curved else straight_path(azimuth, inclination)
+        for station in np.arange(0.0, depth + 1e-9, SURVEY_SPACING):
+            logged = float(path.logged_inclination(station)) if curved else inclination
+            add_feature(surveys, {"hole_id": hole_id, "depth": float(station),
+                                  "azimuth": azimuth, "incl": logged})
+        for top, bottom, code in hole_intervals(x, y, z, path, depth):
+            add_feature(intervals, {"hole_id": hole_id, "from_m": top, "to_m": bottom,
+                                    "unit": code})
+    # Two slips of the kind logging sheets have, for SKIPPED to report.
+    add_feature(surveys, {"hole_id": "TG-03", "depth": 140.0, "azimuth": 305.0, "incl": -70.0})
+    add_feature(intervals, {"hole_id": "TG-04", "from_m": 470.0, "to_m": 500.0, "unit": "ASH"})
 
 
 def make(out_dir):

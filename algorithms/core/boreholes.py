@@ -78,9 +78,24 @@ def check_intervals(hole, top, bottom, total_depth):
     usable[usable] = bottom[usable] > np.asarray(total_depth)[hole[usable]] + 1e-9
     reasons[usable] = BEYOND_DEPTH
     known = np.flatnonzero(reasons == "")
-    order = known[np.lexsort((top[known], hole[known]))]
-    reasons[order[top[order] < _running_max_before(hole[order], bottom[order]) - 1e-9]] = OVERLAP
+    reasons[_overlapping(known[np.lexsort((top[known], hole[known]))], hole, top, bottom)] = OVERLAP
     return reasons
+
+
+def _overlapping(order, hole, top, bottom):
+    """Rows (in ``order``: by hole, then top) starting above the bottom of an
+    interval kept before them in their hole. Sequential on purpose: whether
+    a row is kept depends on which rows above it were kept."""
+    refused = []
+    deepest, current = -np.inf, None
+    for row in order:
+        if hole[row] != current:
+            deepest, current = -np.inf, hole[row]
+        if top[row] < deepest - 1e-9:
+            refused.append(row)
+        else:
+            deepest = max(deepest, bottom[row])
+    return np.array(refused, dtype=int)
 
 
 @dataclass
