@@ -5,8 +5,8 @@ def all_algorithms():
     from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
-    from .projectboreholes import ProjectBoreholesAlgorithm
     from .projectattitudes import ProjectAttitudesAlgorithm
+    from .projectboreholes import ProjectBoreholesAlgorithm
 
     return [
         ProfileAlgorithm(),

@@ -1,10 +1,22 @@
 """Shapely geometries handed to QGIS in one step (WKB), not vertex by vertex."""
 
 import shapely
-from qgis.core import QgsGeometry
+from qgis.core import QgsFeature, QgsFeatureSink, QgsGeometry
 
 
 def to_qgis(geometry):
     result = QgsGeometry()
     result.fromWkb(shapely.to_wkb(geometry))
     return result
+
+
+def add_features(sink, geometries, attributes):
+    """Features from an array of shapely geometries (encoded in one call) and
+    their attribute rows."""
+    for wkb, values in zip(shapely.to_wkb(geometries).tolist(), attributes):
+        feature = QgsFeature()
+        geometry = QgsGeometry()
+        geometry.fromWkb(wkb)
+        feature.setGeometry(geometry)
+        feature.setAttributes(values)
+        sink.addFeature(feature, QgsFeatureSink.FastInsert)

@@ -27,7 +27,7 @@ from .core.desurvey import positions_at_depths, station_offsets
 from .core.north import GRID, meridian_convergence, to_grid
 from .core.projection import SectionNetwork, nearest_points
 from .dem import DemSampler, bounded_gdal_cache
-from .geometry_io import to_qgis
+from .geometry_io import add_features
 from .ledger import RunLedger
 from .qgis_compat import (
     LINE_STRING,
@@ -67,12 +67,24 @@ OUTPUT_INTERVALS = "OUTPUT_INTERVALS"
 OUTPUT_TRACES = "OUTPUT_TRACES"
 
 DRAW_STEP = 5.0  # metres of hole between drawn points (plus stations and interval ends)
-COLLAR_FIELDS = {HOLE_ID_FIELD: "hole", AZIMUTH_FIELD: "azimuth",
-                 INCLINATION_FIELD: "inclination", DEPTH_FIELD: "depth"}
-SURVEY_FIELDS = {SURVEY_HOLE_FIELD: "hole", SURVEY_DEPTH_FIELD: "depth",
-                 SURVEY_AZIMUTH_FIELD: "azimuth", SURVEY_INCLINATION_FIELD: "inclination"}
-INTERVAL_FIELDS = {INTERVAL_HOLE_FIELD: "hole", INTERVAL_FROM_FIELD: "from",
-                   INTERVAL_TO_FIELD: "to", INTERVAL_CODE_FIELD: "code"}
+COLLAR_FIELDS = {
+    HOLE_ID_FIELD: "hole",
+    AZIMUTH_FIELD: "azimuth",
+    INCLINATION_FIELD: "inclination",
+    DEPTH_FIELD: "depth",
+}
+SURVEY_FIELDS = {
+    SURVEY_HOLE_FIELD: "hole",
+    SURVEY_DEPTH_FIELD: "depth",
+    SURVEY_AZIMUTH_FIELD: "azimuth",
+    SURVEY_INCLINATION_FIELD: "inclination",
+}
+INTERVAL_FIELDS = {
+    INTERVAL_HOLE_FIELD: "hole",
+    INTERVAL_FROM_FIELD: "from",
+    INTERVAL_TO_FIELD: "to",
+    INTERVAL_CODE_FIELD: "code",
+}
 
 
 class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
@@ -82,75 +94,144 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         tr = self.tr
         self.add_section_line_parameters()
-        self.addParameter(QgsProcessingParameterFeatureSource(
-            COLLARS, tr("Collars (points)"), [SOURCE_POINTS]))
+        self.addParameter(
+            QgsProcessingParameterFeatureSource(COLLARS, tr("Collars (points)"), [SOURCE_POINTS])
+        )
         for name, label, optional in (
-                (HOLE_ID_FIELD, "Hole id field", False),
-                (AZIMUTH_FIELD, "Collar azimuth field (degrees)", True),
-                (INCLINATION_FIELD, "Collar inclination field (below horizontal; 90 = down, "
-                                    "−60 read as the mining convention; empty: vertical)", True),
-                (DEPTH_FIELD, "Total depth field (metres along the hole)", False)):
-            self.addParameter(QgsProcessingParameterField(
-                name, tr(label), parentLayerParameterName=COLLARS, optional=optional))
-        self._add_table(SURVEYS, "Downhole surveys (table)", (
-            (SURVEY_HOLE_FIELD, "Survey hole id field"), (SURVEY_DEPTH_FIELD, "Survey depth field"),
-            (SURVEY_AZIMUTH_FIELD, "Survey azimuth field"),
-            (SURVEY_INCLINATION_FIELD, "Survey inclination field")))
-        self._add_table(INTERVALS, "Intervals: lithology, unit … (table)", (
-            (INTERVAL_HOLE_FIELD, "Interval hole id field"), (INTERVAL_FROM_FIELD, "From field"),
-            (INTERVAL_TO_FIELD, "To field"), (INTERVAL_CODE_FIELD, "Code field")))
-        self.addParameter(QgsProcessingParameterEnum(
-            NORTH_REFERENCE, tr("Azimuths are measured from"),
-            options=[tr(n) for n in NORTH_REFERENCES], defaultValue=GRID))
-        self.addParameter(QgsProcessingParameterNumber(
-            DECLINATION, tr("Magnetic declination (degrees, east positive)"), NUMBER_DOUBLE,
-            defaultValue=0.0, minValue=-180.0, maxValue=180.0))
-        self.addParameter(QgsProcessingParameterRasterLayer(
-            DEM, tr("DEM (elevation of collars without Z)"), optional=True))
-        self.addParameter(QgsProcessingParameterDistance(
-            MAX_DISTANCE, tr("Maximum distance of a collar from the section"),
-            defaultValue=250.0, parentParameterName=INPUT, minValue=0.0))
-        self.addParameter(QgsProcessingParameterNumber(
-            VERTICAL_EXAGGERATION, tr("Vertical exaggeration"), NUMBER_DOUBLE, defaultValue=1.0,
-            minValue=0.001))
+            (HOLE_ID_FIELD, "Hole id field", False),
+            (AZIMUTH_FIELD, "Collar azimuth field (degrees)", True),
+            (
+                INCLINATION_FIELD,
+                "Collar inclination field (below horizontal; 90 = down, "
+                "−60 read as the mining convention; empty: vertical)",
+                True,
+            ),
+            (DEPTH_FIELD, "Total depth field (metres along the hole)", False),
+        ):
+            self.addParameter(
+                QgsProcessingParameterField(
+                    name, tr(label), parentLayerParameterName=COLLARS, optional=optional
+                )
+            )
+        self._add_table(
+            SURVEYS,
+            "Downhole surveys (table)",
+            (
+                (SURVEY_HOLE_FIELD, "Survey hole id field"),
+                (SURVEY_DEPTH_FIELD, "Survey depth field"),
+                (SURVEY_AZIMUTH_FIELD, "Survey azimuth field"),
+                (SURVEY_INCLINATION_FIELD, "Survey inclination field"),
+            ),
+        )
+        self._add_table(
+            INTERVALS,
+            "Intervals: lithology, unit … (table)",
+            (
+                (INTERVAL_HOLE_FIELD, "Interval hole id field"),
+                (INTERVAL_FROM_FIELD, "From field"),
+                (INTERVAL_TO_FIELD, "To field"),
+                (INTERVAL_CODE_FIELD, "Code field"),
+            ),
+        )
+        self.addParameter(
+            QgsProcessingParameterEnum(
+                NORTH_REFERENCE,
+                tr("Azimuths are measured from"),
+                options=[tr(n) for n in NORTH_REFERENCES],
+                defaultValue=GRID,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                DECLINATION,
+                tr("Magnetic declination (degrees, east positive)"),
+                NUMBER_DOUBLE,
+                defaultValue=0.0,
+                minValue=-180.0,
+                maxValue=180.0,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterRasterLayer(
+                DEM, tr("DEM (elevation of collars without Z)"), optional=True
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterDistance(
+                MAX_DISTANCE,
+                tr("Maximum distance of a collar from the section"),
+                defaultValue=250.0,
+                parentParameterName=INPUT,
+                minValue=0.0,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                VERTICAL_EXAGGERATION,
+                tr("Vertical exaggeration"),
+                NUMBER_DOUBLE,
+                defaultValue=1.0,
+                minValue=0.001,
+            )
+        )
         for name, label, kind, optional in (
-                (OUTPUT, "Boreholes (section view)", SOURCE_LINES, False),
-                (OUTPUT_INTERVALS, "Borehole intervals (section view)", SOURCE_LINES, True),
-                (OUTPUT_TRACES, "Desurveyed traces (map, 3-D)", SOURCE_LINES, True)):
-            self.addParameter(QgsProcessingParameterFeatureSink(
-                name, tr(label), kind, optional=optional, createByDefault=True))
+            (OUTPUT, "Boreholes (section view)", SOURCE_LINES, False),
+            (OUTPUT_INTERVALS, "Borehole intervals (section view)", SOURCE_LINES, True),
+            (OUTPUT_TRACES, "Desurveyed traces (map, 3-D)", SOURCE_LINES, True),
+        ):
+            self.addParameter(
+                QgsProcessingParameterFeatureSink(
+                    name, tr(label), kind, optional=optional, createByDefault=True
+                )
+            )
         self.add_skipped_output()
 
     def _add_table(self, name, label, fields):
-        self.addParameter(QgsProcessingParameterFeatureSource(
-            name, self.tr(label), [SOURCE_ANY_VECTOR], optional=True))
+        self.addParameter(
+            QgsProcessingParameterFeatureSource(
+                name, self.tr(label), [SOURCE_ANY_VECTOR], optional=True
+            )
+        )
         for field_name, field_label in fields:
-            self.addParameter(QgsProcessingParameterField(
-                field_name, self.tr(field_label), parentLayerParameterName=name, optional=True))
+            self.addParameter(
+                QgsProcessingParameterField(
+                    field_name, self.tr(field_label), parentLayerParameterName=name, optional=True
+                )
+            )
 
     def processAlgorithm(self, parameters, context, feedback):
         lines = self.parameterAsSource(parameters, INPUT, context)
         collars = self.parameterAsSource(parameters, COLLARS, context)
         if lines is None or collars is None:
-            raise QgsProcessingException(self.invalidSourceError(
-                parameters, INPUT if lines is None else COLLARS))
+            raise QgsProcessingException(
+                self.invalidSourceError(parameters, INPUT if lines is None else COLLARS)
+            )
         for name in (HOLE_ID_FIELD, DEPTH_FIELD):
             if not self.parameterAsString(parameters, name, context):
                 raise QgsProcessingException(f"{name}: choose the collar layer's field.")
         work_crs = working_crs(lines, context, feedback)
         work_wkt = crs_wkt(work_crs)
-        parts = [p for p in read_section_parts(
-            lines, self.parameterAsString(parameters, LINE_ID_FIELD, context), work_crs, context,
-            feedback) if p.coords is not None]
+        parts = [
+            p
+            for p in read_section_parts(
+                lines,
+                self.parameterAsString(parameters, LINE_ID_FIELD, context),
+                work_crs,
+                context,
+                feedback,
+            )
+            if p.coords is not None
+        ]
         if not parts:
             raise QgsProcessingException("INPUT: none of the section lines can be used.")
         max_distance = self.parameterAsDouble(parameters, MAX_DISTANCE, context)
         network = SectionNetwork([p.coords for p in parts], 2 * max(max_distance, 1e-9))
         ledger = RunLedger(feedback)
-        skipped = []   # (table, hole, fid, depth, reason)
+        skipped = []  # (table, hole, fid, depth, reason)
 
-        holes = self._read_collars(parameters, context, collars, work_crs, work_wkt, network,
-                                   max_distance, skipped)
+        holes = self._read_collars(
+            parameters, context, collars, work_crs, work_wkt, network, max_distance, skipped
+        )
         surveys = self._read_table(parameters, context, SURVEYS, SURVEY_FIELDS, holes)
         intervals = self._read_table(parameters, context, INTERVALS, INTERVAL_FIELDS, holes)
         stations = self._stations(holes, surveys, skipped)
@@ -163,8 +244,18 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         labels_of = np.array([p.label for p in parts], dtype=object)
         exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
         to_map = transformer(work_wkt, crs_wkt(lines.sourceCrs()))
-        self._write_holes(sinks, network, holes, samples, labels_of, exaggeration, to_map,
-                          valid_intervals, max_distance, feedback)
+        self._write_holes(
+            sinks,
+            network,
+            holes,
+            samples,
+            labels_of,
+            exaggeration,
+            to_map,
+            valid_intervals,
+            max_distance,
+            feedback,
+        )
         for table, hole, fid, depth, reason in skipped:
             ledger.skip(reason)
             if sinks[SKIPPED][0] is not None:
@@ -176,62 +267,93 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         feedback.pushInfo(
             f"Holes drawn: {len(drawn)} of {len(holes['id'])}; surveys used: "
             f"{int(surveys['used'].sum())} of {len(surveys['hole'])}; intervals drawn: "
-            f"{len(valid_intervals['hole'])} of {len(intervals['hole'])}.")
+            f"{len(valid_intervals['hole'])} of {len(intervals['hole'])}."
+        )
         ledger.close()
         return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
 
     # Reading ------------------------------------------------------------
 
     def _fields(self, parameters, context, mapping):
-        return {key: self.parameterAsString(parameters, name, context)
-                for name, key in mapping.items()}
+        return {
+            key: self.parameterAsString(parameters, name, context) for name, key in mapping.items()
+        }
 
-    def _read_collars(self, parameters, context, collars, work_crs, work_wkt, network,
-                      max_distance, skipped):
+    def _read_collars(
+        self, parameters, context, collars, work_crs, work_wkt, network, max_distance, skipped
+    ):
         names = self._fields(parameters, context, COLLAR_FIELDS)
         values, fids, geometries = read_columns(collars, names, "collar", with_geometry=True)
         ids = labels(values["hole"])
         depth, depth_why = as_numbers(values["depth"], "depth")
-        inclination, incl_why = (as_numbers(values["inclination"], "inclination")
-                                 if names["inclination"] else
-                                 (np.full(len(ids), 90.0), np.full(len(ids), "", dtype=object)))
+        inclination, incl_why = (
+            as_numbers(values["inclination"], "inclination")
+            if names["inclination"]
+            else (np.full(len(ids), 90.0), np.full(len(ids), "", dtype=object))
+        )
         azimuth, az_why = as_numbers(values["azimuth"], "azimuth")
         vertical = np.abs(inclination) == 90.0
         azimuth = np.where(vertical & np.isnan(azimuth), 0.0, azimuth)
         az_why = np.where(vertical, "", az_why)
         xyz = np.array([_point(g) for g in geometries], dtype=float).reshape(-1, 3)
-        xy = np.column_stack(transformer(crs_wkt(collars.sourceCrs()), work_wkt)(
-            xyz[:, 0], xyz[:, 1]))
+        xy = np.column_stack(
+            transformer(crs_wkt(collars.sourceCrs()), work_wkt)(xyz[:, 0], xyz[:, 1])
+        )
         z = self._collar_elevations(parameters, context, xyz[:, 2], xy, work_crs)
         reasons = np.full(len(ids), "", dtype=object)
         seen = set()
         for i, hole in enumerate(ids):
             reasons[i] = (
-                "null geometry" if np.isnan(xy[i, 0]) else
-                "missing hole id" if hole is None else
-                "duplicate hole id" if hole in seen else
-                depth_why[i] or incl_why[i] or az_why[i] or
-                ("depth not positive" if depth[i] <= 0 else "") or
-                ("inclination out of range" if abs(inclination[i]) > 90 else "") or
-                ("no collar elevation" if np.isnan(z[i]) else ""))
+                "null geometry"
+                if np.isnan(xy[i, 0])
+                else "missing hole id"
+                if hole is None
+                else "duplicate hole id"
+                if hole in seen
+                else depth_why[i]
+                or incl_why[i]
+                or az_why[i]
+                or ("depth not positive" if depth[i] <= 0 else "")
+                or ("inclination out of range" if abs(inclination[i]) > 90 else "")
+                or ("no collar elevation" if np.isnan(z[i]) else "")
+            )
             if hole is not None:
                 seen.add(hole)
-        landing = nearest_points(network, np.where(reasons[:, None] == "", xy, np.nan),
-                                 max_distance)
-        reasons = np.where((reasons == "") & (landing.line < 0),
-                           np.where(landing.past_end, "beyond the end of the line",
-                                    "beyond max distance"), reasons)
+        landing = nearest_points(
+            network, np.where(reasons[:, None] == "", xy, np.nan), max_distance
+        )
+        reasons = np.where(
+            (reasons == "") & (landing.line < 0),
+            np.where(landing.past_end, "beyond the end of the line", "beyond max distance"),
+            reasons,
+        )
         north = self.parameterAsEnum(parameters, NORTH_REFERENCE, context)
-        convergence = (meridian_convergence(work_wkt, xy[:, 0], xy[:, 1])
-                       if north != GRID else np.zeros(len(ids)))
+        convergence = (
+            meridian_convergence(work_wkt, xy[:, 0], xy[:, 1])
+            if north != GRID
+            else np.zeros(len(ids))
+        )
         declination = self.parameterAsDouble(parameters, DECLINATION, context)
         for i in np.flatnonzero(reasons != ""):
             skipped.append(("collars", ids[i], fids[i], None, str(reasons[i])))
-        return {"id": ids, "index": {h: i for i, h in enumerate(ids) if h is not None},
-                "xy": xy, "z": z, "depth": depth, "inclination": inclination,
-                "azimuth": to_grid(azimuth, north, convergence, declination),
-                "north": north, "convergence": convergence, "declination": declination,
-                "line": landing.line, "reason": reasons}
+        first_of = {}
+        for i, hole in enumerate(ids):
+            if hole is not None:
+                first_of.setdefault(hole, i)  # a duplicate id refers to the first collar
+        return {
+            "id": ids,
+            "index": first_of,
+            "xy": xy,
+            "z": z,
+            "depth": depth,
+            "inclination": inclination,
+            "azimuth": to_grid(azimuth, north, convergence, declination),
+            "north": north,
+            "convergence": convergence,
+            "declination": declination,
+            "line": landing.line,
+            "reason": reasons,
+        }
 
     def _collar_elevations(self, parameters, context, z, xy, work_crs):
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
@@ -248,8 +370,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         if source is None:
             return dict(empty, fid=[], collar=np.empty(0, dtype=int), used=np.empty(0, bool))
         names = self._fields(parameters, context, mapping)
-        missing = [p for p, key in mapping.items() if not names[key]
-                   and key != "code"]
+        missing = [p for p, key in mapping.items() if not names[key] and key != "code"]
         if missing:
             raise QgsProcessingException(f"{missing[0]}: choose the {name.lower()} table's field.")
         values, fids, _ = read_columns(source, names, name.lower())
@@ -271,14 +392,28 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         not_drawn[not_drawn] = holes["reason"][collar[not_drawn]] != ""
         reasons[not_drawn] = "collar skipped"
         for i in np.flatnonzero(reasons != ""):
-            skipped.append(("surveys", surveys["hole"][i], surveys["fid"][i], _depth(depth[i]),
-                            str(reasons[i])))
+            skipped.append(
+                (
+                    "surveys",
+                    surveys["hole"][i],
+                    surveys["fid"][i],
+                    _depth(depth[i]),
+                    str(reasons[i]),
+                )
+            )
         good = reasons == ""
         surveys["used"] = good
-        grid_azimuth = to_grid(azimuth[good], holes["north"], holes["convergence"][collar[good]],
-                               holes["declination"])
-        return assemble_stations(holes["inclination"], holes["azimuth"], collar[good],
-                                 depth[good], inclination[good], grid_azimuth)
+        grid_azimuth = to_grid(
+            azimuth[good], holes["north"], holes["convergence"][collar[good]], holes["declination"]
+        )
+        return assemble_stations(
+            holes["inclination"],
+            holes["azimuth"],
+            collar[good],
+            depth[good],
+            inclination[good],
+            grid_azimuth,
+        )
 
     def _intervals(self, holes, intervals, skipped):
         top, _ = as_numbers(intervals["from"], "from")
@@ -289,12 +424,23 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         not_drawn[not_drawn] = holes["reason"][collar[not_drawn]] != ""
         reasons[not_drawn] = "collar skipped"
         for i in np.flatnonzero(reasons != ""):
-            skipped.append(("intervals", intervals["hole"][i], intervals["fid"][i],
-                            _depth(top[i]), str(reasons[i])))
+            skipped.append(
+                (
+                    "intervals",
+                    intervals["hole"][i],
+                    intervals["fid"][i],
+                    _depth(top[i]),
+                    str(reasons[i]),
+                )
+            )
         good = np.flatnonzero(reasons == "")
         codes = [intervals["code"][i] for i in good]
-        return {"hole": collar[good], "from": top[good], "to": bottom[good],
-                "code": ["" if c is None else str(c) for c in codes]}
+        return {
+            "hole": collar[good],
+            "from": top[good],
+            "to": bottom[good],
+            "code": ["" if c is None else str(c) for c in codes],
+        }
 
     # Geometry -----------------------------------------------------------
 
@@ -306,76 +452,136 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         for h in drawn:
             regular = np.arange(0.0, holes["depth"][h], DRAW_STEP)
             mine = intervals["hole"] == h
-            extra = np.concatenate((stations.md[stations.hole == h], intervals["from"][mine],
-                                    intervals["to"][mine], [holes["depth"][h]]))
+            extra = np.concatenate(
+                (
+                    stations.md[stations.hole == h],
+                    intervals["from"][mine],
+                    intervals["to"][mine],
+                    [holes["depth"][h]],
+                )
+            )
             depths = np.unique(np.concatenate((regular, extra)))
             depths = depths[depths <= holes["depth"][h]]
             hole_parts.append(np.full(len(depths), h))
             depth_parts.append(depths)
         hole = np.concatenate(hole_parts) if hole_parts else np.empty(0, dtype=int)
         md = np.concatenate(depth_parts) if depth_parts else np.empty(0)
-        offsets = station_offsets(stations.md, stations.inclination, stations.azimuth,
-                                  stations.hole)
-        enu = positions_at_depths(stations.md, stations.inclination, stations.azimuth,
-                                  stations.hole, offsets, hole, md)
+        offsets = station_offsets(
+            stations.md, stations.inclination, stations.azimuth, stations.hole
+        )
+        enu = positions_at_depths(
+            stations.md, stations.inclination, stations.azimuth, stations.hole, offsets, hole, md
+        )
         xyz = np.column_stack((holes["xy"][hole] + enu[:, :2], holes["z"][hole] - enu[:, 2]))
         return {"hole": hole, "md": md, "xyz": xyz}
 
-    def _write_holes(self, sinks, network, holes, samples, labels_of, exaggeration, to_map,
-                     intervals, max_distance, feedback):
+    def _write_holes(
+        self,
+        sinks,
+        network,
+        holes,
+        samples,
+        labels_of,
+        exaggeration,
+        to_map,
+        intervals,
+        max_distance,
+        feedback,
+    ):
         hole = samples["hole"]
         if len(hole) == 0:
             return
-        network_line = holes["line"][hole]
-        chainage, offset = network.locate(network_line, samples["xyz"][:, :2], extend=True)
+        chainage, offset = network.locate(holes["line"][hole], samples["xyz"][:, :2], extend=True)
+        view = np.column_stack((chainage, samples["xyz"][:, 2] * exaggeration))
         starts = np.flatnonzero(np.r_[True, hole[1:] != hole[:-1]])
-        ends = np.r_[starts[1:], len(hole)]
-        map_x, map_y = to_map(samples["xyz"][:, 0], samples["xyz"][:, 1])
-        for s, e in zip(starts, ends):
-            h = hole[s]
-            section = labels_of[holes["line"][h]]
-            points = np.column_stack((chainage[s:e], samples["xyz"][s:e, 2] * exaggeration))
-            low, high = float(offset[s:e].min()), float(offset[s:e].max())
-            if max(abs(low), abs(high)) > max_distance:
-                feedback.pushInfo(f"Hole {holes['id'][h]} wanders up to "
-                                  f"{max(abs(low), abs(high)):.1f} from section {section}, "
-                                  f"beyond the maximum distance.")
-            self._add(sinks[OUTPUT][0], shapely.LineString(points),
-                      [section, holes["id"][h], float(holes["depth"][h]), low, high, exaggeration])
-            if sinks[OUTPUT_TRACES][0] is not None:
-                trace = np.column_stack((map_x[s:e], map_y[s:e], samples["xyz"][s:e, 2]))
-                self._add(sinks[OUTPUT_TRACES][0], shapely.LineString(trace),
-                          [section, holes["id"][h], float(holes["depth"][h])])
-            if sinks[OUTPUT_INTERVALS][0] is None:
-                continue
-            md = samples["md"][s:e]
-            for k in np.flatnonzero(intervals["hole"] == h):
-                inside = slice(s + np.searchsorted(md, intervals["from"][k]),
-                               s + np.searchsorted(md, intervals["to"][k], side="right"))
-                piece = np.column_stack((chainage[inside], samples["xyz"][inside, 2] * exaggeration))
-                if len(piece) < 2:
-                    continue
-                self._add(sinks[OUTPUT_INTERVALS][0], shapely.LineString(piece),
-                          [section, holes["id"][h], float(intervals["from"][k]),
-                           float(intervals["to"][k]), intervals["code"][k],
-                           float(offset[inside].min()), float(offset[inside].max()), exaggeration])
+        drawn = hole[starts]
+        group = np.cumsum(np.r_[True, hole[1:] != hole[:-1]]) - 1
+        low = np.minimum.reduceat(offset, starts)
+        high = np.maximum.reduceat(offset, starts)
+        sections = labels_of[holes["line"][drawn]]
+        for h, section, far in zip(drawn, sections, np.maximum(-low, high)):
+            if far > max_distance:
+                feedback.pushInfo(
+                    f"Hole {holes['id'][h]} wanders up to {far:.1f} from "
+                    f"section {section}, beyond the maximum distance."
+                )
+        add_features(
+            sinks[OUTPUT][0],
+            shapely.linestrings(view, indices=group),
+            [
+                [s, holes["id"][h], float(holes["depth"][h]), float(a), float(b), exaggeration]
+                for s, h, a, b in zip(sections, drawn, low, high)
+            ],
+        )
+        if sinks[OUTPUT_TRACES][0] is not None:
+            map_x, map_y = to_map(samples["xyz"][:, 0], samples["xyz"][:, 1])
+            trace = np.column_stack((map_x, map_y, samples["xyz"][:, 2]))
+            add_features(
+                sinks[OUTPUT_TRACES][0],
+                shapely.linestrings(trace, indices=group),
+                [[s, holes["id"][h], float(holes["depth"][h])] for s, h in zip(sections, drawn)],
+            )
+        if sinks[OUTPUT_INTERVALS][0] is not None and len(intervals["hole"]):
+            self._write_intervals(
+                sinks[OUTPUT_INTERVALS][0],
+                holes,
+                samples,
+                intervals,
+                view,
+                offset,
+                labels_of,
+                exaggeration,
+            )
 
-    @staticmethod
-    def _add(sink, geometry, attributes):
-        feature = QgsFeature()
-        feature.setGeometry(to_qgis(geometry))
-        feature.setAttributes(attributes)
-        sink.addFeature(feature, QgsFeatureSink.FastInsert)
+    def _write_intervals(
+        self, sink, holes, samples, intervals, view, offset, labels_of, exaggeration
+    ):
+        """Each interval as the run of drawn samples from its top to its
+        bottom (both are among the samples)."""
+        scale = 2.0 * (samples["md"].max() + 1.0)
+        key = samples["hole"] * scale + samples["md"]
+        first = np.searchsorted(key, intervals["hole"] * scale + intervals["from"], side="left")
+        last = np.searchsorted(key, intervals["hole"] * scale + intervals["to"], side="right")
+        count = last - first
+        keep = np.flatnonzero(count >= 2)
+        count, first = count[keep], first[keep]
+        piece = np.repeat(np.arange(len(keep)), count)
+        within = np.arange(count.sum()) - np.repeat(np.cumsum(count) - count, count)
+        rows = np.repeat(first, count) + within
+        starts = np.cumsum(count) - count
+        low = np.minimum.reduceat(offset[rows], starts) if len(rows) else []
+        high = np.maximum.reduceat(offset[rows], starts) if len(rows) else []
+        collar = intervals["hole"][keep]
+        add_features(
+            sink,
+            shapely.linestrings(view[rows], indices=piece),
+            [
+                [
+                    labels_of[holes["line"][c]],
+                    holes["id"][c],
+                    float(intervals["from"][k]),
+                    float(intervals["to"][k]),
+                    intervals["code"][k],
+                    float(a),
+                    float(b),
+                    exaggeration,
+                ]
+                for c, k, a, b in zip(collar, keep, low, high)
+            ],
+        )
 
     def _sinks(self, parameters, context, lines):
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-        specs = ((OUTPUT, F.HOLE_FIELDS, LINE_STRING, section_crs),
-                 (OUTPUT_INTERVALS, F.HOLE_INTERVAL_FIELDS, LINE_STRING, section_crs),
-                 (OUTPUT_TRACES, F.TRACE_FIELDS, LINE_STRING_Z, lines.sourceCrs()),
-                 (SKIPPED, F.HOLE_SKIPPED_FIELDS, NO_GEOMETRY, QgsCoordinateReferenceSystem()))
-        sinks = {name: self.parameterAsSink(parameters, name, context, computed_fields(names),
-                                            kind, crs)
-                 for name, names, kind, crs in specs}
+        specs = (
+            (OUTPUT, F.HOLE_FIELDS, LINE_STRING, section_crs),
+            (OUTPUT_INTERVALS, F.HOLE_INTERVAL_FIELDS, LINE_STRING, section_crs),
+            (OUTPUT_TRACES, F.TRACE_FIELDS, LINE_STRING_Z, lines.sourceCrs()),
+            (SKIPPED, F.HOLE_SKIPPED_FIELDS, NO_GEOMETRY, QgsCoordinateReferenceSystem()),
+        )
+        sinks = {
+            name: self.parameterAsSink(parameters, name, context, computed_fields(names), kind, crs)
+            for name, names, kind, crs in specs
+        }
         if sinks[OUTPUT][0] is None:
             raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
         return sinks

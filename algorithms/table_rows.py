@@ -1,30 +1,36 @@
 """Reading plain table rows (collars, surveys, intervals) into arrays."""
+
 import numpy as np
-from qgis.core import NULL, QgsFeatureRequest, QgsProcessingException
-
-
-def _plain(value):
-    return None if value is None or value == NULL else value
+from qgis.core import QgsFeatureRequest, QgsProcessingException
+from qgis.PyQt.QtCore import QVariant
 
 
 def read_columns(source, columns, parameter, with_geometry=False):
     """{column: list of raw values} for the named fields (None for NULL),
     the feature ids, and the geometries when asked. A field missing from the
     layer is an error naming ``parameter``'s field parameter."""
+    indices = {}
     for key, name in columns.items():
-        if name and source.fields().lookupField(name) < 0:
-            raise QgsProcessingException(f"{key}: the {parameter} layer has no field {name!r}.")
-    request = QgsFeatureRequest()
+        if name:
+            indices[key] = source.fields().lookupField(name)
+            if indices[key] < 0:
+                raise QgsProcessingException(f"{key}: the {parameter} layer has no field {name!r}.")
+    request = QgsFeatureRequest().setSubsetOfAttributes(list(indices.values()))
     if not with_geometry:
         request.setFlags(QgsFeatureRequest.NoGeometry)
-    values = {key: [] for key in columns}
-    fids, geometries = [], []
+    rows, fids, geometries = [], [], []
     for feature in source.getFeatures(request):
         fids.append(feature.id())
+        rows.append(feature.attributes())
         if with_geometry:
             geometries.append(feature.geometry())
-        for key, name in columns.items():
-            values[key].append(_plain(feature[name]) if name else None)
+    values = {key: [None] * len(rows) for key in columns}
+    for key, index in indices.items():
+        # QGIS hands NULL over as a null QVariant (3.22) or None (later).
+        values[key] = [
+            None if v is None or isinstance(v, QVariant) else v
+            for v in (row[index] for row in rows)
+        ]
     return values, fids, geometries
 
 

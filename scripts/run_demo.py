@@ -3,9 +3,9 @@
     python scripts/run_demo.py [OUT_DIR]     (default: demo/)
 
 Makes the demo world, runs the Sectionwright algorithms on every demo
-section line through qgis_process — the topographic profile, then the
-attitudes carried onto the sections — writes ``sections.gpkg`` and prints a
-short summary per section.
+section line through qgis_process — the topographic profile, the attitudes
+carried onto the sections, the map geology along them and the boreholes —
+writes ``sections.gpkg`` and prints a short summary per section.
 """
 
 import sys
@@ -81,6 +81,39 @@ def run_geology(world, out):
     )
 
 
+def run_boreholes(world, out):
+    table = f"{world}/tarrowgill.gpkg|layername="
+    return headless.run(
+        "sectionwright:projectboreholes",
+        {
+            "INPUT": table + "sections",
+            "LINE_ID_FIELD": "name",
+            "COLLARS": table + "collars",
+            "HOLE_ID_FIELD": "hole_id",
+            "AZIMUTH_FIELD": "azimuth",
+            "INCLINATION_FIELD": "incl",
+            "DEPTH_FIELD": "depth",
+            "SURVEYS": table + "surveys",
+            "SURVEY_HOLE_FIELD": "hole_id",
+            "SURVEY_DEPTH_FIELD": "depth",
+            "SURVEY_AZIMUTH_FIELD": "azimuth",
+            "SURVEY_INCLINATION_FIELD": "incl",
+            "INTERVALS": table + "intervals",
+            "INTERVAL_HOLE_FIELD": "hole_id",
+            "INTERVAL_FROM_FIELD": "from_m",
+            "INTERVAL_TO_FIELD": "to_m",
+            "INTERVAL_CODE_FIELD": "unit",
+            "MAX_DISTANCE": 600,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "boreholes"),
+            "OUTPUT_INTERVALS": headless.gpkg_layer(out, "borehole_intervals"),
+            "OUTPUT_TRACES": headless.gpkg_layer(out, "borehole_traces"),
+            "SKIPPED": headless.gpkg_layer(out, "boreholes_skipped"),
+        },
+        world / "qgis",
+    )
+
+
 def count_by_section(layer, condition=lambda feature: True):
     counts = {}
     for feature in layer:
@@ -99,9 +132,10 @@ def print_summary(out):
     contacts = count_by_section(crossings, lambda f: f.GetField("kind") != "unit boundary")
     crossings.ResetReading()
     boundaries = count_by_section(crossings, lambda f: f.GetField("kind") == "unit boundary")
+    holes = count_by_section(data.GetLayerByName("boreholes"))
     print(
         f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
-        f"{'attitudes':>11}{'flagged':>9}{'unit bdys':>11}{'contacts':>10}"
+        f"{'attitudes':>11}{'flagged':>9}{'unit bdys':>11}{'contacts':>10}{'holes':>7}"
     )
     for feature in data.GetLayerByName("profile_section"):
         label = feature.GetField("section")
@@ -110,6 +144,7 @@ def print_summary(out):
             f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}"
             f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}"
             f"{boundaries.get(label, 0):>11d}{contacts.get(label, 0):>10d}"
+            f"{holes.get(label, 0):>7d}"
         )
 
 
@@ -122,6 +157,7 @@ def main(out_dir):
         ("Topographic profile", run_profile),
         ("Attitudes carried onto the sections", run_attitudes),
         ("Geology along the sections", run_geology),
+        ("Boreholes on the sections", run_boreholes),
     ):
         report = step(world, out)
         print(

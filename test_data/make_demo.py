@@ -289,31 +289,61 @@ def hole_intervals(x, y, z, path, depth):
 
 
 def write_boreholes(gpkg):
-    collars = new_layer(gpkg, "collars", ogr.wkbPoint25D,
-                        [("hole_id", ogr.OFTString), ("azimuth", ogr.OFTReal),
-                         ("incl", ogr.OFTReal), ("depth", ogr.OFTReal)])
-    surveys = new_layer(gpkg, "surveys", ogr.wkbNone,
-                        [("hole_id", ogr.OFTString), ("depth", ogr.OFTReal),
-                         ("azimuth", ogr.OFTReal), ("incl", ogr.OFTReal)])
-    intervals = new_layer(gpkg, "intervals", ogr.wkbNone,
-                          [("hole_id", ogr.OFTString), ("from_m", ogr.OFTReal),
-                           ("to_m", ogr.OFTReal), ("unit", ogr.OFTString)])
+    collars = new_layer(
+        gpkg,
+        "collars",
+        ogr.wkbPoint25D,
+        [
+            ("hole_id", ogr.OFTString),
+            ("azimuth", ogr.OFTReal),
+            ("incl", ogr.OFTReal),
+            ("depth", ogr.OFTReal),
+        ],
+    )
+    surveys = new_layer(
+        gpkg,
+        "surveys",
+        ogr.wkbNone,
+        [
+            ("hole_id", ogr.OFTString),
+            ("depth", ogr.OFTReal),
+            ("azimuth", ogr.OFTReal),
+            ("incl", ogr.OFTReal),
+        ],
+    )
+    intervals = new_layer(
+        gpkg,
+        "intervals",
+        ogr.wkbNone,
+        [
+            ("hole_id", ogr.OFTString),
+            ("from_m", ogr.OFTReal),
+            ("to_m", ogr.OFTReal),
+            ("unit", ogr.OFTString),
+        ],
+    )
     for hole_id, u, v, azimuth, inclination, depth in HOLES + (CURVED,):
         x, y = W.ORIGIN[0] + u, W.ORIGIN[1] + v
         z = float(W.ground(x, y))
         collar = ogr.Geometry(ogr.wkbPoint25D)
         collar.AddPoint(x, y, z)
-        add_feature(collars, {"hole_id": hole_id, "azimuth": azimuth, "incl": inclination,
-                              "depth": depth}, collar)
+        add_feature(
+            collars,
+            {"hole_id": hole_id, "azimuth": azimuth, "incl": inclination, "depth": depth},
+            collar,
+        )
         curved = hole_id == CURVED[0]
         path = arc_path(azimuth, depth) if curved else straight_path(azimuth, inclination)
         for station in np.arange(0.0, depth + 1e-9, SURVEY_SPACING):
             logged = float(path.logged_inclination(station)) if curved else inclination
-            add_feature(surveys, {"hole_id": hole_id, "depth": float(station),
-                                  "azimuth": azimuth, "incl": logged})
+            add_feature(
+                surveys,
+                {"hole_id": hole_id, "depth": float(station), "azimuth": azimuth, "incl": logged},
+            )
         for top, bottom, code in hole_intervals(x, y, z, path, depth):
-            add_feature(intervals, {"hole_id": hole_id, "from_m": top, "to_m": bottom,
-                                    "unit": code})
+            add_feature(
+                intervals, {"hole_id": hole_id, "from_m": top, "to_m": bottom, "unit": code}
+            )
     # Two slips of the kind logging sheets have, for SKIPPED to report.
     add_feature(surveys, {"hole_id": "TG-03", "depth": 140.0, "azimuth": 305.0, "incl": -70.0})
     add_feature(intervals, {"hole_id": "TG-04", "from_m": 470.0, "to_m": 500.0, "unit": "ASH"})

@@ -88,3 +88,30 @@ def test_geology_runs_headless(demo_dir, tmp_path):
         "DNG",
         "ASH",
     }
+
+
+def test_boreholes_run_headless(demo_dir, tmp_path):
+    out = tmp_path / "holes.gpkg"
+    table = f"{demo_dir}/tarrowgill.gpkg|layername="
+    report = headless.run(
+        "sectionwright:projectboreholes",
+        {
+            "INPUT": table + "sections",
+            "LINE_ID_FIELD": "name",
+            "COLLARS": table + "collars",
+            "HOLE_ID_FIELD": "hole_id",
+            "AZIMUTH_FIELD": "azimuth",
+            "INCLINATION_FIELD": "incl",
+            "DEPTH_FIELD": "depth",
+            "SURVEYS": table + "surveys",
+            "SURVEY_HOLE_FIELD": "hole_id",
+            "SURVEY_DEPTH_FIELD": "depth",
+            "SURVEY_AZIMUTH_FIELD": "azimuth",
+            "SURVEY_INCLINATION_FIELD": "incl",
+            "MAX_DISTANCE": 600,
+            "OUTPUT": headless.gpkg_layer(out, "holes"),
+        },
+        tmp_path / "qgis",
+    )
+    assert report["log"]["info"][-2].startswith("Summary: read=")
+    assert ogr.Open(str(out)).GetLayerByName("holes").GetFeatureCount() == 7

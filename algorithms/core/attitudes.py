@@ -28,6 +28,13 @@ def as_numbers(values, name):
     >>> numbers.tolist(), why.tolist()
     ([12.0, 40.5, nan, nan], ['', '', 'missing dip', "non-numeric dip: 'steep'"])
     """
+    try:
+        # Fast path: numbers, numeric text and None (which becomes NaN).
+        numbers = np.array(values, dtype=float)
+        reasons = np.where(np.isnan(numbers), f"missing {name}", "").astype(object)
+        return numbers, reasons
+    except (TypeError, ValueError):
+        pass
     numbers = np.full(len(values), np.nan)
     reasons = np.full(len(values), "", dtype=object)
     for i, value in enumerate(values):

@@ -1,6 +1,7 @@
 """Collars, surveys and intervals checked and assembled into survey
 stations, many holes at once. Rows that cannot be used come back with a
 reason; the rest are still used."""
+
 from dataclasses import dataclass
 
 import numpy as np
@@ -43,11 +44,15 @@ def check_surveys(hole, depth, azimuth, inclination, total_depth):
     hole = np.asarray(hole)
     depth = np.asarray(depth, dtype=float)
     reasons = np.full(len(hole), "", dtype=object)
-    _first_reason(reasons, (hole < 0, NO_COLLAR), (np.isnan(depth), "missing depth"),
-                  (np.isnan(np.asarray(azimuth, dtype=float)), "missing azimuth"),
-                  (np.isnan(np.asarray(inclination, dtype=float)), "missing inclination"),
-                  (np.abs(np.asarray(inclination, dtype=float)) > 90, "inclination out of range"),
-                  (depth < 0, "negative depth"))
+    _first_reason(
+        reasons,
+        (hole < 0, NO_COLLAR),
+        (np.isnan(depth), "missing depth"),
+        (np.isnan(np.asarray(azimuth, dtype=float)), "missing azimuth"),
+        (np.isnan(np.asarray(inclination, dtype=float)), "missing inclination"),
+        (np.abs(np.asarray(inclination, dtype=float)) > 90, "inclination out of range"),
+        (depth < 0, "negative depth"),
+    )
     known = np.flatnonzero(reasons == "")
     order = known[np.argsort(hole[known], kind="stable")]
     earlier = _running_max_before(hole[order], depth[order])
@@ -71,9 +76,13 @@ def check_intervals(hole, top, bottom, total_depth):
     top = np.asarray(top, dtype=float)
     bottom = np.asarray(bottom, dtype=float)
     reasons = np.full(len(hole), "", dtype=object)
-    _first_reason(reasons, (hole < 0, NO_COLLAR),
-                  (np.isnan(top) | np.isnan(bottom), "missing depth"),
-                  (top < 0, "negative depth"), (bottom <= top, EMPTY))
+    _first_reason(
+        reasons,
+        (hole < 0, NO_COLLAR),
+        (np.isnan(top) | np.isnan(bottom), "missing depth"),
+        (top < 0, "negative depth"),
+        (bottom <= top, EMPTY),
+    )
     usable = reasons == ""
     usable[usable] = bottom[usable] > np.asarray(total_depth)[hole[usable]] + 1e-9
     reasons[usable] = BEYOND_DEPTH
@@ -101,9 +110,10 @@ def _overlapping(order, hole, top, bottom):
 @dataclass
 class Stations:
     """Survey stations of many holes, sorted by hole then depth."""
+
     hole: np.ndarray
     md: np.ndarray
-    inclination: np.ndarray   # from vertical
+    inclination: np.ndarray  # from vertical
     azimuth: np.ndarray
 
 
@@ -128,5 +138,9 @@ def assemble_stations(collar_inclination, collar_azimuth, hole, depth, inclinati
     logged = np.concatenate((np.asarray(collar_inclination, dtype=float)[top], inclination))
     azimuths = np.concatenate((np.asarray(collar_azimuth, dtype=float)[top], azimuth))
     order = np.lexsort((md, holes))
-    return Stations(holes[order], md[order], inclination_from_vertical(logged[order]),
-                    np.nan_to_num(azimuths[order]) % 360.0)
+    return Stations(
+        holes[order],
+        md[order],
+        inclination_from_vertical(logged[order]),
+        np.nan_to_num(azimuths[order]) % 360.0,
+    )

@@ -14,6 +14,7 @@ azimuth A:
 Everything works on many holes at once: stations of all holes are stacked,
 each with its hole number, sorted by hole then depth.
 """
+
 import numpy as np
 
 

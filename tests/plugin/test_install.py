@@ -53,6 +53,7 @@ def test_zip_installs_and_registers_the_provider(profile):
         "sectionwright:normalizeattitudes",
         "sectionwright:profile",
         "sectionwright:projectattitudes",
+        "sectionwright:projectboreholes",
     ]
     assert report["unloaded"]
 
