@@ -7,6 +7,7 @@ def all_algorithms():
     from .profile import ProfileAlgorithm
     from .projectattitudes import ProjectAttitudesAlgorithm
     from .projectboreholes import ProjectBoreholesAlgorithm
+    from .sectionsheet import SectionSheetAlgorithm
 
     return [
         ProfileAlgorithm(),
@@ -14,4 +15,5 @@ def all_algorithms():
         NormalizeAttitudesAlgorithm(),
         GeologyCrossingsAlgorithm(),
         ProjectBoreholesAlgorithm(),
+        SectionSheetAlgorithm(),
     ]

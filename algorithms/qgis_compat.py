@@ -5,7 +5,14 @@ and field types from ``QVariant`` to ``QMetaType`` (3.38); QGIS 4 drops the
 old spellings. Everything else imports these names from here.
 """
 
-from qgis.core import Qgis, QgsProcessing, QgsProcessingParameterNumber, QgsUnitTypes, QgsWkbTypes
+from qgis.core import (
+    Qgis,
+    QgsProcessing,
+    QgsProcessingParameterNumber,
+    QgsRenderContext,
+    QgsUnitTypes,
+    QgsWkbTypes,
+)
 from qgis.PyQt.QtCore import QVariant
 
 
@@ -29,6 +36,9 @@ NUMBER_DOUBLE = _scoped(
     "ProcessingNumberParameterType", "Double", QgsProcessingParameterNumber.Double
 )
 
+TEXT_AS_TEXT = _scoped(
+    "TextRenderFormat", "AlwaysText", getattr(QgsRenderContext, "TextFormatAlwaysText", 1)
+)
 CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)

@@ -8,8 +8,10 @@ boundaries. Units take them in the alphabetical order of their labels.
 from qgis.core import (
     QgsCategorizedSymbolRenderer,
     QgsLineSymbol,
+    QgsMarkerSymbol,
     QgsProcessingLayerPostProcessorInterface,
     QgsRendererCategory,
+    QgsSingleSymbolRenderer,
 )
 from qgis.PyQt.QtGui import QColor
 
@@ -67,3 +69,100 @@ class UnitStripStyler(QgsProcessingLayerPostProcessorInterface):
     def postProcessLayer(self, layer, context, feedback):  # noqa: N802 (QGIS API)
         layer.setRenderer(unit_strip_renderer(self.units, self.field))
         layer.triggerRepaint()
+
+
+# Section sheet: black-and-white first, colour where it adds.
+INK = "#1d1d1d"
+GRID = "#b8b8b8"
+FAULT = "#8e2b1f"
+HOLE = "#3b3b3b"
+
+
+def profile_renderer():
+    return QgsSingleSymbolRenderer(
+        QgsLineSymbol.createSimple({"line_color": INK, "line_width": "0.5"})
+    )
+
+
+def tick_renderer():
+    return QgsSingleSymbolRenderer(
+        QgsLineSymbol.createSimple({"line_color": INK, "line_width": "0.45", "capstyle": "round"})
+    )
+
+
+def hole_renderer():
+    return QgsSingleSymbolRenderer(
+        QgsLineSymbol.createSimple({"line_color": HOLE, "line_width": "0.7", "line_style": "solid"})
+    )
+
+
+def crossing_renderer():
+    """Unit boundaries as small open rings, contacts as short upright bars,
+    faults as bold crosses — told apart by shape, not colour."""
+
+    def marker(props):
+        return QgsMarkerSymbol.createSimple(props)
+
+    categories = [
+        QgsRendererCategory(
+            "unit boundary",
+            marker(
+                {
+                    "name": "circle",
+                    "size": "1.6",
+                    "color": "#ffffff",
+                    "outline_color": INK,
+                    "outline_width": "0.3",
+                }
+            ),
+            "unit boundary",
+        ),
+        QgsRendererCategory(
+            "fault",
+            marker(
+                {
+                    "name": "cross2",
+                    "size": "3.2",
+                    "color": FAULT,
+                    "outline_color": FAULT,
+                    "outline_width": "0.6",
+                }
+            ),
+            "fault",
+        ),
+        QgsRendererCategory(
+            "",
+            marker(
+                {
+                    "name": "line",
+                    "size": "3.0",
+                    "color": INK,
+                    "outline_color": INK,
+                    "outline_width": "0.45",
+                    "angle": "0",
+                }
+            ),
+            "contact",
+        ),
+    ]
+    return QgsCategorizedSymbolRenderer(
+        "CASE WHEN \"kind\" IN ('unit boundary', 'fault') THEN \"kind\" ELSE '' END", categories
+    )
+
+
+def section_line_renderer():
+    """The section line on the location map: dark on a white halo, visible on
+    any map style."""
+    symbol = QgsLineSymbol.createSimple({"line_color": "#ffffff", "line_width": "1.8"})
+    core = QgsLineSymbol.createSimple({"line_color": INK, "line_width": "0.7"})
+    symbol.appendSymbolLayer(core.symbolLayer(0).clone())
+    return QgsSingleSymbolRenderer(symbol)
+
+
+def collar_renderer():
+    """Collars only carry the hole's name: a small filled square."""
+    return QgsSingleSymbolRenderer(
+        QgsMarkerSymbol.createSimple(
+            {"name": "square", "size": "1.4", "color": HOLE, "outline_color": HOLE}
+        )
+    )

@@ -1,0 +1,354 @@
+"""sectionwright:sectionsheet — a print-ready page for every section."""
+
+import os
+import shutil
+import tempfile
+from pathlib import Path
+
+from qgis.core import (
+    QgsFeature,
+    QgsFeatureSink,
+    QgsLayoutExporter,
+    QgsLayoutItemPage,
+    QgsLayoutSize,
+    QgsPrintLayout,
+    QgsProcessingAlgorithm,
+    QgsProcessingException,
+    QgsProcessingParameterBoolean,
+    QgsProcessingParameterEnum,
+    QgsProcessingParameterFileDestination,
+    QgsProcessingParameterMultipleLayers,
+    QgsProcessingParameterString,
+    QgsProcessingParameterVectorLayer,
+    QgsProject,
+    QgsRectangle,
+)
+
+from ..plugin import styles
+from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
+from .core.sheet_scale import end_names, padded
+from .ledger import RunLedger
+from .qgis_compat import SOURCE_ANY_VECTOR, SOURCE_LINES, TEXT_AS_TEXT
+from .section_lines import read_section_parts, working_crs
+from .sheet_layers import (
+    collar_points,
+    copy_section,
+    crossings_in_section,
+    line_on_map,
+    section_filter,
+)
+from .sheet_page import SheetSection, add_page
+
+PROFILE = "PROFILE"
+INTERVALS = "INTERVALS"
+TICKS = "TICKS"
+CROSSINGS = "CROSSINGS"
+BOREHOLES = "BOREHOLES"
+MAP_LAYERS = "MAP_LAYERS"
+TITLE = "TITLE"
+LABEL_DIPS = "LABEL_DIPS"
+PAGE_SIZE = "PAGE_SIZE"
+OUTPUT = "OUTPUT"
+
+PAGE_SIZES = [
+    ("A4 landscape", (297.0, 210.0)),
+    ("A3 landscape", (420.0, 297.0)),
+    ("A2 landscape", (594.0, 420.0)),
+]
+NO_PROFILE = "no profile for this section in PROFILE"
+
+
+class SectionSheetAlgorithm(SectionwrightAlgorithm):
+    ALGORITHM_ID = "sectionsheet"
+    DISPLAY_NAME = "Section sheet"
+    GROUP_ID = "sectiondrawing"
+
+    def flags(self):
+        # Print layouts are built and rendered on the main thread.
+        return super().flags() | QgsProcessingAlgorithm.FlagNoThreading
+
+    def initAlgorithm(self, config=None):
+        tr = self.tr
+        self.add_section_line_parameters()
+        self.addParameter(
+            QgsProcessingParameterVectorLayer(
+                PROFILE, tr("Profile (section view, from Topographic profile)"), [SOURCE_LINES]
+            )
+        )
+        for name, label, kinds in (
+            (INTERVALS, "Geology strip (section view)", [SOURCE_LINES]),
+            (TICKS, "Dip ticks (section view)", [SOURCE_LINES]),
+            (CROSSINGS, "Geology crossings (with chainage and elev)", [SOURCE_ANY_VECTOR]),
+            (BOREHOLES, "Boreholes (section view)", [SOURCE_LINES]),
+        ):
+            self.addParameter(
+                QgsProcessingParameterVectorLayer(name, tr(label), kinds, optional=True)
+            )
+        self.addParameter(
+            QgsProcessingParameterMultipleLayers(
+                MAP_LAYERS, tr("Layers of the location map"), optional=True
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterString(
+                TITLE, tr("Title"), defaultValue="Geological cross-section"
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterBoolean(
+                LABEL_DIPS, tr("Write apparent dips beside the ticks"), defaultValue=True
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterEnum(
+                PAGE_SIZE,
+                tr("Page size"),
+                options=[tr(name) for name, _ in PAGE_SIZES],
+                defaultValue=1,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFileDestination(
+                OUTPUT, tr("Section sheets"), "PDF (*.pdf);;PNG (*.png);;SVG (*.svg)"
+            )
+        )
+        self.add_skipped_output()
+
+    def processAlgorithm(self, parameters, context, feedback):
+        lines = self.parameterAsSource(parameters, INPUT, context)
+        if lines is None:
+            raise QgsProcessingException(self.invalidSourceError(parameters, INPUT))
+        profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
+        if profile is None or profile.fields().lookupField("section") < 0:
+            raise QgsProcessingException(
+                "PROFILE: give the section-view profile made by Topographic profile (it needs "
+                "a 'section' field)."
+            )
+        output = self.parameterAsFileOutput(parameters, OUTPUT, context)
+        suffix = Path(output).suffix.lower()
+        if suffix not in (".pdf", ".png", ".svg"):
+            raise QgsProcessingException("OUTPUT: the file must end in .pdf, .png or .svg.")
+        folder = Path(output).parent
+        if not folder.is_dir() or not os.access(folder, os.W_OK):
+            raise QgsProcessingException(f"OUTPUT: cannot write into {folder}.")
+        inputs = {
+            name: self.parameterAsVectorLayer(parameters, name, context)
+            for name in (INTERVALS, TICKS, CROSSINGS, BOREHOLES)
+        }
+        map_layers = self.parameterAsLayerList(parameters, MAP_LAYERS, context)
+        page_size = PAGE_SIZES[self.parameterAsEnum(parameters, PAGE_SIZE, context)][1]
+        skipped, skipped_id = self.parameterAsSink(
+            parameters, SKIPPED, context, skipped_fields(), lines.wkbType(), lines.sourceCrs()
+        )
+
+        work_crs = working_crs(lines, context, feedback)
+        parts = read_section_parts(
+            lines,
+            self.parameterAsString(parameters, LINE_ID_FIELD, context),
+            work_crs,
+            context,
+            feedback,
+        )
+        project = QgsProject()
+        layout = QgsPrintLayout(project)
+        layout.initializeDefaults()
+        layout.setName(self.parameterAsString(parameters, TITLE, context))
+        ledger = RunLedger(feedback)
+        keep_alive, pages = [], []
+        for part in parts:
+            if feedback.isCanceled():
+                break
+            ledger.read += 1
+            section = self._section(
+                part, profile, inputs, map_layers, lines.sourceCrs(), parameters, context, feedback
+            )
+            if section is None:
+                part.reason = part.reason or NO_PROFILE
+                ledger.skip(part.reason)
+                self._skip(skipped, part)
+                feedback.pushInfo(f"Section {part.label}: no page ({part.reason}).")
+                continue
+            keep_alive.append(section)
+            page_number = self._page(layout, len(pages), page_size)
+            scale = add_page(layout, page_number, page_size, section)
+            pages.append(part.label)
+            box = section.extent
+            feedback.pushInfo(
+                f"Section {part.label}: page {len(pages)}, scale 1:{scale:,.0f}, view chainage "
+                f"{box.xMinimum():.1f}…{box.xMaximum():.1f}, exaggerated elevation "
+                f"{box.yMinimum():.1f}…{box.yMaximum():.1f}."
+            )
+            ledger.written += 1
+            feedback.setProgress(80.0 * len(pages) / max(len(parts), 1))
+        if not pages:
+            raise QgsProcessingException("No section could be drawn: see the log.")
+        files = self._export(layout, pages, output, suffix)
+        feedback.pushInfo(f"Written: {', '.join(files)}")
+        ledger.close()
+        results = {OUTPUT: output}
+        if skipped is not None:
+            results[SKIPPED] = skipped_id
+        return results
+
+    @staticmethod
+    def _skip(sink, part):
+        if sink is None:
+            return
+        feature = QgsFeature()
+        feature.setGeometry(part.geometry)
+        feature.setAttributes([part.label, part.fid, part.reason])
+        sink.addFeature(feature, QgsFeatureSink.FastInsert)
+
+    def _section(self, part, profile, inputs, map_layers, lines_crs, parameters, context, feedback):
+        if part.coords is None:
+            return None
+        ground = next(profile.getFeatures(section_filter(part.label)), None)
+        if ground is None:
+            return None
+        exaggeration = float(ground["ve"]) if profile.fields().lookupField("ve") >= 0 else 1.0
+        holes = copy_section(
+            inputs[BOREHOLES], part.label, "Boreholes", "LineString", styles.hole_renderer()
+        )
+        layers = {
+            "collars": collar_points(holes, "Collars", styles.collar_renderer()),
+            "ticks": copy_section(
+                inputs[TICKS], part.label, "Dip ticks", "LineString", styles.tick_renderer()
+            ),
+            "crossings": crossings_in_section(
+                inputs[CROSSINGS],
+                part.label,
+                exaggeration,
+                "Contacts and boundaries",
+                styles.crossing_renderer(),
+            ),
+            "holes": holes,
+            "ground": copy_section(
+                profile, part.label, "Ground surface", "MultiLineString", styles.profile_renderer()
+            ),
+            "strip": copy_section(
+                inputs[INTERVALS],
+                part.label,
+                "Geology strip",
+                "LineString",
+                styles.unit_strip_renderer(self._units(inputs[INTERVALS]), "unit"),
+            ),
+        }
+        for name, layer in layers.items():
+            given = {
+                "ticks": TICKS,
+                "crossings": CROSSINGS,
+                "holes": BOREHOLES,
+                "strip": INTERVALS,
+            }.get(name)
+            if given and inputs[given] is not None and (layer is None or not layer.featureCount()):
+                feedback.pushInfo(f"Section {part.label}: nothing in {given} for this section.")
+        present = [layer for layer in layers.values() if layer is not None]
+        start, end = end_names(part.coords)
+        line_layer = line_on_map(
+            part.geometry, lines_crs, "Section line", styles.section_line_renderer()
+        )
+        return SheetSection(
+            label=part.label,
+            title=self.parameterAsString(parameters, TITLE, context),
+            exaggeration=exaggeration,
+            extent=self._extent(present, ground),
+            start_name=start,
+            end_name=end,
+            section_layers=present,
+            legend_layers=[
+                layer for layer in present if layer.featureCount() and layer.name() != "Collars"
+            ],
+            location_layers=[line_layer] + list(map_layers),
+            location_extent=self._around(part.geometry.boundingBox()),
+            location_crs=lines_crs,
+            label_dips=self.parameterAsBoolean(parameters, LABEL_DIPS, context),
+        )
+
+    @staticmethod
+    def _units(layer):
+        if layer is None or layer.fields().lookupField("unit") < 0:
+            return []
+        return sorted(
+            {
+                str(v)
+                for v in layer.uniqueValues(layer.fields().lookupField("unit"))
+                if v is not None and str(v) not in ("", "NULL")
+            }
+        )
+
+    @staticmethod
+    def _extent(layers, ground):
+        box = QgsRectangle(ground.geometry().boundingBox())
+        for layer in layers:
+            if layer.featureCount():
+                box.combineExtentWith(layer.extent())
+        x0, x1 = padded(box.xMinimum(), box.xMaximum(), 0.03)
+        y0, y1 = padded(box.yMinimum(), box.yMaximum(), 0.12)
+        return QgsRectangle(x0, y0, x1, y1)
+
+    @staticmethod
+    def _around(box):
+        grow = 0.35 * max(box.width(), box.height())
+        return QgsRectangle(
+            box.xMinimum() - grow,
+            box.yMinimum() - grow,
+            box.xMaximum() + grow,
+            box.yMaximum() + grow,
+        )
+
+    @staticmethod
+    def _page(layout, index, page_size):
+        collection = layout.pageCollection()
+        if index >= collection.pageCount():
+            page = QgsLayoutItemPage(layout)
+            collection.addPage(page)
+        collection.page(index).setPageSize(QgsLayoutSize(*page_size))
+        return index
+
+    @staticmethod
+    def _export(layout, pages, output, suffix):
+        exporter = QgsLayoutExporter(layout)
+        if suffix == ".pdf":
+            settings = QgsLayoutExporter.PdfExportSettings()
+            settings.rasterizeWholeImage = False
+            result = exporter.exportToPdf(output, settings)
+            _check(result, exporter, output)
+            return [output]
+        stem = Path(output).with_suffix("")
+        scratch = Path(tempfile.mkdtemp(prefix="sectionsheet"))
+        try:
+            # Every page at once; QGIS names them page, page_2, page_3 …
+            base = scratch / f"page{suffix}"
+            if suffix == ".png":
+                settings = QgsLayoutExporter.ImageExportSettings()
+                settings.dpi = 150
+                settings.generateWorldFile = False
+                settings.exportMetadata = False
+                result = exporter.exportToImage(str(base), settings)
+            else:
+                settings = QgsLayoutExporter.SvgExportSettings()
+                # Text stays text, so the drawing can be edited further.
+                settings.textRenderFormat = TEXT_AS_TEXT
+                result = exporter.exportToSvg(str(base), settings)
+            _check(result, exporter, output)
+            files = []
+            for index, label in enumerate(pages):
+                produced = base if index == 0 else scratch / f"page_{index + 1}{suffix}"
+                target = f"{stem}_{_safe(label)}{suffix}"
+                shutil.move(str(produced), target)
+                files.append(target)
+        finally:
+            shutil.rmtree(scratch, ignore_errors=True)
+        return files
+
+
+def _check(result, exporter, target):
+    if result != QgsLayoutExporter.Success:
+        raise QgsProcessingException(
+            f"OUTPUT: the sheet could not be written to {target} "
+            f"({exporter.errorFile() or 'export error'})."
+        )
+
+
+def _safe(label):
+    return "".join(ch if ch.isalnum() or ch in "-_" else "_" for ch in label)

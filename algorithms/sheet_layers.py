@@ -1,0 +1,96 @@
+"""The features of one section, copied out of the section-view layers into
+small styled layers for its sheet."""
+
+from qgis.core import (
+    QgsCoordinateReferenceSystem,
+    QgsExpression,
+    QgsFeature,
+    QgsFeatureRequest,
+    QgsGeometry,
+    QgsPointXY,
+    QgsVectorLayer,
+)
+
+from .section_space import SECTION_CRS_WKT
+
+
+def section_filter(label):
+    return QgsFeatureRequest().setFilterExpression(
+        f'"section" = {QgsExpression.quotedValue(label)}'
+    )
+
+
+def _memory_layer(kind, name, fields, crs):
+    layer = QgsVectorLayer(f"{kind}?crs=EPSG:4326", name, "memory")
+    layer.setCrs(crs)
+    layer.dataProvider().addAttributes(fields.toList())
+    layer.updateFields()
+    return layer
+
+
+def section_crs():
+    return QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+
+
+def copy_section(source, label, name, kind, renderer):
+    """The source's features of section ``label`` in a new memory layer
+    (section-view CRS), or None when the layer has no ``section`` field."""
+    if source is None or source.fields().lookupField("section") < 0:
+        return None
+    layer = _memory_layer(kind, name, source.fields(), section_crs())
+    layer.dataProvider().addFeatures(list(source.getFeatures(section_filter(label))))
+    layer.setRenderer(renderer)
+    return layer
+
+
+def crossings_in_section(source, label, exaggeration, name, renderer):
+    """Crossing points (map layer with chainage and elev) placed in the
+    section view at (chainage, elev × VE); those without elevation are left
+    out."""
+    if source is None or source.fields().lookupField("section") < 0:
+        return None
+    layer = _memory_layer("Point", name, source.fields(), section_crs())
+    features = []
+    for feature in source.getFeatures(section_filter(label)):
+        chainage, elevation = feature["chainage"], feature["elev"]
+        if chainage is None or elevation is None or elevation != elevation:
+            continue
+        try:
+            point = QgsPointXY(float(chainage), float(elevation) * exaggeration)
+        except TypeError:  # a NULL that is not None
+            continue
+        copy = QgsFeature(feature)
+        copy.setGeometry(QgsGeometry.fromPointXY(point))
+        features.append(copy)
+    layer.dataProvider().addFeatures(features)
+    layer.setRenderer(renderer)
+    return layer
+
+
+def line_on_map(geometry, crs, name, renderer):
+    """The section line itself, for the location map."""
+    layer = _memory_layer("LineString", name, QgsVectorLayer("None", "", "memory").fields(), crs)
+    feature = QgsFeature()
+    feature.setGeometry(geometry)
+    layer.dataProvider().addFeatures([feature])
+    layer.setRenderer(renderer)
+    return layer
+
+
+def collar_points(holes, name, renderer):
+    """The top of each borehole line in the section view, to carry its name."""
+    if holes is None:
+        return None
+    layer = _memory_layer("Point", name, holes.fields(), section_crs())
+    features = []
+    for feature in holes.getFeatures():
+        vertices = feature.geometry().vertices()
+        if not vertices.hasNext():
+            continue
+        top = vertices.next()
+        copy = QgsFeature(feature)
+        copy.setGeometry(QgsGeometry.fromPointXY(QgsPointXY(top.x(), top.y())))
+        features.append(copy)
+    layer.dataProvider().addFeatures(features)
+    layer.setRenderer(renderer)
+    return layer
