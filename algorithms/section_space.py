@@ -5,3 +5,9 @@ SECTION_CRS_WKT = (
     'AXIS["chainage (x)",east,ORDER[1],LENGTHUNIT["metre",1]],'
     'AXIS["elevation (y)",north,ORDER[2],LENGTHUNIT["metre",1]]]'
 )
+
+
+def is_section_view(crs):
+    """Whether a layer's CRS is the section view (also after a round trip
+    through a file format that rewrites its WKT)."""
+    return crs.isValid() and not crs.authid() and '"Section view"' in crs.toWkt()

@@ -149,6 +149,15 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             context,
             feedback,
         )
+        builder = SheetBuilder(
+            profile,
+            inputs,
+            map_layers,
+            lines.sourceCrs(),
+            self.parameterAsString(parameters, TITLE, context),
+            self.parameterAsBoolean(parameters, LABEL_DIPS, context),
+            feedback,
+        )
         project = QgsProject()
         layout = QgsPrintLayout(project)
         layout.initializeDefaults()
@@ -159,9 +168,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             if feedback.isCanceled():
                 break
             ledger.read += 1
-            section = self._section(
-                part, profile, inputs, map_layers, lines.sourceCrs(), parameters, context, feedback
-            )
+            section = builder.section(part)
             if section is None:
                 part.reason = part.reason or NO_PROFILE
                 ledger.skip(part.reason)
@@ -198,103 +205,6 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         feature.setGeometry(part.geometry)
         feature.setAttributes([part.label, part.fid, part.reason])
         sink.addFeature(feature, QgsFeatureSink.FastInsert)
-
-    def _section(self, part, profile, inputs, map_layers, lines_crs, parameters, context, feedback):
-        if part.coords is None:
-            return None
-        ground = next(profile.getFeatures(section_filter(part.label)), None)
-        if ground is None:
-            return None
-        exaggeration = float(ground["ve"]) if profile.fields().lookupField("ve") >= 0 else 1.0
-        holes = copy_section(
-            inputs[BOREHOLES], part.label, "Boreholes", "LineString", styles.hole_renderer()
-        )
-        layers = {
-            "collars": collar_points(holes, "Collars", styles.collar_renderer()),
-            "ticks": copy_section(
-                inputs[TICKS], part.label, "Dip ticks", "LineString", styles.tick_renderer()
-            ),
-            "crossings": crossings_in_section(
-                inputs[CROSSINGS],
-                part.label,
-                exaggeration,
-                "Contacts and boundaries",
-                styles.crossing_renderer(),
-            ),
-            "holes": holes,
-            "ground": copy_section(
-                profile, part.label, "Ground surface", "MultiLineString", styles.profile_renderer()
-            ),
-            "strip": copy_section(
-                inputs[INTERVALS],
-                part.label,
-                "Geology strip",
-                "LineString",
-                styles.unit_strip_renderer(self._units(inputs[INTERVALS]), "unit"),
-            ),
-        }
-        for name, layer in layers.items():
-            given = {
-                "ticks": TICKS,
-                "crossings": CROSSINGS,
-                "holes": BOREHOLES,
-                "strip": INTERVALS,
-            }.get(name)
-            if given and inputs[given] is not None and (layer is None or not layer.featureCount()):
-                feedback.pushInfo(f"Section {part.label}: nothing in {given} for this section.")
-        present = [layer for layer in layers.values() if layer is not None]
-        start, end = end_names(part.coords)
-        line_layer = line_on_map(
-            part.geometry, lines_crs, "Section line", styles.section_line_renderer()
-        )
-        return SheetSection(
-            label=part.label,
-            title=self.parameterAsString(parameters, TITLE, context),
-            exaggeration=exaggeration,
-            extent=self._extent(present, ground),
-            start_name=start,
-            end_name=end,
-            section_layers=present,
-            legend_layers=[
-                layer for layer in present if layer.featureCount() and layer.name() != "Collars"
-            ],
-            location_layers=[line_layer] + list(map_layers),
-            location_extent=self._around(part.geometry.boundingBox()),
-            location_crs=lines_crs,
-            label_dips=self.parameterAsBoolean(parameters, LABEL_DIPS, context),
-        )
-
-    @staticmethod
-    def _units(layer):
-        if layer is None or layer.fields().lookupField("unit") < 0:
-            return []
-        return sorted(
-            {
-                str(v)
-                for v in layer.uniqueValues(layer.fields().lookupField("unit"))
-                if v is not None and str(v) not in ("", "NULL")
-            }
-        )
-
-    @staticmethod
-    def _extent(layers, ground):
-        box = QgsRectangle(ground.geometry().boundingBox())
-        for layer in layers:
-            if layer.featureCount():
-                box.combineExtentWith(layer.extent())
-        x0, x1 = padded(box.xMinimum(), box.xMaximum(), 0.03)
-        y0, y1 = padded(box.yMinimum(), box.yMaximum(), 0.12)
-        return QgsRectangle(x0, y0, x1, y1)
-
-    @staticmethod
-    def _around(box):
-        grow = 0.35 * max(box.width(), box.height())
-        return QgsRectangle(
-            box.xMinimum() - grow,
-            box.yMinimum() - grow,
-            box.xMaximum() + grow,
-            box.yMaximum() + grow,
-        )
 
     @staticmethod
     def _page(layout, index, page_size):
@@ -340,6 +250,122 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         finally:
             shutil.rmtree(scratch, ignore_errors=True)
         return files
+
+
+class SheetBuilder:
+    """Turns section lines and the section-view layers into sheet pages;
+    used by the algorithm and by scripts that build a project."""
+
+    def __init__(self, profile, inputs, map_layers, lines_crs, title, label_dips, feedback):
+        self.profile = profile
+        self.inputs = inputs
+        self.map_layers = list(map_layers)
+        self.lines_crs = lines_crs
+        self.title = title
+        self.label_dips = label_dips
+        self.feedback = feedback
+        self.strip_renderer_units = _units(inputs.get(INTERVALS))
+
+    def section(self, part):
+        """The SheetSection of a section line part; None without a profile."""
+        if part.coords is None:
+            return None
+        ground = next(self.profile.getFeatures(section_filter(part.label)), None)
+        if ground is None:
+            return None
+        ve_field = self.profile.fields().lookupField("ve")
+        exaggeration = float(ground["ve"]) if ve_field >= 0 else 1.0
+        inputs = self.inputs
+        holes = copy_section(
+            inputs.get(BOREHOLES), part.label, "Boreholes", "LineString", styles.hole_renderer()
+        )
+        layers = {
+            "collars": collar_points(holes, "Collars", styles.collar_renderer()),
+            "ticks": copy_section(
+                inputs.get(TICKS), part.label, "Dip ticks", "LineString", styles.tick_renderer()
+            ),
+            "crossings": crossings_in_section(
+                inputs.get(CROSSINGS),
+                part.label,
+                exaggeration,
+                "Contacts and boundaries",
+                styles.crossing_renderer(),
+            ),
+            "holes": holes,
+            "ground": copy_section(
+                self.profile,
+                part.label,
+                "Ground surface",
+                "MultiLineString",
+                styles.profile_renderer(),
+            ),
+            "strip": copy_section(
+                inputs.get(INTERVALS),
+                part.label,
+                "Geology strip",
+                "LineString",
+                styles.unit_strip_renderer(self.strip_renderer_units, "unit"),
+            ),
+        }
+        for name, given in (
+            ("ticks", TICKS),
+            ("crossings", CROSSINGS),
+            ("holes", BOREHOLES),
+            ("strip", INTERVALS),
+        ):
+            layer = layers[name]
+            if inputs.get(given) is not None and (layer is None or not layer.featureCount()):
+                self.feedback.pushInfo(
+                    f"Section {part.label}: nothing in {given} for this section."
+                )
+        present = [layer for layer in layers.values() if layer is not None]
+        start, end = end_names(part.coords)
+        line = line_on_map(
+            part.geometry,
+            self.lines_crs,
+            f"Section line {part.label}",
+            styles.section_line_renderer(),
+        )
+        return SheetSection(
+            label=part.label,
+            title=self.title,
+            exaggeration=exaggeration,
+            extent=_extent(present, ground),
+            start_name=start,
+            end_name=end,
+            section_layers=present,
+            legend_layers=[
+                layer for layer in present if layer.featureCount() and layer.name() != "Collars"
+            ],
+            location_layers=[line] + self.map_layers,
+            location_extent=_around(part.geometry.boundingBox()),
+            location_crs=self.lines_crs,
+            label_dips=self.label_dips,
+        )
+
+
+def _units(layer):
+    if layer is None or layer.fields().lookupField("unit") < 0:
+        return []
+    values = layer.uniqueValues(layer.fields().lookupField("unit"))
+    return sorted({str(v) for v in values if v is not None and str(v) not in ("", "NULL")})
+
+
+def _extent(layers, ground):
+    box = QgsRectangle(ground.geometry().boundingBox())
+    for layer in layers:
+        if layer.featureCount():
+            box.combineExtentWith(layer.extent())
+    x0, x1 = padded(box.xMinimum(), box.xMaximum(), 0.03)
+    y0, y1 = padded(box.yMinimum(), box.yMaximum(), 0.12)
+    return QgsRectangle(x0, y0, x1, y1)
+
+
+def _around(box):
+    grow = 0.35 * max(box.width(), box.height())
+    return QgsRectangle(
+        box.xMinimum() - grow, box.yMinimum() - grow, box.xMaximum() + grow, box.yMaximum() + grow
+    )
 
 
 def _check(result, exporter, target):

@@ -11,7 +11,7 @@ from qgis.core import (
     QgsVectorLayer,
 )
 
-from .section_space import SECTION_CRS_WKT
+from .section_space import SECTION_CRS_WKT, is_section_view
 
 
 def section_filter(label):
@@ -32,23 +32,33 @@ def section_crs():
     return QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
 
 
+def section_expression(label):
+    return f'"section" = {QgsExpression.quotedValue(label)}'
+
+
 def copy_section(source, label, name, kind, renderer):
-    """The source's features of section ``label`` in a new memory layer
-    (section-view CRS), or None when the layer has no ``section`` field."""
+    """A layer showing only section ``label`` of ``source``: a clone filtered
+    by a subset string (kept when a project is saved), or a memory copy when
+    the source cannot filter; None when it has no ``section`` field."""
     if source is None or source.fields().lookupField("section") < 0:
         return None
-    layer = _memory_layer(kind, name, source.fields(), section_crs())
-    layer.dataProvider().addFeatures(list(source.getFeatures(section_filter(label))))
+    layer = source.clone()
+    if not layer.setSubsetString(section_expression(label)):
+        layer = _memory_layer(kind, name, source.fields(), section_crs())
+        layer.dataProvider().addFeatures(list(source.getFeatures(section_filter(label))))
+    layer.setName(name)
     layer.setRenderer(renderer)
     return layer
 
 
 def crossings_in_section(source, label, exaggeration, name, renderer):
-    """Crossing points (map layer with chainage and elev) placed in the
-    section view at (chainage, elev × VE); those without elevation are left
-    out."""
+    """Crossing points placed in the section view at (chainage, elev × VE);
+    those without elevation are left out. A layer already in the section
+    view is only filtered."""
     if source is None or source.fields().lookupField("section") < 0:
         return None
+    if is_section_view(source.crs()):
+        return copy_section(source, label, name, "Point", renderer)
     layer = _memory_layer("Point", name, source.fields(), section_crs())
     features = []
     for feature in source.getFeatures(section_filter(label)):

@@ -12,7 +12,6 @@ analytic surface, and peak memory above an idle QGIS process.
 
 import argparse
 import json
-import os
 import subprocess
 import sys
 import tempfile
@@ -36,25 +35,10 @@ def memory_kb(key):
 
 
 def start_qgis():
-    os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
-    from qgis.core import QgsApplication
+    sys.path.insert(0, str(ROOT / "scripts"))
+    from plugin_package import start_qgis as start
 
-    app = QgsApplication([], False)
-    app.initQgis()
-    sys.path.append(str(Path(QgsApplication.pkgDataPath()) / "python" / "plugins"))
-    from processing.core.Processing import Processing
-    from qgis.analysis import QgsNativeAlgorithms
-
-    Processing.initialize()
-    QgsApplication.processingRegistry().addProvider(QgsNativeAlgorithms())
-    sys.path.insert(0, str(ROOT / "tests"))
-    import conftest  # noqa: F401  (imports the checkout as package 'sectionwright')
-
-    from sectionwright.plugin.provider import SectionwrightProvider
-
-    provider = SectionwrightProvider()
-    QgsApplication.processingRegistry().addProvider(provider)
-    return app, provider
+    return start()
 
 
 def xyz_of_points(layer, z_field):

@@ -2,7 +2,6 @@
 checkout's folder is called, the provider registered once, the demo world
 made once."""
 
-import importlib.util
 import os
 import sys
 from pathlib import Path
@@ -10,27 +9,15 @@ from pathlib import Path
 import pytest
 
 ROOT = Path(__file__).resolve().parent.parent
-PACKAGE = "sectionwright"
 
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
 os.environ.setdefault("PROJ_DATA", "/usr/share/proj")
 sys.path.insert(0, str(ROOT / "test_data"))
 sys.path.insert(0, str(ROOT / "tests"))
+sys.path.insert(0, str(ROOT / "scripts"))
+from plugin_package import import_plugin  # noqa: E402
 
-
-def _import_plugin_package():
-    if PACKAGE in sys.modules:
-        return sys.modules[PACKAGE]
-    spec = importlib.util.spec_from_file_location(
-        PACKAGE, ROOT / "__init__.py", submodule_search_locations=[str(ROOT)]
-    )
-    module = importlib.util.module_from_spec(spec)
-    sys.modules[PACKAGE] = module
-    spec.loader.exec_module(module)
-    return module
-
-
-_import_plugin_package()
+import_plugin()
 
 
 @pytest.fixture(scope="session")

@@ -27,7 +27,7 @@ def nice_step(span, target_count=8):
     """A round step (1, 2 or 5 × 10ⁿ) giving about ``target_count`` steps.
 
     >>> nice_step(9265.0), nice_step(370.0), nice_step(0.0)
-    (1000.0, 50.0, 1.0)
+    (2000.0, 50.0, 1.0)
     """
     if not span > 0:
         return 1.0
