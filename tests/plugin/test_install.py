@@ -54,6 +54,7 @@ def test_zip_installs_and_registers_the_provider(profile):
         "sectionwright:profile",
         "sectionwright:projectattitudes",
         "sectionwright:projectboreholes",
+        "sectionwright:sectionsheet",
     ]
     assert report["unloaded"]
 
