@@ -1,0 +1,34 @@
+"""The main job end to end: the demo command's two steps on a fresh folder."""
+import subprocess
+import sys
+from pathlib import Path
+
+from osgeo import gdal
+from qgis.core import QgsLayoutExporter, QgsProject
+
+ROOT = Path(__file__).resolve().parent.parent
+
+
+def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
+    for script in ("run_demo.py", "make_demo_project.py"):
+        done = subprocess.run([sys.executable, str(ROOT / "scripts" / script), str(tmp_path)],
+                              capture_output=True, text=True, timeout=600)
+        assert done.returncode == 0, done.stderr[-3000:]
+    summary = done.stdout
+    assert "Project with 4 layouts" in summary
+    info = subprocess.run(["pdfinfo", str(tmp_path / "sections.pdf")], capture_output=True,
+                          text=True, check=True).stdout
+    assert "Pages:           4" in info
+
+    project = QgsProject()
+    assert project.read(str(tmp_path / "tarrowgill.qgz"))
+    layouts = {layout.name(): layout for layout in project.layoutManager().layouts()}
+    assert sorted(layouts) == ["Section A", "Section B", "Section C", "Section D"]
+    assert all(layer.isValid() for layer in project.mapLayers().values())
+    picture = tmp_path / "reopened.png"
+    settings = QgsLayoutExporter.ImageExportSettings()
+    settings.dpi = 60
+    result = QgsLayoutExporter(layouts["Section B"]).exportToImage(str(picture), settings)
+    assert result == QgsLayoutExporter.Success
+    grey = gdal.Open(str(picture)).ReadAsArray()[:3].mean(axis=0)
+    assert (grey < 200).mean() > 0.01
