@@ -31,7 +31,8 @@ CAUTION = (
     "licensed practice before it guides drilling, excavation or slope decisions."
 )
 MARGIN = 12.0  # mm
-SIDE_COLUMN = 78.0  # mm, location map and legend
+BOTTOM_BAND = 84.0  # mm under the section view: axis title, scale bar, location, legend
+LOCATION = (78.0, 56.0)  # mm, the location map
 FONT = "Sans Serif"
 
 
@@ -114,8 +115,8 @@ def fitted_size(extent, width, height):
 def section_view_box(page_size, extent):
     """(x, y, width, height) in mm of the section view on its page."""
     width, height = page_size
-    box_w = width - 2 * MARGIN - SIDE_COLUMN - 22
-    box_h = height - (MARGIN + 22) - MARGIN - 32
+    box_w = width - 2 * MARGIN - 18
+    box_h = height - (MARGIN + 22) - MARGIN - BOTTOM_BAND
     map_w, map_h = fitted_size(extent, box_w, box_h)
     return MARGIN + 14, MARGIN + 22, map_w, map_h
 
@@ -263,9 +264,9 @@ def add_page(layout, page, page_size, section):
     scale_bar.attemptMove(QgsLayoutPoint(map_x, map_y + map_h + 14), page=page)
     scale_bar.refresh()
 
-    side_x = width - MARGIN - SIDE_COLUMN
-    _add_location(layout, page, section, side_x, map_y)
-    _add_legend(layout, page, section, side_x, map_y + 66)
+    band_y = map_y + map_h + 30
+    _add_location(layout, page, section, MARGIN, band_y)
+    _add_legend(layout, page, section, MARGIN + LOCATION[0] + 12, band_y - 7)
     _label(
         layout, page, CAUTION, MARGIN, height - MARGIN - 6, width - 2 * MARGIN, 6, 7.5, italic=True
     )
@@ -273,7 +274,7 @@ def add_page(layout, page, page_size, section):
 
 
 def _add_location(layout, page, section, x, y):
-    _label(layout, page, "Location", x, y - 7, SIDE_COLUMN, 6, 9, True)
+    _label(layout, page, "Location", x, y - 7, LOCATION[0], 6, 9, True)
     location = QgsLayoutItemMap(layout)
     if section.location_crs is not None:
         location.setCrs(section.location_crs)
@@ -282,7 +283,7 @@ def _add_location(layout, page, section, x, y):
     location.setFrameEnabled(True)
     location.setFrameStrokeWidth(QgsLayoutMeasurement(0.3))
     layout.addLayoutItem(location)
-    _place(location, page, x, y, SIDE_COLUMN, 58)
+    _place(location, page, x, y, *LOCATION)
     if section.location_extent is not None:
         location.zoomToExtent(section.location_extent)
 
@@ -299,6 +300,8 @@ def _add_legend(layout, page, section, x, y):
     legend.setStyleFont(QgsLegendStyle.Subgroup, _font(8, True))
     legend.setStyleFont(QgsLegendStyle.SymbolLabel, _font(7.5))
     legend.setSymbolWidth(9)
+    legend.setColumnCount(3)
+    legend.setSplitLayer(True)
     layout.addLayoutItem(legend)
     legend.attemptMove(QgsLayoutPoint(x, y), page=page)
     legend.adjustBoxSize()

@@ -173,9 +173,17 @@ def unit_fill_renderer(units, field):
     from qgis.core import QgsFillSymbol
 
     categories = [
-        QgsRendererCategory(unit, QgsFillSymbol.createSimple(
-            {"color": unit_colour(index).name(), "outline_color": "#5a5a5a",
-             "outline_width": "0.15"}), unit)
+        QgsRendererCategory(
+            unit,
+            QgsFillSymbol.createSimple(
+                {
+                    "color": unit_colour(index).name(),
+                    "outline_color": "#5a5a5a",
+                    "outline_width": "0.15",
+                }
+            ),
+            unit,
+        )
         for index, unit in enumerate(sorted(u for u in units if u))
     ]
     return QgsCategorizedSymbolRenderer(field, categories)
@@ -184,10 +192,13 @@ def unit_fill_renderer(units, field):
 def contact_renderer(field):
     """Contacts thin and dark, faults thick in the fault colour."""
     categories = [
-        QgsRendererCategory("fault", QgsLineSymbol.createSimple(
-            {"line_color": FAULT, "line_width": "0.9"}), "fault"),
-        QgsRendererCategory("", QgsLineSymbol.createSimple(
-            {"line_color": INK, "line_width": "0.3"}), "contact"),
+        QgsRendererCategory(
+            "fault", QgsLineSymbol.createSimple({"line_color": FAULT, "line_width": "0.9"}), "fault"
+        ),
+        QgsRendererCategory(
+            "", QgsLineSymbol.createSimple({"line_color": INK, "line_width": "0.3"}), "contact"
+        ),
     ]
     return QgsCategorizedSymbolRenderer(
-        f"CASE WHEN \"{field}\" = 'fault' THEN 'fault' ELSE '' END", categories)
+        f"CASE WHEN \"{field}\" = 'fault' THEN 'fault' ELSE '' END", categories
+    )

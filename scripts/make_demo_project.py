@@ -37,25 +37,33 @@ def section_view_crossings(gpkg):
         for name in ("section", "kind", "unit_prev", "unit_next", "chainage", "elev"):
             out.SetField(name, feature.GetField(name))
         point = ogr.Geometry(ogr.wkbPoint)
-        point.AddPoint_2D(feature.GetField("chainage"),
-                          feature.GetField("elev") * ve[feature.GetField("section")])
+        point.AddPoint_2D(
+            feature.GetField("chainage"), feature.GetField("elev") * ve[feature.GetField("section")]
+        )
         out.SetGeometry(point)
         target.CreateFeature(out)
     data = None
 
 
 def main(demo):
-    app, provider = start_qgis()   # keep both alive
+    app, provider = start_qgis()  # keep both alive
     import processing
-    from qgis.core import (QgsProcessingContext, QgsProcessingFeatureSource,
-                           QgsProcessingFeedback, QgsProject, QgsPrintLayout,
-                           QgsRasterLayer, QgsVectorLayer)
+    from qgis.core import (
+        QgsCoordinateReferenceSystem,
+        QgsPrintLayout,
+        QgsProcessingContext,
+        QgsProcessingFeatureSource,
+        QgsProcessingFeedback,
+        QgsProject,
+        QgsRasterLayer,
+        QgsVectorLayer,
+    )
+
     from sectionwright.algorithms.section_lines import read_section_parts, working_crs
     from sectionwright.algorithms.section_space import SECTION_CRS_WKT
     from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
     from sectionwright.algorithms.sheet_page import add_page
     from sectionwright.plugin import styles
-    from qgis.core import QgsCoordinateReferenceSystem
 
     world, results = demo / "tarrowgill.gpkg", demo / "sections.gpkg"
     section_view_crossings(results)
@@ -64,8 +72,11 @@ def main(demo):
     project.setCrs(QgsCoordinateReferenceSystem("EPSG:32633"))
 
     def add(path, layer_name, name, group, provider_name="ogr", renderer=None):
-        layer = (QgsVectorLayer(f"{path}|layername={layer_name}", name, provider_name)
-                 if provider_name == "ogr" else QgsRasterLayer(str(path), name))
+        layer = (
+            QgsVectorLayer(f"{path}|layername={layer_name}", name, provider_name)
+            if provider_name == "ogr"
+            else QgsRasterLayer(str(path), name)
+        )
         if renderer is not None:
             layer.setRenderer(renderer)
         project.addMapLayer(layer, False)
@@ -75,44 +86,77 @@ def main(demo):
     root = project.layerTreeRoot()
     map_group = root.addGroup("Tarrowgill map")
     view_group = root.addGroup("Section views (x = chainage, y = elevation × 2)")
-    sections = add(world, "sections", "Section lines", map_group,
-                   renderer=styles.section_line_renderer())
-    contacts = add(world, "contacts", "Contacts and faults", map_group,
-                   renderer=styles.contact_renderer("type"))
+    sections = add(
+        world, "sections", "Section lines", map_group, renderer=styles.section_line_renderer()
+    )
+    contacts = add(
+        world,
+        "contacts",
+        "Contacts and faults",
+        map_group,
+        renderer=styles.contact_renderer("type"),
+    )
     units = add(world, "units", "Units", map_group)
-    units.setRenderer(styles.unit_fill_renderer(
-        [str(v) for v in units.uniqueValues(units.fields().lookupField("unit"))], "unit"))
+    units.setRenderer(
+        styles.unit_fill_renderer(
+            [str(v) for v in units.uniqueValues(units.fields().lookupField("unit"))], "unit"
+        )
+    )
     add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
     engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
     view = {}
     for layer_name, name, renderer in (
-            ("profile_section", "Ground surface", styles.profile_renderer()),
-            ("geology_strip", "Geology strip", None),
-            ("attitude_ticks", "Dip ticks", styles.tick_renderer()),
-            ("crossings_view", "Contacts and boundaries", styles.crossing_renderer()),
-            ("boreholes", "Boreholes", styles.hole_renderer())):
+        ("profile_section", "Ground surface", styles.profile_renderer()),
+        ("geology_strip", "Geology strip", None),
+        ("attitude_ticks", "Dip ticks", styles.tick_renderer()),
+        ("crossings_view", "Contacts and boundaries", styles.crossing_renderer()),
+        ("boreholes", "Boreholes", styles.hole_renderer()),
+    ):
         view[layer_name] = add(results, layer_name, name, view_group, renderer=renderer)
         view[layer_name].setCrs(engineering)
     strip = view["geology_strip"]
-    strip.setRenderer(styles.unit_strip_renderer(
-        [str(v) for v in strip.uniqueValues(strip.fields().lookupField("unit"))], "unit"))
-    inputs = {"INTERVALS": strip, "TICKS": view["attitude_ticks"],
-              "CROSSINGS": view["crossings_view"], "BOREHOLES": view["boreholes"]}
+    strip.setRenderer(
+        styles.unit_strip_renderer(
+            [str(v) for v in strip.uniqueValues(strip.fields().lookupField("unit"))], "unit"
+        )
+    )
+    inputs = {
+        "INTERVALS": strip,
+        "TICKS": view["attitude_ticks"],
+        "CROSSINGS": view["crossings_view"],
+        "BOREHOLES": view["boreholes"],
+    }
 
     pdf = demo / "sections.pdf"
-    processing.run("sectionwright:sectionsheet", {
-        "INPUT": sections, "LINE_ID_FIELD": "name", "PROFILE": view["profile_section"],
-        "MAP_LAYERS": [contacts, units], "TITLE": "Tarrowgill — demo sections",
-        "OUTPUT": str(pdf), **inputs})
+    processing.run(
+        "sectionwright:sectionsheet",
+        {
+            "INPUT": sections,
+            "LINE_ID_FIELD": "name",
+            "PROFILE": view["profile_section"],
+            "MAP_LAYERS": [contacts, units],
+            "TITLE": "Tarrowgill — demo sections",
+            "OUTPUT": str(pdf),
+            **inputs,
+        },
+    )
 
     feedback = QgsProcessingFeedback()
     context = QgsProcessingContext()
     context.setProject(project)
     source = QgsProcessingFeatureSource(sections, context)
-    parts = read_section_parts(source, "name", working_crs(source, context, feedback), context,
-                               feedback)
-    builder = SheetBuilder(view["profile_section"], inputs, [contacts, units], sections.crs(),
-                           "Tarrowgill — demo sections", True, feedback)
+    parts = read_section_parts(
+        source, "name", working_crs(source, context, feedback), context, feedback
+    )
+    builder = SheetBuilder(
+        view["profile_section"],
+        inputs,
+        [contacts, units],
+        sections.crs(),
+        "Tarrowgill — demo sections",
+        True,
+        feedback,
+    )
     sheet_group = root.addGroup("Sheet layers (one set per section)")
     sheet_group.setItemVisibilityChecked(False)
     page_size = PAGE_SIZES[1][1]
@@ -131,7 +175,7 @@ def main(demo):
         layout = QgsPrintLayout(project)
         layout.initializeDefaults()
         layout.setName(f"Section {part.label}")
-        layout.pageCollection().page(0).setPageSize("A3", 1)   # landscape
+        layout.pageCollection().page(0).setPageSize("A3", 1)  # landscape
         add_page(layout, 0, page_size, section)
         project.layoutManager().addLayout(layout)
     project.write()

@@ -1,6 +1,7 @@
 """Imports this checkout as the package ``sectionwright`` (whatever the
 folder is called), for tests, benchmarks and scripts that run outside QGIS's
 plugin loader."""
+
 import importlib.util
 import sys
 from pathlib import Path
@@ -13,7 +14,8 @@ def import_plugin():
     if PACKAGE in sys.modules:
         return sys.modules[PACKAGE]
     spec = importlib.util.spec_from_file_location(
-        PACKAGE, ROOT / "__init__.py", submodule_search_locations=[str(ROOT)])
+        PACKAGE, ROOT / "__init__.py", submodule_search_locations=[str(ROOT)]
+    )
     module = importlib.util.module_from_spec(spec)
     sys.modules[PACKAGE] = module
     spec.loader.exec_module(module)

@@ -1,4 +1,5 @@
 """The main job end to end: the demo command's two steps on a fresh folder."""
+
 import subprocess
 import sys
 from pathlib import Path
@@ -11,13 +12,18 @@ ROOT = Path(__file__).resolve().parent.parent
 
 def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
     for script in ("run_demo.py", "make_demo_project.py"):
-        done = subprocess.run([sys.executable, str(ROOT / "scripts" / script), str(tmp_path)],
-                              capture_output=True, text=True, timeout=600)
+        done = subprocess.run(
+            [sys.executable, str(ROOT / "scripts" / script), str(tmp_path)],
+            capture_output=True,
+            text=True,
+            timeout=600,
+        )
         assert done.returncode == 0, done.stderr[-3000:]
     summary = done.stdout
     assert "Project with 4 layouts" in summary
-    info = subprocess.run(["pdfinfo", str(tmp_path / "sections.pdf")], capture_output=True,
-                          text=True, check=True).stdout
+    info = subprocess.run(
+        ["pdfinfo", str(tmp_path / "sections.pdf")], capture_output=True, text=True, check=True
+    ).stdout
     assert "Pages:           4" in info
 
     project = QgsProject()

@@ -1,4 +1,5 @@
 """sectionwright:sectionsheet: pages, pictures and axes."""
+
 import re
 import subprocess
 import sys
@@ -35,26 +36,63 @@ def pdf_pages(path):
 def demo_layers(provider, demo_dir):
     g = f"{demo_dir}/tarrowgill.gpkg|layername="
     common = {"INPUT": g + "sections", "LINE_ID_FIELD": "name"}
-    profile = processing.run("sectionwright:profile", dict(
-        common, DEM=f"{demo_dir}/dem.tif", STEP=25, VERTICAL_EXAGGERATION=2,
-        OUTPUT="memory:", OUTPUT_SECTION="memory:"))
-    attitudes = processing.run("sectionwright:projectattitudes", dict(
-        common, ATTITUDES=g + "attitudes", CONVENTION=3, TEXT_FIELD="attitude",
-        MAX_DISTANCE=500, DEM=f"{demo_dir}/dem.tif", VERTICAL_EXAGGERATION=2,
-        OUTPUT="memory:", OUTPUT_TICKS="memory:"))
-    geology = processing.run("sectionwright:geologycrossings", dict(
-        common, DEM=f"{demo_dir}/dem.tif", UNITS=g + "units", UNIT_FIELD="unit",
-        CONTACTS=g + "contacts", CONTACT_TYPE_FIELD="type", VERTICAL_EXAGGERATION=2,
-        OUTPUT="memory:", OUTPUT_INTERVALS="memory:"))
-    return {"INPUT": g + "sections", "LINE_ID_FIELD": "name",
-            "PROFILE": profile["OUTPUT_SECTION"], "TICKS": attitudes["OUTPUT_TICKS"],
-            "INTERVALS": geology["OUTPUT_INTERVALS"], "CROSSINGS": geology["OUTPUT"],
-            "MAP_LAYERS": [g + "units"], "TITLE": "Tarrowgill test sheet"}
+    profile = processing.run(
+        "sectionwright:profile",
+        dict(
+            common,
+            DEM=f"{demo_dir}/dem.tif",
+            STEP=25,
+            VERTICAL_EXAGGERATION=2,
+            OUTPUT="memory:",
+            OUTPUT_SECTION="memory:",
+        ),
+    )
+    attitudes = processing.run(
+        "sectionwright:projectattitudes",
+        dict(
+            common,
+            ATTITUDES=g + "attitudes",
+            CONVENTION=3,
+            TEXT_FIELD="attitude",
+            MAX_DISTANCE=500,
+            DEM=f"{demo_dir}/dem.tif",
+            VERTICAL_EXAGGERATION=2,
+            OUTPUT="memory:",
+            OUTPUT_TICKS="memory:",
+        ),
+    )
+    geology = processing.run(
+        "sectionwright:geologycrossings",
+        dict(
+            common,
+            DEM=f"{demo_dir}/dem.tif",
+            UNITS=g + "units",
+            UNIT_FIELD="unit",
+            CONTACTS=g + "contacts",
+            CONTACT_TYPE_FIELD="type",
+            VERTICAL_EXAGGERATION=2,
+            OUTPUT="memory:",
+            OUTPUT_INTERVALS="memory:",
+        ),
+    )
+    return {
+        "INPUT": g + "sections",
+        "LINE_ID_FIELD": "name",
+        "PROFILE": profile["OUTPUT_SECTION"],
+        "TICKS": attitudes["OUTPUT_TICKS"],
+        "INTERVALS": geology["OUTPUT_INTERVALS"],
+        "CROSSINGS": geology["OUTPUT"],
+        "MAP_LAYERS": [g + "units"],
+        "TITLE": "Tarrowgill test sheet",
+    }
 
 
 def sheet(parameters, output, feedback=None, **extra):
-    return processing.run("sectionwright:sectionsheet", dict(parameters, OUTPUT=str(output),
-                                                             **extra), feedback=feedback)
+    return processing.run(
+        "sectionwright:sectionsheet",
+        dict(parameters, OUTPUT=str(output), **extra),
+        feedback=feedback,
+    )
 
 
 def test_pdf_has_one_page_per_section(demo_layers, tmp_path):
@@ -69,7 +107,7 @@ def test_png_and_svg_give_one_file_per_section(demo_layers, tmp_path):
     assert pictures == ["sheet_A.png", "sheet_B.png", "sheet_C.png", "sheet_D.png"]
     pixels = gdal.Open(str(tmp_path / "sheet_B.png")).ReadAsArray().astype(float)
     grey = pixels[:3].mean(axis=0)
-    assert (grey < 200).mean() > 0.01 and grey.std() > 20        # not blank
+    assert (grey < 200).mean() > 0.01 and grey.std() > 20  # not blank
     sheet(demo_layers, tmp_path / "sheet.svg", PAGE_SIZE=0)
     svg = (tmp_path / "sheet_C.svg").read_text()
     assert "Section C–C′" in svg and "Tarrowgill test sheet" in svg
@@ -85,16 +123,33 @@ def test_axis_labels_are_where_the_true_elevations_are(provider, tmp_path):
     from sectionwright.algorithms.sheet_page import grid_expression, section_view_box
 
     exaggeration = 2.5
-    dem = plane_raster(tmp_path / "plane.tif", lambda x, y: 400.0 + 0.02 * (x - X0),
-                       (X0 - 100, 25.0, 0.0, Y0 + 500, 0.0, -25.0), (40, 420), 32633)
+    dem = plane_raster(
+        tmp_path / "plane.tif",
+        lambda x, y: 400.0 + 0.02 * (x - X0),
+        (X0 - 100, 25.0, 0.0, Y0 + 500, 0.0, -25.0),
+        (40, 420),
+        32633,
+    )
     line = line_layer([f"LINESTRING({X0} {Y0}, {X0 + 10000} {Y0})"], names=["P"])
-    profile = processing.run("sectionwright:profile", {
-        "INPUT": line, "LINE_ID_FIELD": "name", "DEM": dem, "STEP": 50,
-        "VERTICAL_EXAGGERATION": exaggeration, "OUTPUT": "memory:",
-        "OUTPUT_SECTION": "memory:"})["OUTPUT_SECTION"]
+    profile = processing.run(
+        "sectionwright:profile",
+        {
+            "INPUT": line,
+            "LINE_ID_FIELD": "name",
+            "DEM": dem,
+            "STEP": 50,
+            "VERTICAL_EXAGGERATION": exaggeration,
+            "OUTPUT": "memory:",
+            "OUTPUT_SECTION": "memory:",
+        },
+    )["OUTPUT_SECTION"]
     log = LogFeedback()
-    sheet({"INPUT": line, "LINE_ID_FIELD": "name", "PROFILE": profile}, tmp_path / "p.png",
-          feedback=log, PAGE_SIZE=0)
+    sheet(
+        {"INPUT": line, "LINE_ID_FIELD": "name", "PROFILE": profile},
+        tmp_path / "p.png",
+        feedback=log,
+        PAGE_SIZE=0,
+    )
     view = next(line for line in log.lines if line.startswith("Section P: page 1"))
     ranges = re.findall(r"(-?\d+(?:\.\d+)?)…(-?\d+(?:\.\d+)?)", view)
     numbers = [float(v) for v in ranges[0] + ranges[1]]
@@ -105,7 +160,7 @@ def test_axis_labels_are_where_the_true_elevations_are(provider, tmp_path):
         true_elevation = 400.0 + 0.02 * chainage
         column = int(round(x + (chainage - extent.xMinimum()) / extent.width() * w))
         expected_row = y + (extent.yMaximum() - true_elevation * exaggeration) / extent.height() * h
-        rows = np.flatnonzero(image[int(y) + 3:int(y + h) - 3, column] < 80) + int(y) + 3
+        rows = np.flatnonzero(image[int(y) + 3 : int(y + h) - 3, column] < 80) + int(y) + 3
         assert len(rows) and abs(rows.mean() - expected_row) < 3.0, chainage
     context = QgsExpressionContext()
     scope = QgsExpressionContextScope()
@@ -125,8 +180,12 @@ def test_a_missing_section_and_an_empty_layer_leave_the_other_pages(demo_layers,
     empty_ticks = QgsVectorLayer("LineString?field=section:string", "t", "memory")
     log = LogFeedback()
     out = tmp_path / "partial.pdf"
-    result = sheet(dict(demo_layers, PROFILE=without_d, TICKS=empty_ticks), out, feedback=log,
-                   SKIPPED="memory:")
+    result = sheet(
+        dict(demo_layers, PROFILE=without_d, TICKS=empty_ticks),
+        out,
+        feedback=log,
+        SKIPPED="memory:",
+    )
     assert pdf_pages(out) == 3
     assert [f["section"] for f in result["SKIPPED"].getFeatures()] == ["D"]
     assert any("Section D: no page" in line for line in log.lines)
@@ -140,12 +199,26 @@ def test_an_unwritable_output_is_a_clear_error(demo_layers):
 
 def test_sheets_are_made_headless(provider, demo_dir, tmp_path):
     profile = tmp_path / "profile.gpkg"
-    processing.run("sectionwright:profile", {
-        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "DEM": f"{demo_dir}/dem.tif", "STEP": 50, "OUTPUT": "memory:",
-        "OUTPUT_SECTION": str(profile)})
+    processing.run(
+        "sectionwright:profile",
+        {
+            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "DEM": f"{demo_dir}/dem.tif",
+            "STEP": 50,
+            "OUTPUT": "memory:",
+            "OUTPUT_SECTION": str(profile),
+        },
+    )
     out = tmp_path / "headless.pdf"
-    headless.run("sectionwright:sectionsheet", {
-        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections", "LINE_ID_FIELD": "name",
-        "PROFILE": str(profile), "OUTPUT": str(out)}, tmp_path / "qgis")
+    headless.run(
+        "sectionwright:sectionsheet",
+        {
+            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "PROFILE": str(profile),
+            "OUTPUT": str(out),
+        },
+        tmp_path / "qgis",
+    )
     assert pdf_pages(out) == 4
