@@ -7,6 +7,7 @@ old spellings. Everything else imports these names from here.
 
 from qgis.core import (
     Qgis,
+    QgsPalLayerSettings,
     QgsProcessing,
     QgsProcessingParameterNumber,
     QgsRenderContext,
@@ -39,6 +40,8 @@ NUMBER_DOUBLE = _scoped(
 TEXT_AS_TEXT = _scoped(
     "TextRenderFormat", "AlwaysText", getattr(QgsRenderContext, "TextFormatAlwaysText", 1)
 )
+LABEL_OVER_POINT = _scoped("LabelPlacement", "OverPoint", QgsPalLayerSettings.OverPoint)
+LABEL_HORIZONTAL = _scoped("LabelPlacement", "Horizontal", QgsPalLayerSettings.Horizontal)
 CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
@@ -61,3 +64,22 @@ def is_curved(wkb_type):
 
 def unit_name(unit):
     return QgsUnitTypes.toString(unit)
+
+
+def set_label_text(item, text_format):
+    """Font and colour of a layout label: one text format from 3.38 on
+    (setFont/setFontColor are deprecated there), the old calls before."""
+    if hasattr(item, "setTextFormat"):
+        item.setTextFormat(text_format)
+    else:
+        item.setFont(text_format.font())
+        item.setFontColor(text_format.color())
+
+
+def set_legend_text(legend, style, text_format):
+    """Text of one legend style: a text format from 3.30 on, a font before."""
+    current = legend.rstyle(style)
+    if hasattr(current, "setTextFormat"):
+        current.setTextFormat(text_format)
+    else:
+        legend.setStyleFont(style, text_format.font())

@@ -25,6 +25,7 @@ from qgis.PyQt.QtGui import QColor, QFont
 
 from ..plugin.styles import GRID, INK
 from .core.sheet_scale import nice_step
+from .qgis_compat import LABEL_HORIZONTAL, LABEL_OVER_POINT, set_label_text, set_legend_text
 
 CAUTION = (
     "Interpretation: to be checked by a qualified geologist under local codes and "
@@ -91,8 +92,7 @@ def _label(
 ):
     item = QgsLayoutItemLabel(layout)
     item.setText(text)
-    item.setFont(_font(size, bold, italic))
-    item.setFontColor(QColor(INK))
+    set_label_text(item, _text_format(size, bold, italic))
     item.setHAlign(align)
     item.setVAlign(Qt.AlignVCenter)
     layout.addLayoutItem(item)
@@ -203,12 +203,10 @@ def add_page(layout, page, page_size, section):
 
     ticks = _layer(section, "Dip ticks")
     if section.label_dips and ticks is not None:
-        _label_layer(
-            ticks, "format_number(\"app_dip\", 0) || '°'", 6.5, QgsPalLayerSettings.Horizontal
-        )
+        _label_layer(ticks, "format_number(\"app_dip\", 0) || '°'", 6.5, LABEL_HORIZONTAL)
     collars = _layer(section, "Collars")
     if collars is not None:
-        _label_layer(collars, '"hole"', 7, QgsPalLayerSettings.OverPoint)
+        _label_layer(collars, '"hole"', 7, LABEL_OVER_POINT)
     section_map = QgsLayoutItemMap(layout)
     section_map.setCrs(section.section_layers[0].crs() if section.section_layers else None)
     section_map.setLayers(section.section_layers)
@@ -296,9 +294,9 @@ def _add_legend(layout, page, section, x, y):
     root.removeAllChildren()
     for layer in section.legend_layers:
         root.addLayer(layer)
-    legend.setStyleFont(QgsLegendStyle.Title, _font(9, True))
-    legend.setStyleFont(QgsLegendStyle.Subgroup, _font(8, True))
-    legend.setStyleFont(QgsLegendStyle.SymbolLabel, _font(7.5))
+    set_legend_text(legend, QgsLegendStyle.Title, _text_format(9, True))
+    set_legend_text(legend, QgsLegendStyle.Subgroup, _text_format(8, True))
+    set_legend_text(legend, QgsLegendStyle.SymbolLabel, _text_format(7.5))
     legend.setSymbolWidth(9)
     legend.setColumnCount(3)
     legend.setSplitLayer(True)

@@ -7,6 +7,7 @@ colours, the section-view layers, and one print layout per section, ready
 to edit — and ``sections.pdf`` with one page per section.
 """
 
+import os
 import sys
 from pathlib import Path
 
@@ -180,9 +181,10 @@ def main(demo):
         project.layoutManager().addLayout(layout)
     project.write()
     print(f"Project with {len(parts)} layouts: {project.fileName()}")
-    print(f"Section sheets: {pdf}")
-    project.clear()
-    app.exitQgis()
+    print(f"Section sheets: {pdf}", flush=True)
+    # Everything is written: leave without QGIS's teardown, which crashes in
+    # some releases (3.40) when layouts and layers are destroyed at exit.
+    os._exit(0)
 
 
 if __name__ == "__main__":

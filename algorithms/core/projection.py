@@ -176,8 +176,8 @@ def nearest_points(network, xy, max_distance):
 
     >>> net = SectionNetwork([np.array([[0.0, 0.0], [100.0, 0.0]])], 40.0)
     >>> landing = nearest_points(net, np.array([[30.0, 8.0], [30.0, 80.0], [-5.0, 1.0]]), 10.0)
-    >>> landing.line.tolist(), landing.xy[0].tolist(), landing.chainage[0], landing.travel[0]
-    ([0, -1, -1], [30.0, 0.0], 30.0, 8.0)
+    >>> landing.line.tolist(), landing.xy[0].tolist(), float(landing.chainage[0])
+    ([0, -1, -1], [30.0, 0.0], 30.0)
     >>> landing.past_end.tolist()
     [False, False, True]
     """
@@ -224,7 +224,7 @@ def along_directions(network, xy, azimuth, max_distance):
 
     >>> net = SectionNetwork([np.array([[0.0, 0.0], [100.0, 0.0]])], 40.0)
     >>> landing = along_directions(net, np.array([[30.0, 10.0]]), np.array([45.0]), 20.0)
-    >>> landing.line.tolist(), landing.xy.round(6).tolist(), round(landing.travel[0], 6)
+    >>> landing.line.tolist(), landing.xy.round(6).tolist(), round(float(landing.travel[0]), 6)
     ([0], [[20.0, 0.0]], -14.142136)
     """
     xy = np.asarray(xy, dtype=float)

@@ -27,7 +27,8 @@ class Refuse(importlib.abc.MetaPathFinder):
 def main():
     profile = Path(sys.argv[1])
     if "--without" in sys.argv:
-        sys.meta_path.insert(0, Refuse(sys.argv[sys.argv.index("--without") + 1]))
+        refused = sys.argv[sys.argv.index("--without") + 1]
+        sys.meta_path.insert(0, Refuse(refused))
     app = QgsApplication([], False, str(profile))
     app.initQgis()
     messages = []
@@ -39,6 +40,11 @@ def main():
 
     Processing.initialize()
     import qgis.utils
+
+    if "--without" in sys.argv:
+        # QGIS itself may have imported it already (3.40 does): forget it.
+        for name in [m for m in sys.modules if m.split(".")[0] == refused]:
+            del sys.modules[name]
 
     plugins = profile / "python" / "plugins"
     sys.path.insert(0, str(plugins))

@@ -109,7 +109,7 @@ def test_the_classic_three_point_problem():
     dip_direction, dip, rms, ill = plane_fits(np.array([a, b, c]), np.zeros(3, int))
     assert dip[0] == pytest.approx(expected_dip, abs=1e-9)
     assert dip_direction[0] == pytest.approx(expected_direction, abs=1e-9)
-    assert rms[0] == pytest.approx(0.0, abs=1e-9) and not ill[0]
+    assert rms[0] == pytest.approx(0.0, abs=1e-4) and not ill[0]  # √ of a ~0 eigenvalue
 
 
 def rugged(x, y):

@@ -1,0 +1,98 @@
+#!/usr/bin/env bash
+# Runs the whole test suite on other QGIS releases, each inside a Debian root
+# (debootstrap, minbase) with that release's own packages:
+#   trixie  -> QGIS 3.40 LTR (Python 3.13, numpy 2, shapely 2.1)
+#   forky   -> QGIS 3.44
+# Usage: bash scripts/test_releases.sh [trixie] [forky] [-- pytest arguments]
+# Roots are cached in $SECTIONWRIGHT_ROOTS (default /var/cache/sectionwright-roots)
+# and rebuilt when missing or when the package list below changes. Needs root.
+set -euo pipefail
+CHECKOUT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
+CACHE="${SECTIONWRIGHT_ROOTS:-/var/cache/sectionwright-roots}"
+MIRROR="${SECTIONWRIGHT_MIRROR:-http://deb.debian.org/debian}"
+PACKAGES=(python3-qgis qgis-providers qgis python3-pytest python3-shapely python3-pyproj
+          python3-scipy python3-hypothesis python3-numpy python3-gdal python3-pip
+          poppler-utils ca-certificates)
+PIP_PACKAGES=(pytest-qgis==5.0.2)
+STAMP="$(printf '%s\n' "${PACKAGES[@]}" "${PIP_PACKAGES[@]}" | sha256sum | cut -d' ' -f1)"
+
+suites=()
+while [ $# -gt 0 ] && [ "$1" != "--" ]; do suites+=("$1"); shift; done
+[ "${1:-}" = "--" ] && shift
+[ ${#suites[@]} -gt 0 ] || suites=(trixie forky)
+
+if ! command -v debootstrap >/dev/null; then
+  DEBIAN_FRONTEND=noninteractive apt-get install -y -q --no-install-recommends debootstrap
+fi
+
+in_root() {   # in_root DIR COMMAND… : run inside the root with a clean environment
+  local dir="$1"; shift
+  chroot "$dir" /usr/bin/env -i HOME=/root LANG=C.UTF-8 DEBIAN_FRONTEND=noninteractive \
+    PATH=/usr/local/sbin:/usr/local/bin:/usr/sbin:/usr/bin:/sbin:/bin "$@"
+}
+
+mount_root() {
+  local dir="$1"
+  mkdir -p "$dir/checkout"
+  mountpoint -q "$dir/proc" || mount -t proc proc "$dir/proc"
+  mountpoint -q "$dir/dev" || mount --bind /dev "$dir/dev"
+  mountpoint -q "$dir/checkout" || mount --bind "$CHECKOUT" "$dir/checkout"
+  cp /etc/resolv.conf "$dir/etc/resolv.conf"
+}
+
+unmount_root() {
+  local dir="$1"
+  for point in checkout dev proc; do
+    mountpoint -q "$dir/$point" && umount -l "$dir/$point" || true
+  done
+}
+
+build_root() {
+  local suite="$1" dir="$CACHE/$1"
+  if [ "$(cat "$dir/.sectionwright-ready" 2>/dev/null)" = "$STAMP" ]; then return; fi
+  echo "test_releases: building the $suite root in $dir"
+  rm -rf "$dir"
+  mkdir -p "$CACHE"
+  local script=()
+  # Debian 12's debootstrap has no script for forky: sid's works.
+  [ -e "/usr/share/debootstrap/scripts/$suite" ] || script=(/usr/share/debootstrap/scripts/sid)
+  debootstrap --variant=minbase "$suite" "$dir" "$MIRROR" "${script[@]}" > "$CACHE/$suite.log" 2>&1 \
+    || { tail -20 "$CACHE/$suite.log"; exit 1; }
+  mount_root "$dir"
+  trap 'unmount_root "'"$dir"'"' EXIT
+  # Testing suites' Release files may be past their validity date.
+  in_root "$dir" apt-get -q -o Acquire::Check-Valid-Until=false update
+  in_root "$dir" apt-get install -y -q --no-install-recommends "${PACKAGES[@]}"
+  # pip inside the root: the machine's CA bundle, none of its pip configuration.
+  cp /etc/ssl/certs/ca-certificates.crt "$dir/etc/ssl/certs/host-ca-bundle.crt"
+  in_root "$dir" env PIP_CONFIG_FILE=/dev/null PIP_CERT=/etc/ssl/certs/host-ca-bundle.crt \
+    SSL_CERT_FILE=/etc/ssl/certs/host-ca-bundle.crt \
+    python3 -m pip install -q --break-system-packages --no-deps "${PIP_PACKAGES[@]}"
+  unmount_root "$dir"
+  trap - EXIT
+  echo "$STAMP" > "$dir/.sectionwright-ready"
+}
+
+run_leg() {
+  local suite="$1" dir="$CACHE/$1"; shift
+  mount_root "$dir"
+  trap 'unmount_root "'"$dir"'"' EXIT
+  local version
+  version="$(in_root "$dir" python3 -c 'from qgis.core import Qgis; print(Qgis.QGIS_VERSION)')"
+  echo "test_releases: $suite, QGIS $version"
+  local started=$SECONDS status=0
+  in_root "$dir" env QT_QPA_PLATFORM=offscreen XDG_RUNTIME_DIR=/tmp/runtime-root \
+    sh -c 'mkdir -p -m 700 /tmp/runtime-root && cd /checkout && exec python3 -m pytest -p no:cacheprovider "$@"' \
+    pytest "$@" || status=$?
+  echo "test_releases: $suite finished in $((SECONDS - started)) s with status $status"
+  unmount_root "$dir"
+  trap - EXIT
+  return $status
+}
+
+failed=0
+for suite in "${suites[@]}"; do
+  build_root "$suite"
+  run_leg "$suite" "$@" || failed=1
+done
+exit $failed
