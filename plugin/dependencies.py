@@ -5,31 +5,41 @@ import importlib
 import sys
 
 REQUIRED = (
-    # (import name, minimum version, pip requirement)
-    ("numpy", (1, 20), "numpy"),
-    ("shapely", (2, 0), "shapely>=2.0"),
-    ("pyproj", (3, 0), "pyproj>=3.0"),
+    # (import name, minimum version, pip requirement, a name only that version has)
+    ("numpy", (1, 20), "numpy", "broadcast_shapes"),
+    ("shapely", (2, 0), "shapely>=2.0", "get_coordinates"),
+    ("pyproj", (3, 0), "pyproj>=3.0", "Transformer"),
 )
 
 
 def _version_tuple(text):
+    """(major, minor) of a version string; None when it is not one (some
+    distributions' builds report '0+unknown')."""
     numbers = []
-    for piece in text.split(".")[:2]:
-        digits = "".join(ch for ch in piece if ch.isdigit())
-        numbers.append(int(digits or 0))
-    return tuple(numbers)
+    for piece in str(text).split("+")[0].split(".")[:2]:
+        if not piece.isdigit():
+            return None
+        numbers.append(int(piece))
+    return tuple(numbers) if numbers and numbers != [0] else None
+
+
+def _recent_enough(module, minimum, probe):
+    version = _version_tuple(getattr(module, "__version__", ""))
+    if version is None:
+        return hasattr(module, probe)
+    return version >= minimum
 
 
 def missing_requirements():
     """pip requirements for the packages that are absent or too old."""
     missing = []
-    for module_name, minimum, requirement in REQUIRED:
+    for module_name, minimum, requirement, probe in REQUIRED:
         try:
             module = importlib.import_module(module_name)
         except ImportError:
             missing.append(requirement)
             continue
-        if _version_tuple(getattr(module, "__version__", "0")) < minimum:
+        if not _recent_enough(module, minimum, probe):
             missing.append(requirement)
     return missing
 
