@@ -48,6 +48,7 @@ MAP_LAYERS = "MAP_LAYERS"
 TITLE = "TITLE"
 LABEL_DIPS = "LABEL_DIPS"
 PAGE_SIZE = "PAGE_SIZE"
+ADD_LAYOUT = "ADD_LAYOUT"
 OUTPUT = "OUTPUT"
 
 PAGE_SIZES = [
@@ -108,6 +109,13 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             )
         )
         self.addParameter(
+            QgsProcessingParameterBoolean(
+                ADD_LAYOUT,
+                tr("Also add the layout to the current project, to edit it"),
+                defaultValue=False,
+            )
+        )
+        self.addParameter(
             QgsProcessingParameterFileDestination(
                 OUTPUT, tr("Section sheets"), "PDF (*.pdf);;PNG (*.png);;SVG (*.svg)"
             )
@@ -158,7 +166,8 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             self.parameterAsBoolean(parameters, LABEL_DIPS, context),
             feedback,
         )
-        project = QgsProject()
+        add_layout = self.parameterAsBoolean(parameters, ADD_LAYOUT, context)
+        project = context.project() if add_layout and context.project() else QgsProject()
         layout = QgsPrintLayout(project)
         layout.initializeDefaults()
         layout.setName(self.parameterAsString(parameters, TITLE, context))
@@ -191,11 +200,30 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             raise QgsProcessingException("No section could be drawn: see the log.")
         files = self._export(layout, pages, output, suffix)
         feedback.pushInfo(f"Written: {', '.join(files)}")
+        if add_layout and project is context.project():
+            self._add_to_project(project, layout, keep_alive, feedback)
         ledger.close()
         results = {OUTPUT: output}
         if skipped is not None:
             results[SKIPPED] = skipped_id
         return results
+
+    @staticmethod
+    def _add_to_project(project, layout, sections, feedback):
+        """The layout, and the per-section layers it draws (in a group left
+        unticked), added to the project for editing."""
+        manager = project.layoutManager()
+        layout.setName(
+            manager.generateUniqueTitle() if manager.layoutByName(layout.name()) else layout.name()
+        )
+        group = project.layerTreeRoot().addGroup(f"Sheet layers: {layout.name()}")
+        group.setItemVisibilityChecked(False)
+        for section in sections:
+            for layer in section.section_layers + section.location_layers[:1]:
+                project.addMapLayer(layer, False)
+                group.addLayer(layer)
+        manager.addLayout(layout)
+        feedback.pushInfo(f"Layout '{layout.name()}' added to the project.")
 
     @staticmethod
     def _skip(sink, part):

@@ -222,3 +222,15 @@ def test_sheets_are_made_headless(provider, demo_dir, tmp_path):
         tmp_path / "qgis",
     )
     assert pdf_pages(out) == 4
+
+
+def test_the_layout_can_be_added_to_the_project(demo_layers, tmp_path):
+    from qgis.core import QgsProject
+
+    project = QgsProject.instance()
+    before = len(project.layoutManager().layouts())
+    sheet(demo_layers, tmp_path / "kept.pdf", ADD_LAYOUT=True)
+    layouts = project.layoutManager().layouts()
+    assert len(layouts) == before + 1
+    assert layouts[-1].pageCollection().pageCount() == 4
+    assert any(g.name().startswith("Sheet layers") for g in project.layerTreeRoot().children())

@@ -1,4 +1,5 @@
 """The dependency check: versions, odd version strings, what to install."""
+
 import types
 
 from sectionwright.plugin import dependencies
