@@ -55,6 +55,29 @@ NEEDS = {
 }
 
 
+def add_north_parameters(algorithm):
+    """NORTH_REFERENCE and DECLINATION, as every algorithm reading azimuths has them."""
+    tr = algorithm.tr
+    algorithm.addParameter(
+        QgsProcessingParameterEnum(
+            NORTH_REFERENCE,
+            tr("Azimuths are measured from"),
+            options=[tr(n) for n in NORTH_REFERENCES],
+            defaultValue=GRID,
+        )
+    )
+    algorithm.addParameter(
+        QgsProcessingParameterNumber(
+            DECLINATION,
+            tr("Magnetic declination (degrees, east positive)"),
+            NUMBER_DOUBLE,
+            defaultValue=0.0,
+            minValue=-180.0,
+            maxValue=180.0,
+        )
+    )
+
+
 def add_attitude_parameters(algorithm, parent):
     tr = algorithm.tr
     algorithm.addParameter(
@@ -76,24 +99,7 @@ def add_attitude_parameters(algorithm, parent):
                 name, tr(label), parentLayerParameterName=parent, optional=True
             )
         )
-    algorithm.addParameter(
-        QgsProcessingParameterEnum(
-            NORTH_REFERENCE,
-            tr("Azimuths are measured from"),
-            options=[tr(n) for n in NORTH_REFERENCES],
-            defaultValue=GRID,
-        )
-    )
-    algorithm.addParameter(
-        QgsProcessingParameterNumber(
-            DECLINATION,
-            tr("Magnetic declination (degrees, east positive)"),
-            NUMBER_DOUBLE,
-            defaultValue=0.0,
-            minValue=-180.0,
-            maxValue=180.0,
-        )
-    )
+    add_north_parameters(algorithm)
     algorithm.addParameter(
         QgsProcessingParameterField(
             DECLINATION_FIELD,

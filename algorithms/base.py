@@ -8,17 +8,19 @@ from qgis.core import (
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterField,
+    QgsProcessingParameterNumber,
 )
 from qgis.PyQt.QtCore import QCoreApplication
 
 from . import fields as F
 from .carried_fields import computed_fields
 from .help import help_text
-from .qgis_compat import SOURCE_LINES
+from .qgis_compat import NUMBER_DOUBLE, SOURCE_LINES
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"
 SKIPPED = "SKIPPED"
+VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
 
 
 class SectionwrightAlgorithm(QgsProcessingAlgorithm):
@@ -61,6 +63,17 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
                 self.tr("Section label field (empty: feature id)"),
                 parentLayerParameterName=INPUT,
                 optional=True,
+            )
+        )
+
+    def add_exaggeration_parameter(self):
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                VERTICAL_EXAGGERATION,
+                self.tr("Vertical exaggeration"),
+                NUMBER_DOUBLE,
+                defaultValue=1.0,
+                minValue=0.001,
             )
         )
 

@@ -25,6 +25,7 @@ from .base import (
     INPUT,
     LINE_ID_FIELD,
     SKIPPED,
+    VERTICAL_EXAGGERATION,
     SectionwrightAlgorithm,
     add_skipped_section,
     skipped_fields,
@@ -64,7 +65,6 @@ UNIT_FIELD = "UNIT_FIELD"
 CONTACTS = "CONTACTS"
 CONTACT_TYPE_FIELD = "CONTACT_TYPE_FIELD"
 TRACE_WINDOW = "TRACE_WINDOW"
-VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
 OUTPUT = "OUTPUT"
 OUTPUT_INTERVALS = "OUTPUT_INTERVALS"
 
@@ -135,15 +135,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 minValue=0.0,
             )
         )
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                VERTICAL_EXAGGERATION,
-                tr("Vertical exaggeration"),
-                NUMBER_DOUBLE,
-                defaultValue=1.0,
-                minValue=0.001,
-            )
-        )
+        self.add_exaggeration_parameter()
         self.addParameter(
             QgsProcessingParameterFeatureSink(OUTPUT, tr("Geology crossings (map)"), SOURCE_POINTS)
         )

@@ -21,6 +21,7 @@ from .base import (
     INPUT,
     LINE_ID_FIELD,
     SKIPPED,
+    VERTICAL_EXAGGERATION,
     SectionwrightAlgorithm,
     add_skipped_section,
     skipped_fields,
@@ -39,7 +40,6 @@ DEM = "DEM"
 DEM_BAND = "DEM_BAND"
 Z_FACTOR = "Z_FACTOR"
 STEP = "STEP"
-VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
 OUTPUT = "OUTPUT"
 OUTPUT_SECTION = "OUTPUT_SECTION"
 
@@ -88,15 +88,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                 minValue=0.0,
             )
         )
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                VERTICAL_EXAGGERATION,
-                self.tr("Vertical exaggeration"),
-                NUMBER_DOUBLE,
-                defaultValue=1.0,
-                minValue=0.001,
-            )
-        )
+        self.add_exaggeration_parameter()
         self.addParameter(
             QgsProcessingParameterFeatureSink(
                 OUTPUT, self.tr("Profile points (map)"), SOURCE_POINTS

@@ -21,7 +21,7 @@ from qgis.core import (
 
 from . import fields as F
 from .attitude_input import AttitudeSettings, add_attitude_parameters, geometry_reason
-from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
+from .base import INPUT, LINE_ID_FIELD, SKIPPED, VERTICAL_EXAGGERATION, SectionwrightAlgorithm
 from .carried_fields import CarriedFields
 from .core.carry import CarryOptions, carry_attitudes
 from .core.crs import transformer
@@ -53,7 +53,6 @@ UNIT_FIELD = "UNIT_FIELD"
 OBLIQUE_ANGLE = "OBLIQUE_ANGLE"
 DIP_UNCERTAINTY = "DIP_UNCERTAINTY"
 STRIKE_UNCERTAINTY = "STRIKE_UNCERTAINTY"
-VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
 TICK_LENGTH = "TICK_LENGTH"
 OUTPUT = "OUTPUT"
 OUTPUT_TICKS = "OUTPUT_TICKS"
@@ -143,15 +142,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                     name, tr(label), NUMBER_DOUBLE, defaultValue=default, minValue=0.0, maxValue=top
                 )
             )
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                VERTICAL_EXAGGERATION,
-                tr("Vertical exaggeration"),
-                NUMBER_DOUBLE,
-                defaultValue=1.0,
-                minValue=0.001,
-            )
-        )
+        self.add_exaggeration_parameter()
         self.addParameter(
             QgsProcessingParameterNumber(
                 TICK_LENGTH,
@@ -338,28 +329,18 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
 
     @staticmethod
     def _columns(record, labels, fids):
-        """Rows of computed values as plain Python values (NaN as NULL), in
-        the order of fields.ATTITUDE_FIELDS."""
-        numeric = (
-            "chainage",
-            "offset",
-            "travel",
-            "elev",
-            "gnd_elev",
-            "dip_dir",
-            "dip",
-            "strike",
-            "line_az",
-            "line_angle",
-            "app_dip",
-        )
-        columns = [[str(v) for v in labels], list(fids)]
-        columns += [[_null(v) for v in record[name].tolist()] for name in numeric]
-        columns.append([str(v) for v in record["dips_to"]])
-        columns += [
-            [_null(v) for v in record[name].tolist()] for name in ("plot_dip", "app_dip_sd")
-        ]
-        columns.append([str(v) for v in record["flags"]])
+        """Rows of the computed fields (fields.ATTITUDE_FIELDS, named as the
+        record's keys) as plain Python values, NaN as NULL."""
+        columns = []
+        for name in F.ATTITUDE_FIELDS:
+            if name == F.SECTION:
+                columns.append([str(v) for v in labels])
+            elif name == F.SOURCE_FID:
+                columns.append(list(fids))
+            elif name in F.TEXT_FIELDS:
+                columns.append([str(v) for v in record[name]])
+            else:
+                columns.append([_null(v) for v in record[name].tolist()])
         return zip(*columns)
 
     def _tick_lengths(self, parameters, context, parts):

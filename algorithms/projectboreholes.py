@@ -8,17 +8,15 @@ from qgis.core import (
     QgsFeatureSink,
     QgsProcessingException,
     QgsProcessingParameterDistance,
-    QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterField,
-    QgsProcessingParameterNumber,
     QgsProcessingParameterRasterLayer,
 )
 
 from . import fields as F
-from .attitude_input import NORTH_REFERENCES
-from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
+from .attitude_input import DECLINATION, NORTH_REFERENCE, add_north_parameters
+from .base import INPUT, LINE_ID_FIELD, SKIPPED, VERTICAL_EXAGGERATION, SectionwrightAlgorithm
 from .carried_fields import computed_fields
 from .core.attitudes import as_numbers
 from .core.boreholes import assemble_stations, check_intervals, check_surveys
@@ -33,7 +31,6 @@ from .qgis_compat import (
     LINE_STRING,
     LINE_STRING_Z,
     NO_GEOMETRY,
-    NUMBER_DOUBLE,
     SOURCE_ANY_VECTOR,
     SOURCE_LINES,
     SOURCE_POINTS,
@@ -57,11 +54,8 @@ INTERVAL_HOLE_FIELD = "INTERVAL_HOLE_FIELD"
 INTERVAL_FROM_FIELD = "INTERVAL_FROM_FIELD"
 INTERVAL_TO_FIELD = "INTERVAL_TO_FIELD"
 INTERVAL_CODE_FIELD = "INTERVAL_CODE_FIELD"
-NORTH_REFERENCE = "NORTH_REFERENCE"
-DECLINATION = "DECLINATION"
 DEM = "DEM"
 MAX_DISTANCE = "MAX_DISTANCE"
-VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
 OUTPUT = "OUTPUT"
 OUTPUT_INTERVALS = "OUTPUT_INTERVALS"
 OUTPUT_TRACES = "OUTPUT_TRACES"
@@ -133,24 +127,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
                 (INTERVAL_CODE_FIELD, "Code field"),
             ),
         )
-        self.addParameter(
-            QgsProcessingParameterEnum(
-                NORTH_REFERENCE,
-                tr("Azimuths are measured from"),
-                options=[tr(n) for n in NORTH_REFERENCES],
-                defaultValue=GRID,
-            )
-        )
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                DECLINATION,
-                tr("Magnetic declination (degrees, east positive)"),
-                NUMBER_DOUBLE,
-                defaultValue=0.0,
-                minValue=-180.0,
-                maxValue=180.0,
-            )
-        )
+        add_north_parameters(self)
         self.addParameter(
             QgsProcessingParameterRasterLayer(
                 DEM, tr("DEM (elevation of collars without Z)"), optional=True
@@ -165,15 +142,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
                 minValue=0.0,
             )
         )
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                VERTICAL_EXAGGERATION,
-                tr("Vertical exaggeration"),
-                NUMBER_DOUBLE,
-                defaultValue=1.0,
-                minValue=0.001,
-            )
-        )
+        self.add_exaggeration_parameter()
         for name, label, kind, optional in (
             (OUTPUT, "Boreholes (section view)", SOURCE_LINES, False),
             (OUTPUT_INTERVALS, "Borehole intervals (section view)", SOURCE_LINES, True),
