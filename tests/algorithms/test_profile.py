@@ -353,3 +353,19 @@ def test_runs_as_a_step_of_a_graphical_model(provider, plane_dem):
     layer = result["profile:profile_section"]
     layer = QgsVectorLayer(layer) if isinstance(layer, str) else layer
     assert layer.featureCount() == 1
+
+
+def test_a_vrt_mosaic_of_tiles_is_one_dem(provider, tmp_path):
+    # Source: GDAL's BuildVRT mosaics two plane tiles (west and east halves)
+    # into one virtual raster; the profile across the seam is the plane.
+    west = plane_raster(tmp_path / "west.tif", plane, GT, (200, 100), 32633)
+    east_gt = (GT[0] + 1000.0,) + GT[1:]
+    east = plane_raster(tmp_path / "east.tif", plane, east_gt, (200, 100), 32633)
+    mosaic = str(tmp_path / "mosaic.vrt")
+    gdal.BuildVRT(mosaic, [west, east]).FlushCache()
+    line = f"LINESTRING({ORIGIN_X + 200} {ORIGIN_Y + 500}, {ORIGIN_X + 1800} {ORIGIN_Y + 900})"
+    result = run_profile(line_layer([line]), mosaic, STEP=10.0)
+    features = list(result["OUTPUT"].getFeatures())
+    assert len(features) > 150
+    for feature in features:
+        assert feature["elev"] == pytest.approx(plane(feature["x"], feature["y"]), abs=1e-6)
