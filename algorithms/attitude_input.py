@@ -9,7 +9,6 @@ from qgis.core import (
     NULL,
     QgsFeatureRequest,
     QgsProcessingException,
-    QgsProcessingFeatureSource,
     QgsProcessingParameterEnum,
     QgsProcessingParameterField,
     QgsProcessingParameterNumber,
@@ -25,7 +24,7 @@ from .core.attitudes import (
     read_attitudes,
 )
 from .core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
-from .qgis_compat import NUMBER_DOUBLE
+from .qgis_compat import NUMBER_DOUBLE, SKIP_GEOMETRY_CHECKS
 
 CONVENTION = "CONVENTION"
 AZIMUTH_FIELD = "AZIMUTH_FIELD"
@@ -163,9 +162,7 @@ class AttitudeSettings:
         raw = {name: [] for name in wanted}
         xyz = []
         total = max(source.featureCount(), 1)
-        features = source.getFeatures(
-            QgsFeatureRequest(), QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks
-        )
+        features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
         for number, feature in enumerate(features):
             if feedback.isCanceled():
                 break

@@ -3,7 +3,6 @@ parameters and the SKIPPED output."""
 
 from qgis.core import (
     QgsFeature,
-    QgsFeatureSink,
     QgsProcessingAlgorithm,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
@@ -15,7 +14,7 @@ from qgis.PyQt.QtCore import QCoreApplication
 from . import fields as F
 from .carried_fields import computed_fields
 from .help import help_text
-from .qgis_compat import NUMBER_DOUBLE, SOURCE_LINES
+from .qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"
@@ -97,4 +96,4 @@ def add_skipped_section(sink, section):
     if section.geometry is not None:
         feature.setGeometry(section.geometry)
     feature.setAttributes([section.label, section.fid, section.reason])
-    sink.addFeature(feature, QgsFeatureSink.FastInsert)
+    sink.addFeature(feature, FAST_INSERT)

@@ -8,7 +8,6 @@ import shapely
 from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsFeature,
-    QgsFeatureSink,
     QgsPoint,
     QgsProcessingException,
     QgsProcessingParameterDistance,
@@ -48,6 +47,7 @@ from .geometry_io import to_qgis
 from .ledger import RunLedger
 from .map_layers import read_features, read_unit_map
 from .qgis_compat import (
+    FAST_INSERT,
     LINE_STRING,
     NUMBER_DOUBLE,
     POINT_Z,
@@ -411,7 +411,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 + [None if v != v else float(v) for v in estimate[:4]]
                 + [",".join(flags)]
             )
-            sink.addFeature(feature, QgsFeatureSink.FastInsert)
+            sink.addFeature(feature, FAST_INSERT)
 
     @staticmethod
     def _write_intervals(sink, part, stretch, units, chainage, elevation, exaggeration):
@@ -432,7 +432,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                         "overlap" if overlap else "",
                     ]
                 )
-                sink.addFeature(feature, QgsFeatureSink.FastInsert)
+                sink.addFeature(feature, FAST_INSERT)
 
     def _style(self, context, layer_id, units):
         if context.willLoadLayerOnCompletion(layer_id):

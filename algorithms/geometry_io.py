@@ -1,7 +1,9 @@
 """Shapely geometries handed to QGIS in one step (WKB), not vertex by vertex."""
 
 import shapely
-from qgis.core import QgsFeature, QgsFeatureSink, QgsGeometry
+from qgis.core import QgsFeature, QgsGeometry
+
+from .qgis_compat import FAST_INSERT
 
 
 def to_qgis(geometry):
@@ -19,4 +21,4 @@ def add_features(sink, geometries, attributes):
         geometry.fromWkb(wkb)
         feature.setGeometry(geometry)
         feature.setAttributes(values)
-        sink.addFeature(feature, QgsFeatureSink.FastInsert)
+        sink.addFeature(feature, FAST_INSERT)

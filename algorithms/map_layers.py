@@ -8,10 +8,10 @@ from qgis.core import (
     QgsCsException,
     QgsFeatureRequest,
     QgsProcessingException,
-    QgsProcessingFeatureSource,
 )
 
 from .core.units import polygon_index_at
+from .qgis_compat import SKIP_GEOMETRY_CHECKS
 
 
 def read_features(source, value_field, work_crs, context):
@@ -23,9 +23,7 @@ def read_features(source, value_field, work_crs, context):
     if value_field:
         request.setSubsetOfAttributes([value_field], source.fields())
     wkbs, values, unusable = [], [], 0
-    for feature in source.getFeatures(
-        request, QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks
-    ):
+    for feature in source.getFeatures(request, SKIP_GEOMETRY_CHECKS):
         geometry = feature.geometry()
         if geometry is None or geometry.isNull() or geometry.isEmpty():
             unusable += 1

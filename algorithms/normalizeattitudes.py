@@ -3,7 +3,6 @@
 import numpy as np
 from qgis.core import (
     QgsFeature,
-    QgsFeatureSink,
     QgsProcessingException,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
@@ -15,7 +14,7 @@ from .base import SKIPPED, SectionwrightAlgorithm
 from .carried_fields import CarriedFields
 from .core.orientation import strike_from_dip_direction
 from .ledger import RunLedger
-from .qgis_compat import SOURCE_ANY_VECTOR
+from .qgis_compat import FAST_INSERT, SOURCE_ANY_VECTOR
 from .section_lines import crs_wkt
 
 INPUT = "INPUT"
@@ -76,7 +75,7 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
                     feature.setAttributes(
                         skipped_fields.row(rows.attributes[i], [rows.fids[i], reasons[i]])
                     )
-                    skipped.addFeature(feature, QgsFeatureSink.FastInsert)
+                    skipped.addFeature(feature, FAST_INSERT)
                 continue
             feature.setAttributes(
                 output_fields.row(
@@ -84,7 +83,7 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
                     [float(dip_direction[i]), float(rows.dip[i]), float(strike[i])],
                 )
             )
-            output.addFeature(feature, QgsFeatureSink.FastInsert)
+            output.addFeature(feature, FAST_INSERT)
             ledger.written += 1
             if i % 1000 == 0:
                 feedback.setProgress(50 + 50 * i / max(len(rows), 1))

@@ -6,7 +6,6 @@ from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
     QgsFeature,
-    QgsFeatureSink,
     QgsPoint,
     QgsProcessingException,
     QgsProcessingParameterBand,
@@ -32,7 +31,14 @@ from .core.profile import profile_samples, section_runs
 from .dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .geometry_io import to_qgis
 from .ledger import RunLedger
-from .qgis_compat import MULTI_LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES, SOURCE_POINTS
+from .qgis_compat import (
+    FAST_INSERT,
+    MULTI_LINE_STRING,
+    NUMBER_DOUBLE,
+    POINT_Z,
+    SOURCE_LINES,
+    SOURCE_POINTS,
+)
 from .section_lines import crs_wkt, read_section_parts, working_crs
 from .section_space import SECTION_CRS_WKT
 
@@ -209,9 +215,9 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             feature.setAttributes([label, ch, elev, x, y])
             batch.append(feature)
             if len(batch) == BATCH:
-                sink.addFeatures(batch, QgsFeatureSink.FastInsert)
+                sink.addFeatures(batch, FAST_INSERT)
                 batch = []
-        sink.addFeatures(batch, QgsFeatureSink.FastInsert)
+        sink.addFeatures(batch, FAST_INSERT)
 
     @staticmethod
     def _write_section(sink, label, chainage, elevation, exaggeration):
@@ -222,4 +228,4 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         feature.setAttributes(
             [label, float(chainage[-1]), float(valid.min()), float(valid.max()), exaggeration]
         )
-        sink.addFeature(feature, QgsFeatureSink.FastInsert)
+        sink.addFeature(feature, FAST_INSERT)

@@ -6,7 +6,6 @@ import numpy as np
 from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsFeature,
-    QgsFeatureSink,
     QgsLineString,
     QgsPoint,
     QgsProcessingException,
@@ -32,6 +31,7 @@ from .dem import DemSampler, bounded_gdal_cache
 from .ledger import RunLedger
 from .map_layers import read_unit_map
 from .qgis_compat import (
+    FAST_INSERT,
     LINE_STRING,
     NUMBER_DOUBLE,
     POINT_Z,
@@ -353,13 +353,13 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         feature = QgsFeature()
         feature.setAttributes(attributes)
         feature.setGeometry(QgsPoint(landing[0], landing[1], z))
-        sinks[OUTPUT][0].addFeature(feature, QgsFeatureSink.FastInsert)
+        sinks[OUTPUT][0].addFeature(feature, FAST_INSERT)
         if not np.isnan(z):
             feature.setGeometry(QgsLineString([QgsPoint(*tick[0]), QgsPoint(*tick[1])]))
-            sinks[OUTPUT_TICKS][0].addFeature(feature, QgsFeatureSink.FastInsert)
+            sinks[OUTPUT_TICKS][0].addFeature(feature, FAST_INSERT)
         if sinks[OUTPUT_CONNECTORS][0] is not None:
             feature.setGeometry(QgsLineString([QgsPoint(*source), QgsPoint(*landing)]))
-            sinks[OUTPUT_CONNECTORS][0].addFeature(feature, QgsFeatureSink.FastInsert)
+            sinks[OUTPUT_CONNECTORS][0].addFeature(feature, FAST_INSERT)
 
     @staticmethod
     def _add_skipped(sink, skipped_fields, rows, i, reason):
@@ -368,4 +368,4 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         feature = QgsFeature()
         feature.setAttributes(skipped_fields.row(rows.attributes[i], [rows.fids[i], reason]))
         feature.setGeometry(rows.geometries[i])
-        sink.addFeature(feature, QgsFeatureSink.FastInsert)
+        sink.addFeature(feature, FAST_INSERT)

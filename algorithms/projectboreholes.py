@@ -5,7 +5,6 @@ import shapely
 from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsFeature,
-    QgsFeatureSink,
     QgsProcessingException,
     QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
@@ -28,6 +27,7 @@ from .dem import DemSampler, bounded_gdal_cache
 from .geometry_io import add_features
 from .ledger import RunLedger
 from .qgis_compat import (
+    FAST_INSERT,
     LINE_STRING,
     LINE_STRING_Z,
     NO_GEOMETRY,
@@ -230,7 +230,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             if sinks[SKIPPED][0] is not None:
                 feature = QgsFeature()
                 feature.setAttributes([table, hole, fid, depth, reason])
-                sinks[SKIPPED][0].addFeature(feature, QgsFeatureSink.FastInsert)
+                sinks[SKIPPED][0].addFeature(feature, FAST_INSERT)
         ledger.read = len(holes["id"]) + len(surveys["hole"]) + len(intervals["hole"])
         ledger.written = ledger.read - len(skipped)
         feedback.pushInfo(

@@ -7,8 +7,14 @@ old spellings. Everything else imports these names from here.
 
 from qgis.core import (
     Qgis,
+    QgsFeatureRequest,
+    QgsFeatureSink,
+    QgsLayoutExporter,
+    QgsLegendStyle,
     QgsPalLayerSettings,
     QgsProcessing,
+    QgsProcessingAlgorithm,
+    QgsProcessingFeatureSource,
     QgsProcessingParameterNumber,
     QgsRenderContext,
     QgsUnitTypes,
@@ -42,6 +48,20 @@ TEXT_AS_TEXT = _scoped(
 )
 LABEL_OVER_POINT = _scoped("LabelPlacement", "OverPoint", QgsPalLayerSettings.OverPoint)
 LABEL_HORIZONTAL = _scoped("LabelPlacement", "Horizontal", QgsPalLayerSettings.Horizontal)
+FAST_INSERT = QgsFeatureSink.Flag.FastInsert
+SKIP_GEOMETRY_CHECKS = _scoped(
+    "ProcessingFeatureSourceFlag",
+    "SkipGeometryValidityChecks",
+    QgsProcessingFeatureSource.Flag.FlagSkipGeometryValidityChecks,
+)
+NO_GEOMETRY_REQUEST = _scoped("FeatureRequestFlag", "NoGeometry", QgsFeatureRequest.Flag.NoGeometry)
+NO_THREADING = _scoped(
+    "ProcessingAlgorithmFlag", "NoThreading", QgsProcessingAlgorithm.Flag.FlagNoThreading
+)
+EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
+LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)
+LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", QgsLegendStyle.Style.Subgroup)
+LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", QgsLegendStyle.Style.SymbolLabel)
 CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)

@@ -13,12 +13,11 @@ from qgis.core import (
     QgsFeatureRequest,
     QgsGeometry,
     QgsProcessingException,
-    QgsProcessingFeatureSource,
 )
 
 from .core.crs import utm_epsg
 from .core.lines import drop_repeated_vertices
-from .qgis_compat import UNIT_METERS, is_curved, unit_name
+from .qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
 
 WKT2 = getattr(
     QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED
@@ -103,9 +102,7 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
     to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
     sections = []
     # Degenerate lines are ours to report in SKIPPED, not Processing's to refuse.
-    features = source.getFeatures(
-        QgsFeatureRequest(), QgsProcessingFeatureSource.FlagSkipGeometryValidityChecks
-    )
+    features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
     for feature in features:
         if feedback.isCanceled():
             break

@@ -7,12 +7,10 @@ from pathlib import Path
 
 from qgis.core import (
     QgsFeature,
-    QgsFeatureSink,
     QgsLayoutExporter,
     QgsLayoutItemPage,
     QgsLayoutSize,
     QgsPrintLayout,
-    QgsProcessingAlgorithm,
     QgsProcessingException,
     QgsProcessingParameterBoolean,
     QgsProcessingParameterEnum,
@@ -28,7 +26,14 @@ from ..plugin import styles
 from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
 from .core.sheet_scale import end_names, padded
 from .ledger import RunLedger
-from .qgis_compat import SOURCE_ANY_VECTOR, SOURCE_LINES, TEXT_AS_TEXT
+from .qgis_compat import (
+    EXPORT_SUCCESS,
+    FAST_INSERT,
+    NO_THREADING,
+    SOURCE_ANY_VECTOR,
+    SOURCE_LINES,
+    TEXT_AS_TEXT,
+)
 from .section_lines import read_section_parts, working_crs
 from .sheet_layers import (
     collar_points,
@@ -66,7 +71,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
 
     def flags(self):
         # Print layouts are built and rendered on the main thread.
-        return super().flags() | QgsProcessingAlgorithm.FlagNoThreading
+        return super().flags() | NO_THREADING
 
     def initAlgorithm(self, config=None):
         tr = self.tr
@@ -232,7 +237,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         feature = QgsFeature()
         feature.setGeometry(part.geometry)
         feature.setAttributes([part.label, part.fid, part.reason])
-        sink.addFeature(feature, QgsFeatureSink.FastInsert)
+        sink.addFeature(feature, FAST_INSERT)
 
     @staticmethod
     def _page(layout, index, page_size):
@@ -397,7 +402,7 @@ def _around(box):
 
 
 def _check(result, exporter, target):
-    if result != QgsLayoutExporter.Success:
+    if result != EXPORT_SUCCESS:
         raise QgsProcessingException(
             f"OUTPUT: the sheet could not be written to {target} "
             f"({exporter.errorFile() or 'export error'})."

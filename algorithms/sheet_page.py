@@ -13,7 +13,6 @@ from qgis.core import (
     QgsLayoutMeasurement,
     QgsLayoutPoint,
     QgsLayoutSize,
-    QgsLegendStyle,
     QgsPalLayerSettings,
     QgsRectangle,
     QgsTextFormat,
@@ -25,7 +24,15 @@ from qgis.PyQt.QtGui import QColor, QFont
 
 from ..plugin.styles import GRID, INK
 from .core.sheet_scale import nice_step
-from .qgis_compat import LABEL_HORIZONTAL, LABEL_OVER_POINT, set_label_text, set_legend_text
+from .qgis_compat import (
+    LABEL_HORIZONTAL,
+    LABEL_OVER_POINT,
+    LEGEND_GROUP,
+    LEGEND_ITEM,
+    LEGEND_TITLE,
+    set_label_text,
+    set_legend_text,
+)
 
 CAUTION = (
     "Interpretation: to be checked by a qualified geologist under local codes and "
@@ -135,27 +142,32 @@ def _add_grid(section_map, section):
     extent = section.extent
     grid.setIntervalX(nice_step(extent.width()))
     grid.setIntervalY(nice_step(extent.height() / section.exaggeration, 6) * section.exaggeration)
-    grid.setStyle(QgsLayoutItemMapGrid.Solid)
+    grid.setStyle(QgsLayoutItemMapGrid.GridStyle.Solid)
     symbol = grid.lineSymbol()
     symbol.setColor(QColor(GRID))
     symbol.setWidth(0.12)
     grid.setAnnotationEnabled(True)
-    grid.setAnnotationFormat(QgsLayoutItemMapGrid.CustomFormat)
+    grid.setAnnotationFormat(QgsLayoutItemMapGrid.AnnotationFormat.CustomFormat)
     grid.setAnnotationExpression(grid_expression(section.exaggeration))
     grid.setAnnotationTextFormat(_text_format(7))
     for side, shown in (
-        (QgsLayoutItemMapGrid.Left, True),
-        (QgsLayoutItemMapGrid.Bottom, True),
-        (QgsLayoutItemMapGrid.Right, False),
-        (QgsLayoutItemMapGrid.Top, False),
+        (QgsLayoutItemMapGrid.BorderSide.Left, True),
+        (QgsLayoutItemMapGrid.BorderSide.Bottom, True),
+        (QgsLayoutItemMapGrid.BorderSide.Right, False),
+        (QgsLayoutItemMapGrid.BorderSide.Top, False),
     ):
         grid.setAnnotationDisplay(
-            QgsLayoutItemMapGrid.ShowAll if shown else QgsLayoutItemMapGrid.HideAll, side
+            QgsLayoutItemMapGrid.DisplayMode.ShowAll
+            if shown
+            else QgsLayoutItemMapGrid.DisplayMode.HideAll,
+            side,
         )
-        grid.setAnnotationPosition(QgsLayoutItemMapGrid.OutsideMapFrame, side)
-    grid.setAnnotationDirection(QgsLayoutItemMapGrid.Horizontal, QgsLayoutItemMapGrid.Left)
+        grid.setAnnotationPosition(QgsLayoutItemMapGrid.AnnotationPosition.OutsideMapFrame, side)
+    grid.setAnnotationDirection(
+        QgsLayoutItemMapGrid.AnnotationDirection.Horizontal, QgsLayoutItemMapGrid.BorderSide.Left
+    )
     grid.setAnnotationFrameDistance(1.2)
-    grid.setFrameStyle(QgsLayoutItemMapGrid.ExteriorTicks)
+    grid.setFrameStyle(QgsLayoutItemMapGrid.FrameStyle.ExteriorTicks)
     grid.setFrameWidth(1.2)
     section_map.grids().addGrid(grid)
     return grid
@@ -294,9 +306,9 @@ def _add_legend(layout, page, section, x, y):
     root.removeAllChildren()
     for layer in section.legend_layers:
         root.addLayer(layer)
-    set_legend_text(legend, QgsLegendStyle.Title, _text_format(9, True))
-    set_legend_text(legend, QgsLegendStyle.Subgroup, _text_format(8, True))
-    set_legend_text(legend, QgsLegendStyle.SymbolLabel, _text_format(7.5))
+    set_legend_text(legend, LEGEND_TITLE, _text_format(9, True))
+    set_legend_text(legend, LEGEND_GROUP, _text_format(8, True))
+    set_legend_text(legend, LEGEND_ITEM, _text_format(7.5))
     legend.setSymbolWidth(9)
     legend.setColumnCount(3)
     legend.setSplitLayer(True)

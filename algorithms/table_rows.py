@@ -4,6 +4,8 @@ import numpy as np
 from qgis.core import QgsFeatureRequest, QgsProcessingException
 from qgis.PyQt.QtCore import QVariant
 
+from .qgis_compat import NO_GEOMETRY_REQUEST
+
 
 def read_columns(source, columns, parameter, with_geometry=False):
     """{column: list of raw values} for the named fields (None for NULL),
@@ -17,7 +19,7 @@ def read_columns(source, columns, parameter, with_geometry=False):
                 raise QgsProcessingException(f"{key}: the {parameter} layer has no field {name!r}.")
     request = QgsFeatureRequest().setSubsetOfAttributes(list(indices.values()))
     if not with_geometry:
-        request.setFlags(QgsFeatureRequest.NoGeometry)
+        request.setFlags(NO_GEOMETRY_REQUEST)
     rows, fids, geometries = [], [], []
     for feature in source.getFeatures(request):
         fids.append(feature.id())
