@@ -7,6 +7,7 @@ colours, the section-view layers, and one print layout per section, ready
 to edit — and ``sections.pdf`` with one page per section.
 """
 
+import gc
 import os
 import sys
 from pathlib import Path
@@ -182,8 +183,12 @@ def main(demo):
     project.write()
     print(f"Project with {len(parts)} layouts: {project.fileName()}")
     print(f"Section sheets: {pdf}", flush=True)
-    # Everything is written: leave without QGIS's teardown, which crashes in
-    # some releases (3.40) when layouts and layers are destroyed at exit.
+    # Close every data source (GeoPackages checkpoint their journals), then
+    # leave without QGIS's own teardown, which crashes in some releases
+    # (3.40) when layouts and layers are destroyed at interpreter exit.
+    project.clear()
+    del view, inputs, builder, sections, contacts, units, strip, source, context
+    gc.collect()
     os._exit(0)
 
 
