@@ -19,6 +19,10 @@ from plugin_package import import_plugin  # noqa: E402
 
 import_plugin()
 
+from osgeo import gdal  # noqa: E402
+
+gdal.UseExceptions()   # the tests' own GDAL calls (newer GDAL asks to choose)
+
 
 @pytest.fixture(scope="session")
 def provider(qgis_processing):
