@@ -369,3 +369,12 @@ def test_a_vrt_mosaic_of_tiles_is_one_dem(provider, tmp_path):
     assert len(features) > 150
     for feature in features:
         assert feature["elev"] == pytest.approx(plane(feature["x"], feature["y"]), abs=1e-6)
+
+
+def test_a_striped_untiled_dem_reads_the_same(provider, tmp_path):
+    # DEMs arrive tiled or in strips (GDAL blocks of whole rows): the reader
+    # follows the raster's own blocks either way.
+    striped = plane_raster(tmp_path / "striped.tif", plane, GT, (200, 200), 32633, options=())
+    result = run_profile(line_layer([KINKED]), striped)
+    for feature in result["OUTPUT"].getFeatures():
+        assert feature["elev"] == pytest.approx(plane(feature["x"], feature["y"]), abs=1e-6)
