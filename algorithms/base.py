@@ -4,6 +4,7 @@ parameters and the SKIPPED output."""
 from qgis.core import (
     QgsFeature,
     QgsProcessingAlgorithm,
+    QgsProcessingException,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterField,
@@ -14,12 +15,14 @@ from qgis.PyQt.QtCore import QCoreApplication
 from . import fields as F
 from .carried_fields import computed_fields
 from .help import help_text
-from .qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES
+from .qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES, SOURCE_POLYGONS
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"
 SKIPPED = "SKIPPED"
 VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
+UNITS = "UNITS"
+UNIT_FIELD = "UNIT_FIELD"
 
 
 class SectionwrightAlgorithm(QgsProcessingAlgorithm):
@@ -62,6 +65,25 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
                 self.tr("Section label field (empty: feature id)"),
                 parentLayerParameterName=INPUT,
                 optional=True,
+            )
+        )
+
+    def source(self, parameters, name, context):
+        """A feature source parameter, or an error naming it."""
+        source = self.parameterAsSource(parameters, name, context)
+        if source is None:
+            raise QgsProcessingException(self.invalidSourceError(parameters, name))
+        return source
+
+    def add_unit_parameters(self):
+        self.addParameter(
+            QgsProcessingParameterFeatureSource(
+                UNITS, self.tr("Map units (polygons)"), [SOURCE_POLYGONS], optional=True
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterField(
+                UNIT_FIELD, self.tr("Unit field"), parentLayerParameterName=UNITS, optional=True
             )
         )
 

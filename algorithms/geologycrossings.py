@@ -24,6 +24,8 @@ from .base import (
     INPUT,
     LINE_ID_FIELD,
     SKIPPED,
+    UNIT_FIELD,
+    UNITS,
     VERTICAL_EXAGGERATION,
     SectionwrightAlgorithm,
     add_skipped_section,
@@ -53,15 +55,12 @@ from .qgis_compat import (
     POINT_Z,
     SOURCE_LINES,
     SOURCE_POINTS,
-    SOURCE_POLYGONS,
 )
 from .section_lines import crs_wkt, read_section_parts, working_crs
 from .section_space import SECTION_CRS_WKT
 
 DEM = "DEM"
 Z_FACTOR = "Z_FACTOR"
-UNITS = "UNITS"
-UNIT_FIELD = "UNIT_FIELD"
 CONTACTS = "CONTACTS"
 CONTACT_TYPE_FIELD = "CONTACT_TYPE_FIELD"
 TRACE_WINDOW = "TRACE_WINDOW"
@@ -103,16 +102,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 defaultValue=1.0,
             )
         )
-        self.addParameter(
-            QgsProcessingParameterFeatureSource(
-                UNITS, tr("Map units (polygons)"), [SOURCE_POLYGONS], optional=True
-            )
-        )
-        self.addParameter(
-            QgsProcessingParameterField(
-                UNIT_FIELD, tr("Unit field"), parentLayerParameterName=UNITS, optional=True
-            )
-        )
+        self.add_unit_parameters()
         self.addParameter(
             QgsProcessingParameterFeatureSource(
                 CONTACTS, tr("Contacts and faults (lines)"), [SOURCE_LINES], optional=True
@@ -147,9 +137,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.parameterAsSource(parameters, INPUT, context)
-        if lines is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, INPUT))
+        lines = self.source(parameters, INPUT, context)
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         if dem is None:
             raise QgsProcessingException("DEM: the layer given is not a raster that can be read.")

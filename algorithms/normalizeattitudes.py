@@ -39,9 +39,7 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        source = self.parameterAsSource(parameters, INPUT, context)
-        if source is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, INPUT))
+        source = self.source(parameters, INPUT, context)
         settings = AttitudeSettings(self, parameters, context)
         rows = settings.read(source, feedback, progress_share=50.0)
         dip_direction, reasons = self._grid(settings, source, rows, feedback)

@@ -108,9 +108,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        source = self.parameterAsSource(parameters, INPUT, context)
-        if source is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, INPUT))
+        source = self.source(parameters, INPUT, context)
         id_field = self.parameterAsString(parameters, LINE_ID_FIELD, context)
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         if dem is None:

@@ -13,14 +13,21 @@ from qgis.core import (
     QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
-    QgsProcessingParameterField,
     QgsProcessingParameterNumber,
     QgsProcessingParameterRasterLayer,
 )
 
 from . import fields as F
 from .attitude_input import AttitudeSettings, add_attitude_parameters, geometry_reason
-from .base import INPUT, LINE_ID_FIELD, SKIPPED, VERTICAL_EXAGGERATION, SectionwrightAlgorithm
+from .base import (
+    INPUT,
+    LINE_ID_FIELD,
+    SKIPPED,
+    UNIT_FIELD,
+    UNITS,
+    VERTICAL_EXAGGERATION,
+    SectionwrightAlgorithm,
+)
 from .carried_fields import CarriedFields
 from .core.carry import CarryOptions, carry_attitudes
 from .core.crs import transformer
@@ -37,7 +44,6 @@ from .qgis_compat import (
     POINT_Z,
     SOURCE_LINES,
     SOURCE_POINTS,
-    SOURCE_POLYGONS,
 )
 from .section_lines import crs_wkt, read_section_parts, working_crs
 from .section_space import SECTION_CRS_WKT
@@ -48,8 +54,6 @@ PROJECTION = "PROJECTION"
 PLUNGE_TREND = "PLUNGE_TREND"
 PLUNGE = "PLUNGE"
 DEM = "DEM"
-UNITS = "UNITS"
-UNIT_FIELD = "UNIT_FIELD"
 OBLIQUE_ANGLE = "OBLIQUE_ANGLE"
 DIP_UNCERTAINTY = "DIP_UNCERTAINTY"
 STRIKE_UNCERTAINTY = "STRIKE_UNCERTAINTY"
@@ -122,16 +126,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 DEM, tr("DEM (elevation of points without Z, and of the ground)"), optional=True
             )
         )
-        self.addParameter(
-            QgsProcessingParameterFeatureSource(
-                UNITS, tr("Map units (polygons)"), [SOURCE_POLYGONS], optional=True
-            )
-        )
-        self.addParameter(
-            QgsProcessingParameterField(
-                UNIT_FIELD, tr("Unit field"), parentLayerParameterName=UNITS, optional=True
-            )
-        )
+        self.add_unit_parameters()
         for name, label, default, top in (
             (OBLIQUE_ANGLE, "Flag lines closer to strike than (degrees)", 20.0, 90.0),
             (DIP_UNCERTAINTY, "Dip uncertainty, one standard deviation (degrees)", 2.0, 45.0),
@@ -174,12 +169,8 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.parameterAsSource(parameters, INPUT, context)
-        if lines is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, INPUT))
-        points = self.parameterAsSource(parameters, ATTITUDES, context)
-        if points is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, ATTITUDES))
+        lines = self.source(parameters, INPUT, context)
+        points = self.source(parameters, ATTITUDES, context)
         if not points.sourceCrs().isValid():
             raise QgsProcessingException(
                 "ATTITUDES: the attitude layer has no coordinate reference system; set one."

@@ -169,12 +169,8 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             )
 
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.parameterAsSource(parameters, INPUT, context)
-        collars = self.parameterAsSource(parameters, COLLARS, context)
-        if lines is None or collars is None:
-            raise QgsProcessingException(
-                self.invalidSourceError(parameters, INPUT if lines is None else COLLARS)
-            )
+        lines = self.source(parameters, INPUT, context)
+        collars = self.source(parameters, COLLARS, context)
         for name in (HOLE_ID_FIELD, DEPTH_FIELD):
             if not self.parameterAsString(parameters, name, context):
                 raise QgsProcessingException(f"{name}: choose the collar layer's field.")
@@ -357,19 +353,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         inclination, _ = as_numbers(surveys["inclination"], "inclination")
         collar = surveys["collar"]
         reasons = check_surveys(collar, depth, azimuth, inclination, holes["depth"])
-        not_drawn = (reasons == "") & (collar >= 0)
-        not_drawn[not_drawn] = holes["reason"][collar[not_drawn]] != ""
-        reasons[not_drawn] = "collar skipped"
-        for i in np.flatnonzero(reasons != ""):
-            skipped.append(
-                (
-                    "surveys",
-                    surveys["hole"][i],
-                    surveys["fid"][i],
-                    _depth(depth[i]),
-                    str(reasons[i]),
-                )
-            )
+        _refuse("surveys", surveys, depth, reasons, holes, skipped)
         good = reasons == ""
         surveys["used"] = good
         grid_azimuth = to_grid(
@@ -389,19 +373,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         bottom, _ = as_numbers(intervals["to"], "to")
         collar = intervals["collar"]
         reasons = check_intervals(collar, top, bottom, holes["depth"])
-        not_drawn = (reasons == "") & (collar >= 0)
-        not_drawn[not_drawn] = holes["reason"][collar[not_drawn]] != ""
-        reasons[not_drawn] = "collar skipped"
-        for i in np.flatnonzero(reasons != ""):
-            skipped.append(
-                (
-                    "intervals",
-                    intervals["hole"][i],
-                    intervals["fid"][i],
-                    _depth(top[i]),
-                    str(reasons[i]),
-                )
-            )
+        _refuse("intervals", intervals, top, reasons, holes, skipped)
         good = np.flatnonzero(reasons == "")
         codes = [intervals["code"][i] for i in good]
         return {
@@ -561,6 +533,17 @@ def _point(geometry):
         return (np.nan, np.nan, np.nan)
     point = next(geometry.constParts())
     return (point.x(), point.y(), point.z() if point.is3D() else np.nan)
+
+
+def _refuse(table, rows, depth, reasons, holes, skipped):
+    """Rows of a collar that is not drawn are refused too; every refused row
+    joins ``skipped``. ``reasons`` is updated in place."""
+    collar = rows["collar"]
+    not_drawn = (reasons == "") & (collar >= 0)
+    not_drawn[not_drawn] = holes["reason"][collar[not_drawn]] != ""
+    reasons[not_drawn] = "collar skipped"
+    for i in np.flatnonzero(reasons != ""):
+        skipped.append((table, rows["hole"][i], rows["fid"][i], _depth(depth[i]), str(reasons[i])))
 
 
 def _depth(value):

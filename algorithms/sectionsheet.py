@@ -128,9 +128,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.parameterAsSource(parameters, INPUT, context)
-        if lines is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, INPUT))
+        lines = self.source(parameters, INPUT, context)
         profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
         if profile is None or profile.fields().lookupField("section") < 0:
             raise QgsProcessingException(

@@ -21,7 +21,7 @@ import_plugin()
 
 from osgeo import gdal  # noqa: E402
 
-gdal.UseExceptions()   # the tests' own GDAL calls (newer GDAL asks to choose)
+gdal.UseExceptions()  # the tests' own GDAL calls (newer GDAL asks to choose)
 
 
 @pytest.fixture(scope="session")
