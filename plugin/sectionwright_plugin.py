@@ -44,6 +44,12 @@ class SectionwrightPlugin:
         advice = install_advice(missing)
         QgsMessageLog.logMessage(advice, LOG_TAG, CRITICAL)
         if self.iface is not None and hasattr(self.iface, "messageBar"):
+            # The bar shows one line; "Show more" opens the whole advice, with
+            # the command to copy.
             self.iface.messageBar().pushMessage(
-                LOG_TAG, advice.splitlines()[0] + " See the log for the command.", CRITICAL, 0
+                LOG_TAG,
+                advice.splitlines()[0] + " Show more for the command to run.",
+                advice,
+                CRITICAL,
+                0,
             )
