@@ -9,9 +9,9 @@ import sys
 from pathlib import Path
 
 import pytest
+from installed_plugin import load
 
 from sectionwright.plugin import dependencies
-from installed_plugin import load
 
 
 def qgis_python():
