@@ -57,7 +57,6 @@ from .outputs import fields as F
 from .outputs.carried_fields import computed_fields
 from .outputs.geometry_io import to_qgis
 from .outputs.section_space import SECTION_CRS_WKT
-from .outputs.styles import UnitStripStyler
 
 DEM = "DEM"
 Z_FACTOR = "Z_FACTOR"
@@ -220,7 +219,6 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 f"{len(by_section.get(index, []))} crossing(s)."
             )
         ledger.close()
-        self._style(context, sinks[OUTPUT_INTERVALS][1], units)
         return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
 
     def _sinks(self, parameters, context, lines):
@@ -421,11 +419,6 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                     ]
                 )
                 sink.addFeature(feature, FAST_INSERT)
-
-    def _style(self, context, layer_id, units):
-        if context.willLoadLayerOnCompletion(layer_id):
-            self.styler = UnitStripStyler(units, F.UNIT)
-            context.layerToLoadOnCompletionDetails(layer_id).setPostProcessor(self.styler)
 
 
 def _position(coords, chainage):

@@ -30,9 +30,19 @@ def _level(level):
 
 
 def _record(source, tag, message, level):
-    state["messages"].append(
-        {"source": source, "tag": tag, "level": _level(level), "message": str(message)}
-    )
+    entry = {
+        "source": source,
+        "tag": tag,
+        "level": _level(level),
+        "message": str(message),
+        "seconds": round(time.time() - state["started"], 1),
+    }
+    if entry["level"] >= 2:
+        import traceback
+
+        # Where Python code raised it, the Python stack says who.
+        entry["python_stack"] = traceback.format_stack()[:-2]
+    state["messages"].append(entry)
 
 
 def _install():
@@ -48,21 +58,17 @@ def _install():
     return True
 
 
-def _watch_message_bar(iface):
-    bar = iface.messageBar()
-    seen = set()
-
-    def added(_widget):
-        # The signal carries a plain QWidget: the bar's own list has the items.
-        for item in bar.items():
-            if id(item) not in seen:
-                seen.add(id(item))
-                text = " ".join(filter(None, [item.title(), item.text()]))
-                _record("bar", "message bar", text, item.level())
-
-    bar.widgetAdded.connect(added)
-    added(None)
-    state["bar"] = True
+def _note_message_bar(iface):
+    """The message bar's current item, once. QGIS also copies every bar
+    message into the log (tag "Messages"); this catches the bar itself."""
+    item = iface.messageBar().currentItem()
+    if item is None:
+        return
+    text = " ".join(filter(None, [item.title(), item.text()]))
+    key = (text, _level(item.level()))
+    if key not in state.setdefault("bar_seen", set()):
+        state["bar_seen"].add(key)
+        _record("bar", "message bar", text, item.level())
 
 
 def _screenshot(name):
@@ -136,6 +142,7 @@ def _viewer_and_dialog(iface):
 
 
 def _finish(iface):
+    _note_message_bar(iface)
     project = QgsProject.instance()
     canvas = iface.mapCanvas()
     extent = canvas.extent()
@@ -175,9 +182,9 @@ def _poll():
     if iface is None:
         return QTimer.singleShot(250, _poll)
     if not state["bar"]:
-        _watch_message_bar(iface)
-        window = iface.mainWindow()
-        window.setGeometry(0, 0, 1600, 1000)
+        state["bar"] = True
+        iface.mainWindow().setGeometry(0, 0, 1600, 1000)
+    _note_message_bar(iface)
     project_open = bool(QgsProject.instance().fileName())
     drawing = iface.mapCanvas().isDrawing()
     if not project_open or drawing:

@@ -114,6 +114,7 @@ def run(project, work, screenshots=None, timeout=240):
         if server is not None:
             server.terminate()
             server.wait(timeout=10)
+    (work / "qgis-output.log").write_text(done.stdout + done.stderr, encoding="utf-8")
     if not report.exists():
         raise RuntimeError(
             f"QGIS left without a report ({done.returncode}):\n"

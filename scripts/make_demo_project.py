@@ -27,7 +27,11 @@ def section_view_crossings(gpkg):
     ve = {f.GetField("section"): f.GetField("ve") for f in data.GetLayerByName("profile_section")}
     if data.GetLayerByName("crossings_view") is not None:
         data.DeleteLayer("crossings_view")
-    target = data.CreateLayer("crossings_view", None, ogr.wkbPoint)
+    # The section view's own CRS, as the algorithms write it: a layer
+    # without one reads back as an unnamed custom CRS that nothing transforms to.
+    target = data.CreateLayer(
+        "crossings_view", data.GetLayerByName("profile_section").GetSpatialRef(), ogr.wkbPoint
+    )
     for name in ("section", "kind", "unit_prev", "unit_next"):
         target.CreateField(ogr.FieldDefn(name, ogr.OFTString))
     for name in ("chainage", "elev"):
@@ -58,20 +62,34 @@ def main(demo):
         QgsProcessingFeedback,
         QgsProject,
         QgsRasterLayer,
+        QgsReferencedRectangle,
         QgsVectorLayer,
     )
 
     from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
     from sectionwright.algorithms.outputs import styles
+    from sectionwright.algorithms.outputs.output_styles import SECTION_VIEW_GROUP, apply_style
     from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
     from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
     from sectionwright.algorithms.sheet.page import add_page
 
     world, results = demo / "tarrowgill.gpkg", demo / "sections.gpkg"
     section_view_crossings(results)
+    processing.run(
+        "sectionwright:normalizeattitudes",
+        {
+            "INPUT": f"{world}|layername=attitudes",
+            "CONVENTION": 3,
+            "TEXT_FIELD": "attitude",
+            "OUTPUT": f"ogr:dbname='{results}' table=\"attitudes_clean\" (geom)",
+        },
+    )
     project = QgsProject()
     project.setFileName(str(demo / "tarrowgill.qgz"))
     project.setCrs(QgsCoordinateReferenceSystem("EPSG:32633"))
+    # Planar measures: an ellipsoid would make QGIS look for a transform from
+    # the section view to geographic coordinates, and there is none.
+    project.setEllipsoid("NONE")
 
     def add(path, layer_name, name, group, provider_name="ogr", renderer=None):
         layer = (
@@ -87,7 +105,12 @@ def main(demo):
 
     root = project.layerTreeRoot()
     map_group = root.addGroup("Tarrowgill map")
-    view_group = root.addGroup("Section views (x = chainage, y = elevation × 2)")
+    results_group = root.addGroup("Results on the map")
+    data_group = root.addGroup("Field and drilling data")
+    # Section-view layers are drawn by the section viewer, not by the map
+    # canvas (whose CRS is the map's): their group is left unticked.
+    view_group = root.addGroup(SECTION_VIEW_GROUP)
+    view_group.setItemVisibilityChecked(False)
     sections = add(
         world, "sections", "Section lines", map_group, renderer=styles.section_line_renderer()
     )
@@ -105,23 +128,41 @@ def main(demo):
         )
     )
     add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
+
+    # Every demo input, so that each step can be rerun from its dialog.
+    attitudes = add(world, "attitudes", "Attitudes (field notebook)", data_group)
+    attitudes.setRenderer(styles.profile_point_renderer())
+    add(world, "collars", "Collars", data_group, renderer=styles.collar_renderer())
+    add(world, "surveys", "Downhole surveys", data_group)
+    add(world, "intervals", "Logged intervals", data_group)
+
+    def add_result(layer_name, name, group, algorithm_id, output_name):
+        layer = add(results, layer_name, name, group)
+        apply_style(layer, algorithm_id, output_name)
+        return layer
+
+    for layer_name, name, algorithm_id, output_name in (
+        ("attitudes_clean", "Attitudes (strike and dip)", "normalizeattitudes", "OUTPUT"),
+        ("attitudes", "Attitudes carried to the sections", "projectattitudes", "OUTPUT"),
+        ("attitude_connectors", "Carried from … to", "projectattitudes", "OUTPUT_CONNECTORS"),
+        ("geology_crossings", "Geology crossings", "geologycrossings", "OUTPUT"),
+        ("borehole_traces", "Borehole traces", "projectboreholes", "OUTPUT_TRACES"),
+    ):
+        add_result(layer_name, name, results_group, algorithm_id, output_name)
+
     engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
     view = {}
-    for layer_name, name, renderer in (
-        ("profile_section", "Ground surface", styles.profile_renderer()),
-        ("geology_strip", "Geology strip", None),
-        ("attitude_ticks", "Dip ticks", styles.tick_renderer()),
-        ("crossings_view", "Contacts and boundaries", styles.crossing_renderer()),
-        ("boreholes", "Boreholes", styles.hole_renderer()),
+    for layer_name, name, algorithm_id, output_name in (
+        ("attitude_ticks", "Dip ticks", "projectattitudes", "OUTPUT_TICKS"),
+        ("crossings_view", "Contacts and boundaries", "geologycrossings", "OUTPUT"),
+        ("boreholes", "Boreholes", "projectboreholes", "OUTPUT"),
+        ("borehole_intervals", "Borehole intervals", "projectboreholes", "OUTPUT_INTERVALS"),
+        ("profile_section", "Ground surface", "profile", "OUTPUT_SECTION"),
+        ("geology_strip", "Geology strip", "geologycrossings", "OUTPUT_INTERVALS"),
     ):
-        view[layer_name] = add(results, layer_name, name, view_group, renderer=renderer)
+        view[layer_name] = add_result(layer_name, name, view_group, algorithm_id, output_name)
         view[layer_name].setCrs(engineering)
     strip = view["geology_strip"]
-    strip.setRenderer(
-        styles.unit_strip_renderer(
-            [str(v) for v in strip.uniqueValues(strip.fields().lookupField("unit"))], "unit"
-        )
-    )
     inputs = {
         "INTERVALS": strip,
         "TICKS": view["attitude_ticks"],
@@ -180,6 +221,10 @@ def main(demo):
         layout.pageCollection().page(0).setPageSize("A3", 1)  # landscape
         add_page(layout, 0, page_size, section)
         project.layoutManager().addLayout(layout)
+    # Opened, the project shows the map around the section lines.
+    around = sections.extent()
+    around.grow(0.08 * max(around.width(), around.height()))
+    project.viewSettings().setDefaultViewExtent(QgsReferencedRectangle(around, sections.crs()))
     project.write()
     print(f"Project with {len(parts)} layouts: {project.fileName()}")
     print(f"Section sheets: {pdf}", flush=True)

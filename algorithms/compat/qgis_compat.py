@@ -47,6 +47,7 @@ TEXT_AS_TEXT = _scoped(
     "TextRenderFormat", "AlwaysText", getattr(QgsRenderContext, "TextFormatAlwaysText", 1)
 )
 LABEL_OVER_POINT = _scoped("LabelPlacement", "OverPoint", QgsPalLayerSettings.OverPoint)
+LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", QgsPalLayerSettings.AroundPoint)
 LABEL_HORIZONTAL = _scoped("LabelPlacement", "Horizontal", QgsPalLayerSettings.Horizontal)
 FAST_INSERT = QgsFeatureSink.Flag.FastInsert
 SKIP_GEOMETRY_CHECKS = _scoped(
@@ -63,6 +64,7 @@ LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)
 LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", QgsLegendStyle.Style.Subgroup)
 LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", QgsLegendStyle.Style.SymbolLabel)
 CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
+INFO = _scoped("MessageLevel", "Info", Qgis.Info)
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
 
@@ -103,3 +105,15 @@ def set_legend_text(legend, style, text_format):
         current.setTextFormat(text_format)
     else:
         legend.setStyleFont(style, text_format.font())
+
+
+_GEOMETRY_KINDS = {
+    _scoped("GeometryType", "Point", QgsWkbTypes.PointGeometry): "point",
+    _scoped("GeometryType", "Line", QgsWkbTypes.LineGeometry): "line",
+    _scoped("GeometryType", "Polygon", QgsWkbTypes.PolygonGeometry): "polygon",
+}
+
+
+def geometry_kind(layer):
+    """ "point", "line", "polygon" or "none" (a table) for a vector layer."""
+    return _GEOMETRY_KINDS.get(layer.geometryType(), "none")

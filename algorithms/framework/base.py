@@ -15,6 +15,7 @@ from qgis.PyQt.QtCore import QCoreApplication
 from ..compat.qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES, SOURCE_POLYGONS
 from ..outputs import fields as F
 from ..outputs.carried_fields import computed_fields
+from ..outputs.output_styles import StyleOnLoad, geopackage_of, save_default_style, style_for
 from .help import help_text
 
 INPUT = "INPUT"
@@ -54,6 +55,26 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
 
     def shortHelpString(self):
         return self.tr(help_text(self.ALGORITHM_ID))
+
+    def parameterAsSink(self, parameters, name, context, *args, **kwargs):  # noqa: N802
+        """As QGIS's, and remembers where each output went, for its style."""
+        sink, destination = super().parameterAsSink(parameters, name, context, *args, **kwargs)
+        if sink is not None:
+            self.__dict__.setdefault("destinations", {})[name] = destination
+        return sink, destination
+
+    def postProcessAlgorithm(self, context, feedback):  # noqa: N802 (QGIS API)
+        """Styles the outputs (algorithms/outputs/output_styles.py): on load
+        into the project, and inside every GeoPackage written."""
+        self.stylers = []  # Processing keeps only a pointer to them
+        for details in context.layersToLoadOnCompletion().values():
+            if style_for(self.name(), details.outputName) is not None:
+                self.stylers.append(StyleOnLoad(self.name(), details.outputName))
+                details.setPostProcessor(self.stylers[-1])
+        for name, destination in self.__dict__.get("destinations", {}).items():
+            if geopackage_of(destination) and style_for(self.name(), name) is not None:
+                save_default_style(destination, self.name(), name)
+        return {}
 
     def add_section_line_parameters(self):
         self.addParameter(
