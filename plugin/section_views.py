@@ -2,7 +2,14 @@
 sections they hold, each section's exaggeration, one section's layers
 filtered out of them, and the layers a sheet of it needs."""
 
-from qgis.core import QgsExpression, QgsFeatureRequest, QgsProject, QgsRectangle, QgsVectorLayer
+from qgis.core import (
+    QgsExpression,
+    QgsFeatureRequest,
+    QgsMemoryProviderUtils,
+    QgsProject,
+    QgsRectangle,
+    QgsVectorLayer,
+)
 
 from ..algorithms.compat.qgis_compat import geometry_kind
 from ..algorithms.inputs.section_lines import obvious_label_field
@@ -66,14 +73,30 @@ def exaggeration(layers, label):
 
 
 def one_section(layers, label):
-    """Clones of ``layers`` showing only section ``label``, each with its
-    source's style."""
-    clones = []
-    for layer in layers:
+    """Layers showing only section ``label`` of ``layers``, each with its
+    source's style: filtered clones, or for temporary (memory) layers a copy
+    of that section's features."""
+    return [_section_of(layer, label) for layer in layers]
+
+
+def _section_of(layer, label):
+    if layer.providerType() != "memory":
         clone = layer.clone()
         clone.setSubsetString(section_expression(label))
-        clones.append(clone)
-    return clones
+        return clone
+    # A memory layer's clone is rebuilt from its URI, whose CRS QGIS then
+    # tries to transform; a fresh layer in the section view's CRS is not.
+    copy = QgsMemoryProviderUtils.createMemoryLayer(
+        layer.name(), layer.fields(), layer.wkbType(), layer.crs()
+    )
+    request = QgsFeatureRequest().setFilterExpression(section_expression(label))
+    copy.dataProvider().addFeatures(list(layer.getFeatures(request)))
+    copy.updateExtents()
+    copy.setRenderer(layer.renderer().clone())
+    if layer.labeling() is not None:
+        copy.setLabeling(layer.labeling().clone())
+        copy.setLabelsEnabled(layer.labelsEnabled())
+    return copy
 
 
 def extent_of(layers, margin=0.06):

@@ -66,11 +66,11 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     def postProcessAlgorithm(self, context, feedback):  # noqa: N802 (QGIS API)
         """Styles the outputs (algorithms/outputs/output_styles.py): on load
         into the project, and inside every GeoPackage written."""
-        self.stylers = []  # Processing keeps only a pointer to them
-        for details in context.layersToLoadOnCompletion().values():
+        for layer_id in context.layersToLoadOnCompletion():
+            # The details by reference: layersToLoadOnCompletion() is a copy.
+            details = context.layerToLoadOnCompletionDetails(layer_id)
             if style_for(self.name(), details.outputName) is not None:
-                self.stylers.append(StyleOnLoad(self.name(), details.outputName))
-                details.setPostProcessor(self.stylers[-1])
+                details.setPostProcessor(StyleOnLoad.kept(self.name(), details.outputName))
         for name, destination in self.__dict__.get("destinations", {}).items():
             if geopackage_of(destination) and style_for(self.name(), name) is not None:
                 save_default_style(destination, self.name(), name)

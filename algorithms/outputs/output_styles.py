@@ -117,10 +117,21 @@ def into_section_view_group(layer, project):
 class StyleOnLoad(QgsProcessingLayerPostProcessorInterface):
     """Styles an output as Processing loads it into the project."""
 
+    # Processing holds post-processors by pointer, and the algorithm copy
+    # that made them is gone before the layers load: one per output, kept.
+    _kept = {}
+
     def __init__(self, algorithm_id, output_name):
         super().__init__()
         self.algorithm_id = algorithm_id
         self.output_name = output_name
+
+    @classmethod
+    def kept(cls, algorithm_id, output_name):
+        key = (algorithm_id, output_name)
+        if key not in cls._kept:
+            cls._kept[key] = cls(algorithm_id, output_name)
+        return cls._kept[key]
 
     def postProcessLayer(self, layer, context, feedback):  # noqa: N802 (QGIS API)
         apply_style(layer, self.algorithm_id, self.output_name)
