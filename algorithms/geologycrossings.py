@@ -40,7 +40,6 @@ from .core.profile import profile_samples, section_runs
 from .core.trace_fit import plane_fits, trace_windows
 from .framework.base import (
     INPUT,
-    LINE_ID_FIELD,
     SKIPPED,
     UNIT_FIELD,
     UNITS,
@@ -93,7 +92,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         tr = self.tr
         self.add_section_line_parameters()
         self.addParameter(QgsProcessingParameterRasterLayer(DEM, tr("DEM")))
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 Z_FACTOR,
                 tr("Z factor (DEM values × factor = metres)"),
@@ -115,10 +114,10 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 optional=True,
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterDistance(
                 TRACE_WINDOW,
-                tr("Contact attitude from its trace within (0: off)"),
+                tr("Contact attitude from its trace within (lines' CRS units; 0 = off)"),
                 defaultValue=0.0,
                 parentParameterName=INPUT,
                 minValue=0.0,
@@ -145,7 +144,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         work_crs = working_crs(lines, context, feedback)
         parts = read_section_parts(
             lines,
-            self.parameterAsString(parameters, LINE_ID_FIELD, context),
+            self.label_field(parameters, context, lines),
             work_crs,
             context,
             feedback,

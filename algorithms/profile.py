@@ -27,7 +27,6 @@ from .core.crs import transformer
 from .core.profile import profile_samples, section_runs
 from .framework.base import (
     INPUT,
-    LINE_ID_FIELD,
     SKIPPED,
     VERTICAL_EXAGGERATION,
     SectionwrightAlgorithm,
@@ -68,7 +67,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         self.add_section_line_parameters()
         self.addParameter(QgsProcessingParameterRasterLayer(DEM, self.tr("DEM")))
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterBand(
                 DEM_BAND,
                 self.tr("DEM band"),
@@ -77,7 +76,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                 optional=True,
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 Z_FACTOR,
                 self.tr("Z factor (DEM values × factor = metres)"),
@@ -88,7 +87,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         self.addParameter(
             QgsProcessingParameterDistance(
                 STEP,
-                self.tr("Sampling step (0: the DEM's cell size)"),
+                self.tr("Sampling step (lines' CRS units; 0 = the DEM's cell size)"),
                 defaultValue=0.0,
                 parentParameterName=INPUT,
                 minValue=0.0,
@@ -109,7 +108,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
 
     def processAlgorithm(self, parameters, context, feedback):
         source = self.source(parameters, INPUT, context)
-        id_field = self.parameterAsString(parameters, LINE_ID_FIELD, context)
+        id_field = self.label_field(parameters, context, source)
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         if dem is None:
             raise QgsProcessingException(

@@ -32,7 +32,6 @@ from .core.projection import SectionNetwork
 from .core.ticks import tick_segments
 from .framework.base import (
     INPUT,
-    LINE_ID_FIELD,
     SKIPPED,
     UNIT_FIELD,
     UNITS,
@@ -90,7 +89,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         self.addParameter(
             QgsProcessingParameterDistance(
                 MAX_DISTANCE,
-                tr("Maximum distance from the section"),
+                tr("Maximum distance from the section (lines' CRS units)"),
                 defaultValue=250.0,
                 parentParameterName=INPUT,
                 minValue=0.0,
@@ -101,20 +100,20 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 PROJECTION, tr("Projection"), options=[tr(p) for p in PROJECTIONS], defaultValue=0
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 PLUNGE_TREND,
-                tr("Plunge trend (degrees)"),
+                tr("Plunge trend (degrees; only for projection along a plunge)"),
                 NUMBER_DOUBLE,
                 defaultValue=0.0,
                 minValue=0.0,
                 maxValue=360.0,
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 PLUNGE,
-                tr("Plunge (degrees)"),
+                tr("Plunge (degrees below horizontal; only for projection along a plunge)"),
                 NUMBER_DOUBLE,
                 defaultValue=0.0,
                 minValue=0.0,
@@ -132,16 +131,16 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             (DIP_UNCERTAINTY, "Dip uncertainty, one standard deviation (degrees)", 2.0, 45.0),
             (STRIKE_UNCERTAINTY, "Strike uncertainty, one standard deviation (degrees)", 5.0, 90.0),
         ):
-            self.addParameter(
+            self.add_advanced(
                 QgsProcessingParameterNumber(
                     name, tr(label), NUMBER_DOUBLE, defaultValue=default, minValue=0.0, maxValue=top
                 )
             )
         self.add_exaggeration_parameter()
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 TICK_LENGTH,
-                tr("Tick length in the section view (0: automatic)"),
+                tr("Tick length (section-view metres, 0 = automatic)"),
                 NUMBER_DOUBLE,
                 defaultValue=0.0,
                 minValue=0.0,
@@ -173,7 +172,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         points = self.source(parameters, ATTITUDES, context)
         if not points.sourceCrs().isValid():
             raise QgsProcessingException(
-                "ATTITUDES: the attitude layer has no coordinate reference system; set one."
+                "Attitudes: the attitude layer has no coordinate reference system; set one."
             )
         settings = AttitudeSettings(self, parameters, context)
         options = self._options(parameters, context)
@@ -245,16 +244,15 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             strike_sd=value(STRIKE_UNCERTAINTY),
         )
 
-    @staticmethod
-    def _usable_parts(lines, parameters, work_crs, context, feedback):
-        id_field = parameters.get(LINE_ID_FIELD) or ""
+    def _usable_parts(self, lines, parameters, work_crs, context, feedback):
+        id_field = self.label_field(parameters, context, lines)
         parts = read_section_parts(lines, id_field, work_crs, context, feedback)
         for part in parts:
             if part.coords is None:
                 feedback.pushInfo(f"Section line {part.label} ignored: {part.reason}.")
         usable = [p for p in parts if p.coords is not None]
         if not usable:
-            raise QgsProcessingException("INPUT: none of the section lines can be used.")
+            raise QgsProcessingException("Section lines: none of the section lines can be used.")
         return usable
 
     def _write(

@@ -30,7 +30,6 @@ from .core.north import GRID, meridian_convergence, to_grid
 from .core.projection import SectionNetwork, nearest_points
 from .framework.base import (
     INPUT,
-    LINE_ID_FIELD,
     SKIPPED,
     VERTICAL_EXAGGERATION,
     SectionwrightAlgorithm,
@@ -118,9 +117,9 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             "Downhole surveys (table)",
             (
                 (SURVEY_HOLE_FIELD, "Survey hole id field"),
-                (SURVEY_DEPTH_FIELD, "Survey depth field"),
-                (SURVEY_AZIMUTH_FIELD, "Survey azimuth field"),
-                (SURVEY_INCLINATION_FIELD, "Survey inclination field"),
+                (SURVEY_DEPTH_FIELD, "Survey depth field (metres along the hole)"),
+                (SURVEY_AZIMUTH_FIELD, "Survey azimuth field (degrees)"),
+                (SURVEY_INCLINATION_FIELD, "Survey inclination field (degrees below horizontal)"),
             ),
         )
         self._add_table(
@@ -128,8 +127,8 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             "Intervals: lithology, unit … (table)",
             (
                 (INTERVAL_HOLE_FIELD, "Interval hole id field"),
-                (INTERVAL_FROM_FIELD, "From field"),
-                (INTERVAL_TO_FIELD, "To field"),
+                (INTERVAL_FROM_FIELD, "From field (metres along the hole)"),
+                (INTERVAL_TO_FIELD, "To field (metres along the hole)"),
                 (INTERVAL_CODE_FIELD, "Code field"),
             ),
         )
@@ -142,7 +141,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         self.addParameter(
             QgsProcessingParameterDistance(
                 MAX_DISTANCE,
-                tr("Maximum distance of a collar from the section"),
+                tr("Maximum distance of a collar from the section (lines' CRS units)"),
                 defaultValue=250.0,
                 parentParameterName=INPUT,
                 minValue=0.0,
@@ -179,14 +178,16 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         collars = self.source(parameters, COLLARS, context)
         for name in (HOLE_ID_FIELD, DEPTH_FIELD):
             if not self.parameterAsString(parameters, name, context):
-                raise QgsProcessingException(f"{name}: choose the collar layer's field.")
+                raise QgsProcessingException(
+                    f"{self.label_of(name)}: choose the collar layer's field."
+                )
         work_crs = working_crs(lines, context, feedback)
         work_wkt = crs_wkt(work_crs)
         parts = [
             p
             for p in read_section_parts(
                 lines,
-                self.parameterAsString(parameters, LINE_ID_FIELD, context),
+                self.label_field(parameters, context, lines),
                 work_crs,
                 context,
                 feedback,
@@ -194,7 +195,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             if p.coords is not None
         ]
         if not parts:
-            raise QgsProcessingException("INPUT: none of the section lines can be used.")
+            raise QgsProcessingException("Section lines: none of the section lines can be used.")
         max_distance = self.parameterAsDouble(parameters, MAX_DISTANCE, context)
         network = SectionNetwork([p.coords for p in parts], 2 * max(max_distance, 1e-9))
         ledger = RunLedger(feedback)
@@ -343,7 +344,9 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         names = self._fields(parameters, context, mapping)
         missing = [p for p, key in mapping.items() if not names[key] and key != "code"]
         if missing:
-            raise QgsProcessingException(f"{missing[0]}: choose the {name.lower()} table's field.")
+            raise QgsProcessingException(
+                f"{self.label_of(missing[0])}: choose the {name.lower()} table's field."
+            )
         values, fids, _ = read_columns(source, names, name.lower())
         values["hole"] = labels(values["hole"])
         values["fid"] = fids

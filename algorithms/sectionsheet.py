@@ -31,7 +31,7 @@ from .compat.qgis_compat import (
     TEXT_AS_TEXT,
 )
 from .core.sheet_scale import end_names, padded
-from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
+from .framework.base import INPUT, SKIPPED, SectionwrightAlgorithm, skipped_fields
 from .framework.ledger import RunLedger
 from .inputs.section_lines import read_section_parts, working_crs
 from .outputs import styles
@@ -132,16 +132,16 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
         if profile is None or profile.fields().lookupField("section") < 0:
             raise QgsProcessingException(
-                "PROFILE: give the section-view profile made by Topographic profile (it needs "
+                "Profile: give the section-view profile made by Topographic profile (it needs "
                 "a 'section' field)."
             )
         output = self.parameterAsFileOutput(parameters, OUTPUT, context)
         suffix = Path(output).suffix.lower()
         if suffix not in (".pdf", ".png", ".svg"):
-            raise QgsProcessingException("OUTPUT: the file must end in .pdf, .png or .svg.")
+            raise QgsProcessingException("Section sheets: the file must end in .pdf, .png or .svg.")
         folder = Path(output).parent
         if not folder.is_dir() or not os.access(folder, os.W_OK):
-            raise QgsProcessingException(f"OUTPUT: cannot write into {folder}.")
+            raise QgsProcessingException(f"Section sheets: cannot write into {folder}.")
         inputs = {
             name: self.parameterAsVectorLayer(parameters, name, context)
             for name in (INTERVALS, TICKS, CROSSINGS, BOREHOLES)
@@ -155,7 +155,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         work_crs = working_crs(lines, context, feedback)
         parts = read_section_parts(
             lines,
-            self.parameterAsString(parameters, LINE_ID_FIELD, context),
+            self.label_field(parameters, context, lines),
             work_crs,
             context,
             feedback,
@@ -402,7 +402,7 @@ def _around(box):
 def _check(result, exporter, target):
     if result != EXPORT_SUCCESS:
         raise QgsProcessingException(
-            f"OUTPUT: the sheet could not be written to {target} "
+            f"Section sheets: the sheet could not be written to {target} "
             f"({exporter.errorFile() or 'export error'})."
         )
 

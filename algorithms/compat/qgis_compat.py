@@ -15,6 +15,7 @@ from qgis.core import (
     QgsProcessing,
     QgsProcessingAlgorithm,
     QgsProcessingFeatureSource,
+    QgsProcessingParameterDefinition,
     QgsProcessingParameterNumber,
     QgsRenderContext,
     QgsUnitTypes,
@@ -39,6 +40,9 @@ SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.Typ
 SOURCE_POLYGONS = _scoped("ProcessingSourceType", "VectorPolygon", QgsProcessing.TypeVectorPolygon)
 SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", QgsProcessing.TypeVector)
 
+FLAG_ADVANCED = _scoped(
+    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.FlagAdvanced
+)
 NUMBER_DOUBLE = _scoped(
     "ProcessingNumberParameterType", "Double", QgsProcessingParameterNumber.Double
 )

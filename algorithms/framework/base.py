@@ -12,7 +12,14 @@ from qgis.core import (
 )
 from qgis.PyQt.QtCore import QCoreApplication
 
-from ..compat.qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES, SOURCE_POLYGONS
+from ..compat.qgis_compat import (
+    FAST_INSERT,
+    FLAG_ADVANCED,
+    NUMBER_DOUBLE,
+    SOURCE_LINES,
+    SOURCE_POLYGONS,
+)
+from ..inputs.section_lines import OBVIOUS_LABEL_FIELDS, obvious_label_field
 from ..outputs import fields as F
 from ..outputs.carried_fields import computed_fields
 from ..outputs.output_styles import StyleOnLoad, geopackage_of, save_default_style, style_for
@@ -83,11 +90,32 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         self.addParameter(
             QgsProcessingParameterField(
                 LINE_ID_FIELD,
-                self.tr("Section label field (empty: feature id)"),
+                self.tr("Section label field (empty: name, label, section or id, else feature id)"),
+                # Pre-selected in the dialog when the lines have it.
+                defaultValue=OBVIOUS_LABEL_FIELDS[0],
                 parentLayerParameterName=INPUT,
                 optional=True,
             )
         )
+
+    def label_field(self, parameters, context, source):
+        """The field that labels the sections: the one chosen, else the
+        lines' obvious one (``name``, ``label``, ``section``, ``id``), else
+        none (labels are feature ids)."""
+        chosen = parameters.get(LINE_ID_FIELD)
+        if chosen:
+            return self.parameterAsString(parameters, LINE_ID_FIELD, context)
+        return obvious_label_field(source.fields().names()) or ""
+
+    def label_of(self, name):
+        """A parameter's label, as the dialog shows it, for messages."""
+        definition = self.parameterDefinition(name)
+        return definition.description() if definition is not None else name
+
+    def add_advanced(self, parameter):
+        """Adds a rarely changed parameter, folded under "Advanced"."""
+        parameter.setFlags(parameter.flags() | FLAG_ADVANCED)
+        self.addParameter(parameter)
 
     def source(self, parameters, name, context):
         """A feature source parameter, or an error naming it."""

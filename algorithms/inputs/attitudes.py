@@ -57,7 +57,7 @@ NEEDS = {
 def add_north_parameters(algorithm):
     """NORTH_REFERENCE and DECLINATION, as every algorithm reading azimuths has them."""
     tr = algorithm.tr
-    algorithm.addParameter(
+    algorithm.add_advanced(
         QgsProcessingParameterEnum(
             NORTH_REFERENCE,
             tr("Azimuths are measured from"),
@@ -65,7 +65,7 @@ def add_north_parameters(algorithm):
             defaultValue=GRID,
         )
     )
-    algorithm.addParameter(
+    algorithm.add_advanced(
         QgsProcessingParameterNumber(
             DECLINATION,
             tr("Magnetic declination (degrees, east positive)"),
@@ -88,8 +88,8 @@ def add_attitude_parameters(algorithm, parent):
         )
     )
     for name, label in (
-        (AZIMUTH_FIELD, "Azimuth field (dip direction or strike)"),
-        (DIP_FIELD, "Dip field"),
+        (AZIMUTH_FIELD, "Azimuth field (dip direction or strike, degrees)"),
+        (DIP_FIELD, "Dip field (degrees)"),
         (QUADRANT_FIELD, "Dip quadrant field (N, NE, E …)"),
         (TEXT_FIELD, "Attitude text field (e.g. 120/40, N30E 40SE)"),
     ):
@@ -99,7 +99,7 @@ def add_attitude_parameters(algorithm, parent):
             )
         )
     add_north_parameters(algorithm)
-    algorithm.addParameter(
+    algorithm.add_advanced(
         QgsProcessingParameterField(
             DECLINATION_FIELD,
             tr("Declination field (overrides the value where set)"),
@@ -143,7 +143,8 @@ class AttitudeSettings:
         for name in NEEDS[self.convention]:
             if not self.fields[name]:
                 raise QgsProcessingException(
-                    f"{name}: attitudes written as '{CONVENTIONS[self.convention]}' need "
+                    f"{algorithm.label_of(name)}: attitudes written as "
+                    f"'{CONVENTIONS[self.convention]}' need "
                     f"this field; choose it."
                 )
         self.north = algorithm.parameterAsEnum(parameters, NORTH_REFERENCE, context)

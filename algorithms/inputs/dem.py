@@ -115,7 +115,7 @@ def open_grids(layer, band_number, z_factor):
         raise QgsProcessingException("DEM: the layer given is not a raster that can be read.")
     if not 1 <= band_number <= layer.bandCount():
         raise QgsProcessingException(
-            f"DEM_BAND: the DEM has {layer.bandCount()} band(s); band {band_number} does not exist."
+            f"DEM band: the DEM has {layer.bandCount()} band(s); band {band_number} does not exist."
         )
     if layer.providerType() == "gdal":
         datasets = [

@@ -62,9 +62,9 @@ def read_unit_map(source, unit_field, work_crs, context, feedback):
     repaired (shapely's make_valid) and counted in the log; polygons with no
     geometry are left out and counted."""
     if not unit_field:
-        raise QgsProcessingException("UNIT_FIELD: choose the field that names the unit.")
+        raise QgsProcessingException("Unit field: choose the field that names the unit.")
     if source.fields().lookupField(unit_field) < 0:
-        raise QgsProcessingException(f"UNIT_FIELD: the units layer has no field {unit_field!r}.")
+        raise QgsProcessingException(f"Unit field: the units layer has no field {unit_field!r}.")
     polygons, labels, unusable = read_features(source, unit_field, work_crs, context)
     invalid = ~shapely.is_valid(polygons)
     if invalid.any():

@@ -46,7 +46,7 @@ def working_crs(source, context, feedback):
     crs = source.sourceCrs()
     if not crs.isValid():
         raise QgsProcessingException(
-            "INPUT: the section lines have no coordinate reference system. "
+            "Section lines: the section lines have no coordinate reference system. "
             "Set one in the layer's properties (Source) and run again."
         )
     if not crs.isGeographic():

@@ -263,7 +263,7 @@ def test_the_viewer_draws_the_ground_where_the_profile_says(qgis_iface, provider
     image = job.renderedImage()
     to_pixel = job.mapSettings().mapToPixel()
 
-    profile = next(l for l in panel.shown if l.fields().lookupField("min_elev") >= 0)
+    profile = next(ly for ly in panel.shown if ly.fields().lookupField("min_elev") >= 0)
     ground = next(profile.getFeatures()).geometry()
     vertices = [(v.x(), v.y()) for v in ground.vertices()]
     picked = vertices[:: max(1, len(vertices) // 25)]
