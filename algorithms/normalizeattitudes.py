@@ -8,7 +8,7 @@ from qgis.core import (
     QgsProcessingParameterFeatureSource,
 )
 
-from .compat.qgis_compat import FAST_INSERT, SOURCE_ANY_VECTOR
+from .compat.qgis_compat import FAST_INSERT, SOURCE_ANY_VECTOR, SOURCE_POINTS, geometry_kind
 from .core.orientation import strike_from_dip_direction
 from .framework.base import SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
@@ -29,7 +29,7 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         self.addParameter(
             QgsProcessingParameterFeatureSource(
-                INPUT, self.tr("Attitudes (points or a table)"), [SOURCE_ANY_VECTOR]
+                INPUT, self.tr("Attitudes (points or a table)"), [SOURCE_POINTS, SOURCE_ANY_VECTOR]
             )
         )
         add_attitude_parameters(self, INPUT)
@@ -40,6 +40,11 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
 
     def processAlgorithm(self, parameters, context, feedback):
         source = self.source(parameters, INPUT, context)
+        if geometry_kind(source) not in ("point", "none"):
+            raise QgsProcessingException(
+                f"{self.label_of(INPUT)}: give points or a table; a layer of "
+                f"{geometry_kind(source)}s does not hold attitudes."
+            )
         settings = AttitudeSettings(self, parameters, context)
         rows = settings.read(source, feedback, progress_share=50.0)
         dip_direction, reasons = self._grid(settings, source, rows, feedback)

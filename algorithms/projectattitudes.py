@@ -6,6 +6,7 @@ import numpy as np
 from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsFeature,
+    QgsFields,
     QgsLineString,
     QgsPoint,
     QgsProcessingException,
@@ -44,7 +45,7 @@ from .inputs.dem import DemSampler, bounded_gdal_cache
 from .inputs.map_layers import read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
-from .outputs.carried_fields import CarriedFields
+from .outputs.carried_fields import CarriedFields, computed_field
 from .outputs.section_space import SECTION_CRS_WKT
 
 ATTITUDES = "ATTITUDES"
@@ -262,10 +263,13 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         carried_fields.log_replaced(feedback, "the attitude layer")
         skipped_fields = CarriedFields(points.fields(), (F.SOURCE_FID, F.REASON))
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+        # Ticks are section-space: they also carry the exaggeration.
+        tick_fields = QgsFields(carried_fields.fields)
+        tick_fields.append(computed_field(F.EXAGGERATION))
         sinks = {}
         for name, kind, crs, fields in (
             (OUTPUT, POINT_Z, lines.sourceCrs(), carried_fields.fields),
-            (OUTPUT_TICKS, LINE_STRING, section_crs, carried_fields.fields),
+            (OUTPUT_TICKS, LINE_STRING, section_crs, tick_fields),
             (OUTPUT_CONNECTORS, LINE_STRING, lines.sourceCrs(), carried_fields.fields),
             (SKIPPED, points.wkbType(), points.sourceCrs(), skipped_fields.fields),
         ):
@@ -278,10 +282,11 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         landing_map = np.column_stack(to_map(*record["landing_xy"].T))
         source_map = np.column_stack(to_map(*xy.T))
         labels = np.array([p.label for p in parts] + [""], dtype=object)[record["line"]]
+        exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
         ticks = tick_segments(
             record["chainage"],
             record["elev"],
-            self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context),
+            exaggeration,
             record["plot_dip"],
             record["sense"],
             self._tick_lengths(parameters, context, parts)[record["line"]],
@@ -301,7 +306,11 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 continue
             attributes = carried_fields.row(rows.attributes[i], values)
             self._add_outputs(
-                sinks, attributes, record["elev"][i], landing_map[i], source_map[i], ticks[i]
+                sinks,
+                attributes,
+                exaggeration,
+                record["elev"][i],
+                (landing_map[i], source_map[i], ticks[i]),
             )
             ledger.written += 1
             per_section[labels[i]] += 1
@@ -338,14 +347,17 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         return np.full(len(lengths), fixed) if fixed > 0 else lengths * AUTOMATIC_TICK_FRACTION
 
     @staticmethod
-    def _add_outputs(sinks, attributes, z, landing, source, tick):
+    def _add_outputs(sinks, attributes, exaggeration, z, places):
+        landing, source, tick = places
         feature = QgsFeature()
         feature.setAttributes(attributes)
         feature.setGeometry(QgsPoint(landing[0], landing[1], z))
         sinks[OUTPUT][0].addFeature(feature, FAST_INSERT)
         if not np.isnan(z):
-            feature.setGeometry(QgsLineString([QgsPoint(*tick[0]), QgsPoint(*tick[1])]))
-            sinks[OUTPUT_TICKS][0].addFeature(feature, FAST_INSERT)
+            tick_feature = QgsFeature()
+            tick_feature.setAttributes(attributes + [exaggeration])
+            tick_feature.setGeometry(QgsLineString([QgsPoint(*tick[0]), QgsPoint(*tick[1])]))
+            sinks[OUTPUT_TICKS][0].addFeature(tick_feature, FAST_INSERT)
         if sinks[OUTPUT_CONNECTORS][0] is not None:
             feature.setGeometry(QgsLineString([QgsPoint(*source), QgsPoint(*landing)]))
             sinks[OUTPUT_CONNECTORS][0].addFeature(feature, FAST_INSERT)

@@ -26,15 +26,17 @@ from .compat.qgis_compat import (
     EXPORT_SUCCESS,
     FAST_INSERT,
     NO_THREADING,
-    SOURCE_ANY_VECTOR,
     SOURCE_LINES,
+    SOURCE_POINTS,
     TEXT_AS_TEXT,
 )
 from .core.sheet_scale import end_names, padded
 from .framework.base import INPUT, SKIPPED, SectionwrightAlgorithm, skipped_fields
 from .framework.ledger import RunLedger
 from .inputs.section_lines import read_section_parts, working_crs
+from .inputs.section_views import check_same_exaggeration, section_view_layers, sheet_inputs
 from .outputs import styles
+from .outputs.section_space import is_section_view
 from .sheet.layers import (
     collar_points,
     copy_section,
@@ -76,19 +78,27 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         tr = self.tr
         self.add_section_line_parameters()
+        # The project's section-view layers as defaults, so that the dialog
+        # does not offer the map's own lines first.
+        found = sheet_inputs(section_view_layers())
         self.addParameter(
             QgsProcessingParameterVectorLayer(
-                PROFILE, tr("Profile (section view, from Topographic profile)"), [SOURCE_LINES]
+                PROFILE,
+                tr("Profile (section view, from Topographic profile)"),
+                [SOURCE_LINES],
+                defaultValue=_layer_id(found.get(PROFILE)),
             )
         )
         for name, label, kinds in (
             (INTERVALS, "Geology strip (section view)", [SOURCE_LINES]),
             (TICKS, "Dip ticks (section view)", [SOURCE_LINES]),
-            (CROSSINGS, "Geology crossings (with chainage and elev)", [SOURCE_ANY_VECTOR]),
+            (CROSSINGS, "Geology crossings (with chainage and elev)", [SOURCE_POINTS]),
             (BOREHOLES, "Boreholes (section view)", [SOURCE_LINES]),
         ):
             self.addParameter(
-                QgsProcessingParameterVectorLayer(name, tr(label), kinds, optional=True)
+                QgsProcessingParameterVectorLayer(
+                    name, tr(label), kinds, defaultValue=_layer_id(found.get(name)), optional=True
+                )
             )
         self.addParameter(
             QgsProcessingParameterMultipleLayers(
@@ -130,10 +140,14 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
     def processAlgorithm(self, parameters, context, feedback):
         lines = self.source(parameters, INPUT, context)
         profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
-        if profile is None or profile.fields().lookupField("section") < 0:
+        if (
+            profile is None
+            or profile.fields().lookupField("section") < 0
+            or not is_section_view(profile.crs())
+        ):
             raise QgsProcessingException(
-                "Profile: give the section-view profile made by Topographic profile (it needs "
-                "a 'section' field)."
+                "Profile: give the section-view profile made by Topographic profile (a layer "
+                "in the section view with a 'section' field), not the map's section lines."
             )
         output = self.parameterAsFileOutput(parameters, OUTPUT, context)
         suffix = Path(output).suffix.lower()
@@ -146,6 +160,10 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             name: self.parameterAsVectorLayer(parameters, name, context)
             for name in (INTERVALS, TICKS, CROSSINGS, BOREHOLES)
         }
+        check_same_exaggeration(
+            [(self.label_of(PROFILE), profile)]
+            + [(self.label_of(name), layer) for name, layer in inputs.items()]
+        )
         map_layers = self.parameterAsLayerList(parameters, MAP_LAYERS, context)
         page_size = PAGE_SIZES[self.parameterAsEnum(parameters, PAGE_SIZE, context)][1]
         skipped, skipped_id = self.parameterAsSink(
@@ -373,6 +391,10 @@ class SheetBuilder:
             location_crs=self.lines_crs,
             label_dips=self.label_dips,
         )
+
+
+def _layer_id(layer):
+    return layer.id() if layer is not None else None
 
 
 def _units(layer):

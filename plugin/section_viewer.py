@@ -24,8 +24,8 @@ from qgis.PyQt.QtWidgets import (
 
 from ..algorithms.compat.qgis_compat import INFO
 from ..algorithms.core.sheet_scale import end_names
+from ..algorithms.inputs import section_views as views
 from ..algorithms.outputs.section_space import SECTION_CRS_WKT
-from . import section_views as views
 
 TITLE = "Sectionwright section viewer"
 

@@ -212,6 +212,9 @@ def main(demo):
         line.setName(f"Section line {part.label}")
         section.location_layers[0] = line
         group = sheet_group.addGroup(f"Section {part.label}")
+        for layer in section.section_layers:
+            # Distinct names: layer lists in the dialogs show every layer.
+            layer.setName(f"{layer.name()}, section {part.label}")
         for layer in section.section_layers + [line]:
             project.addMapLayer(layer, False)
             group.addLayer(layer)

@@ -119,5 +119,6 @@ _GEOMETRY_KINDS = {
 
 
 def geometry_kind(layer):
-    """ "point", "line", "polygon" or "none" (a table) for a vector layer."""
-    return _GEOMETRY_KINDS.get(layer.geometryType(), "none")
+    """ "point", "line", "polygon" or "none" (a table) for a vector layer or
+    a feature source."""
+    return _GEOMETRY_KINDS.get(QgsWkbTypes.geometryType(layer.wkbType()), "none")

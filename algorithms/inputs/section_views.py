@@ -1,20 +1,22 @@
-"""The project's section-view layers, read for the section viewer: which
-sections they hold, each section's exaggeration, one section's layers
-filtered out of them, and the layers a sheet of it needs."""
+"""The project's section-view layers, as the section viewer and the sheet's
+dialog read them: which sections they hold, each section's exaggeration,
+one section's layers filtered out of them, the layers a sheet needs, and
+the check that they share one exaggeration."""
 
 from qgis.core import (
     QgsExpression,
     QgsFeatureRequest,
     QgsMemoryProviderUtils,
+    QgsProcessingException,
     QgsProject,
     QgsRectangle,
     QgsVectorLayer,
 )
 
-from ..algorithms.compat.qgis_compat import geometry_kind
-from ..algorithms.inputs.section_lines import obvious_label_field
-from ..algorithms.outputs import fields as F
-from ..algorithms.outputs.section_space import is_section_view
+from ..compat.qgis_compat import geometry_kind
+from ..outputs import fields as F
+from ..outputs.section_space import is_section_view
+from .section_lines import obvious_label_field
 
 # What each sheet input looks like among section-view layers: its geometry
 # and the fields only it has.
@@ -156,3 +158,32 @@ def line_feature(lines, label):
         if feature is not None:
             return layer, field, feature
     return None
+
+
+def exaggerations(layer):
+    """The distinct ``ve`` values a layer holds (empty without the field)."""
+    index = layer.fields().lookupField(F.EXAGGERATION)
+    if index < 0:
+        return set()
+    return {float(v) for v in layer.uniqueValues(index) if v is not None and str(v) != "NULL"}
+
+
+def check_same_exaggeration(labelled_layers):
+    """Refuses section-view inputs drawn at different exaggerations:
+    ``labelled_layers`` is [(parameter label, layer)], layers may be None."""
+    found = [
+        (label, layer, exaggerations(layer))
+        for label, layer in labelled_layers
+        if layer is not None and exaggerations(layer)
+    ]
+    values = set().union(*(ve for _, _, ve in found)) if found else set()
+    if len(values) > 1:
+        listed = "; ".join(
+            f"{label} '{layer.name()}' at {', '.join(f'{v:g}' for v in sorted(ve))}"
+            for label, layer, ve in found
+        )
+        raise QgsProcessingException(
+            f"The section-view inputs are drawn at different vertical exaggerations ({listed}). "
+            "Run them again with one exaggeration."
+        )
+    return values.pop() if values else None
