@@ -212,9 +212,6 @@ def main(demo):
         line.setName(f"Section line {part.label}")
         section.location_layers[0] = line
         group = sheet_group.addGroup(f"Section {part.label}")
-        for layer in section.section_layers:
-            # Distinct names: layer lists in the dialogs show every layer.
-            layer.setName(f"{layer.name()}, section {part.label}")
         for layer in section.section_layers + [line]:
             project.addMapLayer(layer, False)
             group.addLayer(layer)
@@ -223,6 +220,10 @@ def main(demo):
         layout.setName(f"Section {part.label}")
         layout.pageCollection().page(0).setPageSize("A3", 1)  # landscape
         add_page(layout, 0, page_size, section)
+        for layer in section.section_layers:
+            # Distinct names, as the dialogs' layer lists show every layer
+            # (the sheet's legend keeps the plain ones).
+            layer.setName(f"{layer.name()}, section {part.label}")
         project.layoutManager().addLayout(layout)
     # Opened, the project shows the map around the section lines.
     around = sections.extent()

@@ -305,7 +305,8 @@ def _add_legend(layout, page, section, x, y):
     root = legend.model().rootGroup()
     root.removeAllChildren()
     for layer in section.legend_layers:
-        root.addLayer(layer)
+        # The name as drawn now, whatever the layer is renamed to later.
+        root.addLayer(layer).setCustomProperty("legend/title-label", layer.name())
     set_legend_text(legend, LEGEND_TITLE, _text_format(9, True))
     set_legend_text(legend, LEGEND_GROUP, _text_format(8, True))
     set_legend_text(legend, LEGEND_ITEM, _text_format(7.5))
