@@ -89,3 +89,81 @@ HOLE_INTERVAL_FIELDS = (SECTION, HOLE, FROM, TO, CODE, OFFSET_MIN, OFFSET_MAX, E
 TRACE_FIELDS = (SECTION, HOLE, DEPTH)
 HOLE_SKIPPED_FIELDS = (TABLE, HOLE, SOURCE_FID, DEPTH, REASON)
 TEXT_FIELDS = TEXT_FIELDS + (HOLE, CODE, TABLE)
+
+# dipdomains: the carried attitudes with their domain, and the domain table.
+DOMAIN = "domain"
+DOMAIN_DIP = "dom_dip"
+REPRESENT = "represent"
+WHY = "why"
+FROM_CHAINAGE = "from_ch"
+TO_CHAINAGE = "to_ch"
+COUNT = "count"
+MEAN_DIP = "mean_dip"
+DIP_SPREAD = "dip_sd"
+REPRESENTATIVE_FID = "rep_fid"
+
+DOMAIN_POINT_FIELDS = (DOMAIN, DOMAIN_DIP, REPRESENT, WHY)
+DOMAIN_FIELDS = (
+    SECTION,
+    DOMAIN,
+    FROM_CHAINAGE,
+    TO_CHAINAGE,
+    COUNT,
+    MEAN_DIP,
+    DIP_SPREAD,
+    DIPS_TO,
+    REPRESENTATIVE_FID,
+)
+
+# structuraltrend: one row per area, and the existing lines checked.
+AREA = "area"
+COUNT_N = "n"
+MEAN_DIP_DIRECTION = "mean_dd"
+AXIS_TREND = "axis_tr"
+AXIS_PLUNGE = "axis_pl"
+EIGENVALUE_1 = "e1"
+EIGENVALUE_2 = "e2"
+EIGENVALUE_3 = "e3"
+SHAPE = "shape"
+BEST_AZIMUTH = "best_az"
+PATTERN = "pattern"
+MISFIT = "misfit"
+NEAR_COUNT = "n_near"
+OBLIQUE_COUNT = "n_oblique"
+ADVICE = "advice"
+
+TREND_FIELDS = (
+    AREA,
+    COUNT_N,
+    MEAN_DIP_DIRECTION,
+    MEAN_DIP,
+    AXIS_TREND,
+    AXIS_PLUNGE,
+    EIGENVALUE_1,
+    EIGENVALUE_2,
+    EIGENVALUE_3,
+    SHAPE,
+    BEST_AZIMUTH,
+    PATTERN,
+)
+LINE_CHECK_FIELDS = (
+    SECTION,
+    AREA,
+    LINE_AZIMUTH,
+    BEST_AZIMUTH,
+    MISFIT,
+    NEAR_COUNT,
+    OBLIQUE_COUNT,
+    ADVICE,
+)
+TREND_SKIPPED_FIELDS = (TABLE, SOURCE_FID, REASON)
+TEXT_FIELDS = TEXT_FIELDS + (WHY, AREA, PATTERN, ADVICE)
+INTEGER_FIELDS = INTEGER_FIELDS + (
+    DOMAIN,
+    REPRESENT,
+    COUNT,
+    REPRESENTATIVE_FID,
+    COUNT_N,
+    NEAR_COUNT,
+    OBLIQUE_COUNT,
+)
