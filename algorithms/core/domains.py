@@ -40,7 +40,7 @@ NEAREST = "nearest the line"
 CERTAIN = "smallest uncertainty"
 NEAREST_AND_CERTAIN = "nearest the line, smallest uncertainty"
 BALANCED = "near the line and certain together"
-ALL_FLAGGED = "every attitude here flagged; fewest flags"
+STILL_FLAGGED = "; flagged: "
 REDUNDANT = "redundant with "
 
 
@@ -221,23 +221,31 @@ def representatives(group, travel, dip_sd, flags, ids):
     chosen = np.full(count, -1)
     chosen[g[first]] = first
     represent[member[first]] = True
+    # Flags the representative shares say nothing against the others.
+    worse = flag_count > flag_count[chosen[g]]
     redundant = np.char.add(REDUNDANT, ids[member][chosen[g]].astype(str)).astype(object)
-    why[member] = np.where(blocked != "", blocked, redundant)
-    why[member[first]] = _choice_reasons(first, g, travel, dip_sd, flag_count, count)
+    why[member] = np.where(worse, blocked, redundant)
+    why[member[first]] = _choice_reasons(first, chosen, g, travel, dip_sd, flag_count, blocked)
     return represent, why
 
 
-def _choice_reasons(first, g, travel, dip_sd, flag_count, count):
+def _choice_reasons(first, chosen, g, travel, dip_sd, flag_count, blocked):
+    """Why each chosen attitude won, judged against the members as little
+    flagged as itself."""
+    count = len(chosen)
     size = np.bincount(g, minlength=count)[g[first]]
-    unflagged = flag_count == 0
-    least = lambda value: _group_min(np.where(unflagged, value, np.inf), g, count)  # noqa: E731
+    peers = flag_count == flag_count[chosen[g]]
+    least = lambda value: _group_min(np.where(peers, value, np.inf), g, count)  # noqa: E731
     nearest = travel[first] <= least(travel)[g[first]]
     certain = dip_sd[first] <= least(dip_sd)[g[first]]
-    return np.select(
-        [size == 1, flag_count[first] > 0, nearest & certain, nearest, certain],
-        [ONLY, ALL_FLAGGED, NEAREST_AND_CERTAIN, NEAREST, CERTAIN],
+    reasons = np.select(
+        [size == 1, nearest & certain, nearest, certain],
+        [ONLY, NEAREST_AND_CERTAIN, NEAREST, CERTAIN],
         BALANCED,
     ).astype(object)
+    flagged = flag_count[first] > 0
+    reasons[flagged] = reasons[flagged] + STILL_FLAGGED + blocked[first][flagged]
+    return reasons
 
 
 def _group_min(value, group, count):

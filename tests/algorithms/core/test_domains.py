@@ -179,7 +179,25 @@ def test_when_every_attitude_is_flagged_the_least_flagged_stands():
         np.array([1, 2]),
     )
     assert represent.tolist() == [False, True]
-    assert why.tolist() == ["oblique, unit changed", D.ALL_FLAGGED]
+    assert why.tolist() == [
+        "oblique, unit changed",
+        "nearest the line, smallest uncertainty; flagged: oblique",
+    ]
+
+
+def test_a_flag_every_attitude_shares_does_not_decide():
+    represent, why = D.representatives(
+        np.zeros(2, int),
+        np.array([10.0, 100.0]),
+        np.array([1.0, 1.0]),
+        np.array(["no_elevation", "no_elevation"], dtype=object),
+        np.array([1, 2]),
+    )
+    assert represent.tolist() == [True, False]
+    assert why.tolist() == [
+        "nearest the line, smallest uncertainty; flagged: no elevation",
+        "redundant with 1",
+    ]
 
 
 def test_representative_ties_go_to_the_smallest_id_whatever_the_order():
