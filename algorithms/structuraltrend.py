@@ -92,19 +92,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
                 optional=True,
             )
         )
-        self.addParameter(
-            QgsProcessingParameterFeatureSource(
-                INPUT, tr("Existing section lines to check"), [SOURCE_LINES], optional=True
-            )
-        )
-        self.addParameter(
-            QgsProcessingParameterField(
-                LINE_ID_FIELD,
-                tr("Section label field (empty: feature id)"),
-                parentLayerParameterName=INPUT,
-                optional=True,
-            )
-        )
+        self.add_section_line_parameters("Existing section lines to check", optional=True)
         self.addParameter(
             QgsProcessingParameterDistance(
                 MAX_DISTANCE,

@@ -18,14 +18,15 @@ Best of 3, in one process.
 """
 
 import sys
-import time
 from pathlib import Path
 
 import numpy as np
 import shapely
 
 HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent / "scripts"))
+from bench_attitudes import best_of  # noqa: E402
 from plugin_package import import_plugin  # noqa: E402
 
 import_plugin()
@@ -35,15 +36,6 @@ from sectionwright.algorithms.core import fabric as F  # noqa: E402
 from sectionwright.algorithms.core.units import polygon_index_at  # noqa: E402
 
 TOLERANCE = 10.0
-
-
-def best_of(repeat, function):
-    times = []
-    for _ in range(repeat):
-        started = time.perf_counter()
-        result = function()
-        times.append(time.perf_counter() - started)
-    return min(times), result
 
 
 def trend_data(rng, count=100_000, side=10, cell=2000.0):

@@ -4,6 +4,7 @@ import demo_world as W
 import numpy as np
 import processing
 import pytest
+from angles import axial_angle
 from feedback import LogFeedback
 from layers import attributes, is_null, point_layer
 from qgis.core import QgsProcessingException, QgsVectorLayer
@@ -67,15 +68,6 @@ def box(x0, y0, x1, y1):
         f"POLYGON(({X0 + x0} {Y0 + y0},{X0 + x1} {Y0 + y0},{X0 + x1} {Y0 + y1},"
         f"{X0 + x0} {Y0 + y1},{X0 + x0} {Y0 + y0}))"
     )
-
-
-def axial_angle(trend_a, plunge_a, trend_b, plunge_b):
-    def vector(trend, plunge):
-        t, p = np.radians(trend), np.radians(plunge)
-        return np.array([np.sin(t) * np.cos(p), np.cos(t) * np.cos(p), -np.sin(p)])
-
-    a, b = vector(trend_a, plunge_a), vector(trend_b, plunge_b)
-    return np.degrees(np.arctan2(np.linalg.norm(np.cross(a, b)), abs(float(a @ b))))
 
 
 def test_demo_fold_axis_recommended_azimuth_and_the_demo_lines(provider, demo_dir):

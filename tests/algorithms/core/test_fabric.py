@@ -4,6 +4,7 @@ world's known fold."""
 import demo_world as W
 import numpy as np
 import pytest
+from angles import axial_angle
 
 from sectionwright.algorithms.core import fabric as F
 
@@ -29,18 +30,6 @@ def folded_limbs(rng, count=40):
     poles = np.cos(angle)[:, None] * other + np.sin(angle)[:, None] * ref
     trend, plunge = F.trend_plunge(poles)
     return noisy_planes(rng, (trend + 180.0) % 360.0, 90.0 - plunge, 4.0)
-
-
-def axial_angle(trend_a, plunge_a, trend_b, plunge_b):
-    """Angle (degrees) between two axial lines given as trend/plunge."""
-
-    def vector(trend, plunge):
-        t, p = np.radians(trend), np.radians(plunge)
-        return np.array([np.sin(t) * np.cos(p), np.cos(t) * np.cos(p), -np.sin(p)])
-
-    a, b = vector(trend_a, plunge_a), vector(trend_b, plunge_b)
-    # atan2 of |a × b| and |a · b| keeps small angles exact (arccos does not).
-    return np.degrees(np.arctan2(np.linalg.norm(np.cross(a, b)), abs(float(a @ b))))
 
 
 def one_group(dip_direction, dip):
