@@ -118,7 +118,7 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
         feedback.setProgress(60)
         group = np.full(len(domain), -1)
         _, group[good] = np.unique(
-            code[good] * (domain.max() + 1) + domain[good], return_inverse=True
+            code[good] * (domain.max(initial=0) + 1) + domain[good], return_inverse=True
         )
         travel, _ = as_numbers(rows[F.TRAVEL], F.TRAVEL)
         dip_sd, _ = as_numbers(rows[F.APPARENT_DIP_SD], F.APPARENT_DIP_SD)

@@ -257,6 +257,10 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
     def _write_areas(sink, labels, result, suggested, to_out, feedback):
         for k, label in enumerate(labels):
             if result["n"][k] < MIN_COUNT:
+                feedback.pushInfo(
+                    f"Area {label}: {result['n'][k]} usable attitude(s), fewer than the "
+                    f"{MIN_COUNT} a fabric needs; no result."
+                )
                 continue
             values = [label, int(result["n"][k])] + [
                 _value(result[name][k]) for name in F.TREND_FIELDS[2:-1]

@@ -245,3 +245,10 @@ def test_chains_after_projectattitudes_in_a_graphical_model(provider):
     layer = result["domains:domain_table"]
     layer = QgsVectorLayer(layer) if isinstance(layer, str) else layer
     assert layer.featureCount() == 3
+
+
+def test_an_empty_layer_gives_empty_outputs(provider):
+    feedback = LogFeedback()
+    result = run(section_points([]), feedback)
+    assert result["OUTPUT"].featureCount() == 0 and result["OUTPUT_DOMAINS"].featureCount() == 0
+    assert feedback.algorithm_log()[-1] == "Summary: read=0 written=0 skipped=0"

@@ -222,3 +222,14 @@ def test_runs_in_a_graphical_model(provider, demo_dir):
     layer = QgsVectorLayer(layer) if isinstance(layer, str) else layer
     (feature,) = layer.getFeatures()
     assert feature["pattern"] == "girdle"
+
+
+def test_too_few_attitudes_give_no_row_and_say_why(provider):
+    feedback = LogFeedback()
+    result = run(numeric_points([(0, 0, 10.0, 20.0), (50, 50, 12.0, 22.0)]), feedback)
+    assert result["OUTPUT"].featureCount() == 0
+    assert [r["reason"] for r in attributes(result["SKIPPED"])] == [
+        "area with fewer than 3 attitudes"
+    ] * 2
+    empty = run(numeric_points([]), LogFeedback())
+    assert empty["OUTPUT"].featureCount() == 0
