@@ -20,6 +20,7 @@ from .compat.qgis_compat import (
     NUMBER_DOUBLE,
     SKIP_GEOMETRY_CHECKS,
     SOURCE_POINTS,
+    advanced,
 )
 from .core.attitudes import as_numbers
 from .core.domains import domain_table, representatives, segment, signed_apparent_dip
@@ -68,11 +69,13 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
             )
         )
         self.addParameter(
-            QgsProcessingParameterNumber(
-                MIN_COUNT,
-                tr("Fewest attitudes in a domain (where the dip direction allows)"),
-                defaultValue=1,
-                minValue=1,
+            advanced(
+                QgsProcessingParameterNumber(
+                    MIN_COUNT,
+                    tr("Fewest attitudes in a domain (where the dip direction allows)"),
+                    defaultValue=1,
+                    minValue=1,
+                )
             )
         )
         self.addParameter(

@@ -25,6 +25,7 @@ from .compat.qgis_compat import (
     SOURCE_LINES,
     SOURCE_POINTS,
     SOURCE_POLYGONS,
+    advanced,
 )
 from .core.carry import CarryOptions, carry_attitudes
 from .core.crs import transformer
@@ -103,13 +104,15 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
             )
         )
         self.addParameter(
-            QgsProcessingParameterNumber(
-                OBLIQUE_ANGLE,
-                tr("Count attitudes whose strike is closer to the line than (degrees)"),
-                NUMBER_DOUBLE,
-                defaultValue=20.0,
-                minValue=0.0,
-                maxValue=90.0,
+            advanced(
+                QgsProcessingParameterNumber(
+                    OBLIQUE_ANGLE,
+                    tr("Count attitudes whose strike is closer to the line than (degrees)"),
+                    NUMBER_DOUBLE,
+                    defaultValue=20.0,
+                    minValue=0.0,
+                    maxValue=90.0,
+                )
             )
         )
         self.addParameter(

@@ -15,6 +15,7 @@ from qgis.core import (
     QgsProcessing,
     QgsProcessingAlgorithm,
     QgsProcessingFeatureSource,
+    QgsProcessingParameterDefinition,
     QgsProcessingParameterNumber,
     QgsRenderContext,
     QgsUnitTypes,
@@ -57,6 +58,9 @@ SKIP_GEOMETRY_CHECKS = _scoped(
 NO_GEOMETRY_REQUEST = _scoped("FeatureRequestFlag", "NoGeometry", QgsFeatureRequest.Flag.NoGeometry)
 NO_THREADING = _scoped(
     "ProcessingAlgorithmFlag", "NoThreading", QgsProcessingAlgorithm.Flag.FlagNoThreading
+)
+ADVANCED = _scoped(
+    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.Flag.FlagAdvanced
 )
 EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
 LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)
@@ -103,3 +107,9 @@ def set_legend_text(legend, style, text_format):
         current.setTextFormat(text_format)
     else:
         legend.setStyleFont(style, text_format.font())
+
+
+def advanced(parameter):
+    """The parameter, marked as rarely changed (under Advanced parameters)."""
+    parameter.setFlags(parameter.flags() | ADVANCED)
+    return parameter

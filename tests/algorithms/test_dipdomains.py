@@ -252,3 +252,16 @@ def test_an_empty_layer_gives_empty_outputs(provider):
     result = run(section_points([]), feedback)
     assert result["OUTPUT"].featureCount() == 0 and result["OUTPUT_DOMAINS"].featureCount() == 0
     assert feedback.algorithm_log()[-1] == "Summary: read=0 written=0 skipped=0"
+
+
+def test_rarely_changed_parameters_are_advanced(provider):
+    from qgis.core import QgsApplication
+
+    from sectionwright.algorithms.compat.qgis_compat import ADVANCED
+
+    registry = QgsApplication.processingRegistry()
+    for algorithm, name in (("dipdomains", "MIN_COUNT"), ("structuraltrend", "OBLIQUE_ANGLE")):
+        definition = registry.algorithmById(f"sectionwright:{algorithm}").parameterDefinition(name)
+        assert definition.flags() & ADVANCED
+    domains = registry.algorithmById("sectionwright:dipdomains")
+    assert not domains.parameterDefinition("ANGLE_TOLERANCE").flags() & ADVANCED
