@@ -6,7 +6,6 @@ import tempfile
 from pathlib import Path
 
 from qgis.core import (
-    QgsFeature,
     QgsLayoutExporter,
     QgsLayoutItemPage,
     QgsLayoutSize,
@@ -24,17 +23,18 @@ from qgis.core import (
 
 from .compat.qgis_compat import (
     EXPORT_SUCCESS,
-    FAST_INSERT,
     NO_THREADING,
     SOURCE_ANY_VECTOR,
     SOURCE_LINES,
     TEXT_AS_TEXT,
 )
 from .core.sheet_scale import end_names, padded
-from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
+from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
 from .inputs.section_lines import read_section_parts, working_crs
+from .outputs import fields as F
 from .outputs import styles
+from .outputs.skipped import skip_sections
 from .sheet.layers import (
     collar_points,
     copy_section,
@@ -68,6 +68,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "sectionsheet"
     DISPLAY_NAME = "Section sheet"
     GROUP_ID = "sectiondrawing"
+    OUTPUT_SCHEMAS = {SKIPPED: F.SKIPPED_SECTIONS}
 
     def flags(self):
         # Print layouts are built and rendered on the main thread.
@@ -130,10 +131,10 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
     def processAlgorithm(self, parameters, context, feedback):
         lines = self.source(parameters, INPUT, context)
         profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
-        if profile is None or profile.fields().lookupField("section") < 0:
+        if profile is None or profile.fields().lookupField(F.SECTION) < 0:
             raise QgsProcessingException(
                 "PROFILE: give the section-view profile made by Topographic profile (it needs "
-                "a 'section' field)."
+                f"a '{F.SECTION}' field)."
             )
         output = self.parameterAsFileOutput(parameters, OUTPUT, context)
         suffix = Path(output).suffix.lower()
@@ -149,7 +150,12 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         map_layers = self.parameterAsLayerList(parameters, MAP_LAYERS, context)
         page_size = PAGE_SIZES[self.parameterAsEnum(parameters, PAGE_SIZE, context)][1]
         skipped, skipped_id = self.parameterAsSink(
-            parameters, SKIPPED, context, skipped_fields(), lines.wkbType(), lines.sourceCrs()
+            parameters,
+            SKIPPED,
+            context,
+            F.SKIPPED_SECTIONS.qgs_fields(),
+            lines.wkbType(),
+            lines.sourceCrs(),
         )
 
         work_crs = working_crs(lines, context, feedback)
@@ -184,7 +190,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             if section is None:
                 part.reason = part.reason or NO_PROFILE
                 ledger.skip(part.reason)
-                self._skip(skipped, part)
+                skip_sections(skipped, [part])
                 feedback.pushInfo(f"Section {part.label}: no page ({part.reason}).")
                 continue
             keep_alive.append(section)
@@ -227,15 +233,6 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
                 group.addLayer(layer)
         manager.addLayout(layout)
         feedback.pushInfo(f"Layout '{layout.name()}' added to the project.")
-
-    @staticmethod
-    def _skip(sink, part):
-        if sink is None:
-            return
-        feature = QgsFeature()
-        feature.setGeometry(part.geometry)
-        feature.setAttributes([part.label, part.fid, part.reason])
-        sink.addFeature(feature, FAST_INSERT)
 
     @staticmethod
     def _page(layout, index, page_size):
@@ -304,8 +301,8 @@ class SheetBuilder:
         ground = next(self.profile.getFeatures(section_filter(part.label)), None)
         if ground is None:
             return None
-        ve_field = self.profile.fields().lookupField("ve")
-        exaggeration = float(ground["ve"]) if ve_field >= 0 else 1.0
+        ve_field = self.profile.fields().lookupField(F.EXAGGERATION)
+        exaggeration = float(ground[F.EXAGGERATION]) if ve_field >= 0 else 1.0
         inputs = self.inputs
         holes = copy_section(
             inputs.get(BOREHOLES), part.label, "Boreholes", "LineString", styles.hole_renderer()
@@ -335,7 +332,7 @@ class SheetBuilder:
                 part.label,
                 "Geology strip",
                 "LineString",
-                styles.unit_strip_renderer(self.strip_renderer_units, "unit"),
+                styles.unit_strip_renderer(self.strip_renderer_units, F.UNIT),
             ),
         }
         for name, given in (
@@ -376,9 +373,9 @@ class SheetBuilder:
 
 
 def _units(layer):
-    if layer is None or layer.fields().lookupField("unit") < 0:
+    if layer is None or layer.fields().lookupField(F.UNIT) < 0:
         return []
-    values = layer.uniqueValues(layer.fields().lookupField("unit"))
+    values = layer.uniqueValues(layer.fields().lookupField(F.UNIT))
     return sorted({str(v) for v in values if v is not None and str(v) not in ("", "NULL")})
 
 

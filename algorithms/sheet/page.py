@@ -5,6 +5,7 @@ from dataclasses import dataclass, field
 from typing import List
 
 from qgis.core import (
+    QgsExpression,
     QgsLayoutItemLabel,
     QgsLayoutItemLegend,
     QgsLayoutItemMap,
@@ -32,6 +33,7 @@ from ..compat.qgis_compat import (
     set_legend_text,
 )
 from ..core.sheet_scale import nice_step
+from ..outputs import fields as F
 from ..outputs.styles import GRID, INK
 
 CAUTION = (
@@ -215,10 +217,11 @@ def add_page(layout, page, page_size, section):
 
     ticks = _layer(section, "Dip ticks")
     if section.label_dips and ticks is not None:
-        _label_layer(ticks, "format_number(\"app_dip\", 0) || '°'", 6.5, LABEL_HORIZONTAL)
+        dip = QgsExpression.quotedColumnRef(F.APPARENT_DIP)
+        _label_layer(ticks, f"format_number({dip}, 0) || '°'", 6.5, LABEL_HORIZONTAL)
     collars = _layer(section, "Collars")
     if collars is not None:
-        _label_layer(collars, '"hole"', 7, LABEL_OVER_POINT)
+        _label_layer(collars, QgsExpression.quotedColumnRef(F.HOLE), 7, LABEL_OVER_POINT)
     section_map = QgsLayoutItemMap(layout)
     section_map.setCrs(section.section_layers[0].crs() if section.section_layers else None)
     section_map.setLayers(section.section_layers)
