@@ -41,7 +41,7 @@ from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.map_layers import read_features, read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
-from .outputs.geometry_io import add_features, add_qgis_features, points_z
+from .outputs.geometry_io import add_features, add_wkb_features, points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_sections
 from .outputs.styles import UnitStripStyler
@@ -388,7 +388,7 @@ def _write_crossings(sink, part, numbered, units, chainage, elevation, to_map, e
             for c, bad in zip(crossings, ill)
         ],
     }
-    add_qgis_features(sink, points_z(map_x, map_y, z), F.CROSSINGS.rows(columns))
+    add_wkb_features(sink, points_z(map_x, map_y, z), F.CROSSINGS.rows(columns))
 
 
 def _write_intervals(sink, part, stretch, units, chainage, elevation, exaggeration):

@@ -28,7 +28,7 @@ from .framework.ledger import RunLedger
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
-from .outputs.geometry_io import add_features, add_qgis_features, points_z
+from .outputs.geometry_io import add_features, add_wkb_features, points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_sections
 
@@ -187,7 +187,7 @@ def _write_samples(sink, label, chainage, elevation, map_xy):
         F.X: map_x,
         F.Y: map_y,
     }
-    add_qgis_features(sink, points_z(map_x, map_y, elevation), F.PROFILE_POINTS.rows(columns))
+    add_wkb_features(sink, points_z(map_x, map_y, elevation), F.PROFILE_POINTS.rows(columns))
 
 
 def _write_section(sink, label, chainage, elevation, exaggeration):

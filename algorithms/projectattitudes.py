@@ -37,7 +37,7 @@ from .inputs.map_layers import read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
-from .outputs.geometry_io import add_features, add_qgis_features, points_z
+from .outputs.geometry_io import add_features, add_wkb_features, points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_features
 
@@ -313,7 +313,7 @@ def _write_carried(sinks, carried_fields, rows, record, labels, carried, xy, tic
     )
     landing = np.column_stack(to_map(*record["landing_xy"][carried].T))
     elevation = record["elev"][carried]
-    add_qgis_features(sinks[OUTPUT][0], points_z(*landing.T, elevation), attributes)
+    add_wkb_features(sinks[OUTPUT][0], points_z(*landing.T, elevation), attributes)
     drawn = np.flatnonzero(~np.isnan(elevation))
     add_features(
         sinks[OUTPUT_TICKS][0],

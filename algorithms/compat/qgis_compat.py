@@ -6,7 +6,6 @@ old spellings. Everything else imports these names from here.
 """
 
 from qgis.core import (
-    NULL,
     Qgis,
     QgsFeatureRequest,
     QgsFeatureSink,
@@ -77,12 +76,6 @@ else:
     DOUBLE = QVariant.Double
     LONG = QVariant.LongLong
     STRING = QVariant.String
-
-
-def plain(value):
-    """An attribute value as Python sees it, None for NULL (a null QVariant
-    on QGIS 3.22, None on later releases)."""
-    return None if value is None or isinstance(value, QVariant) or value == NULL else value
 
 
 def is_curved(wkb_type):

@@ -12,7 +12,8 @@ from qgis.core import (
     QgsProcessingParameterField,
 )
 
-from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, plain
+from ..compat.null import plain
+from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
 from ..core.attitudes import (
     DIP_DIRECTION,
     STRIKE_QUADRANT,

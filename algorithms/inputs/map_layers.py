@@ -9,7 +9,8 @@ from qgis.core import (
     QgsProcessingException,
 )
 
-from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, plain
+from ..compat.null import plain
+from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
 from ..core.units import polygon_index_at
 
 

@@ -14,11 +14,11 @@ from qgis.core import (
     QgsProcessingException,
 )
 
+from ..compat.null import plain
 from ..compat.qgis_compat import (
     SKIP_GEOMETRY_CHECKS,
     UNIT_METERS,
     is_curved,
-    plain,
     unit_name,
 )
 from ..core.crs import utm_epsg

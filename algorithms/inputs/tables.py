@@ -3,7 +3,8 @@
 import numpy as np
 from qgis.core import QgsFeatureRequest, QgsProcessingException
 
-from ..compat.qgis_compat import NO_GEOMETRY_REQUEST, plain
+from ..compat.null import plain
+from ..compat.qgis_compat import NO_GEOMETRY_REQUEST
 
 
 def read_columns(source, columns, parameter, with_geometry=False):
