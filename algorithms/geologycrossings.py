@@ -184,29 +184,10 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 else {}
             )
         to_map = transformer(crs_wkt(work_crs), crs_wkt(lines.sourceCrs()))
-        by_section = {}
-        for number, crossing in enumerate(crossings):
-            by_section.setdefault(crossing.section, []).append((number, crossing))
-        for index, part in enumerate(usable[: len(sampled)]):
-            chainage, xy, elevation = sampled[index]
-            numbered = by_section.get(index, [])
-            _write_crossings(
-                sinks[OUTPUT][0], part, numbered, units, chainage, elevation, to_map, estimates
-            )
-            _write_intervals(
-                sinks[OUTPUT_INTERVALS][0],
-                part,
-                intervals[index],
-                units,
-                chainage,
-                elevation,
-                settings.exaggeration,
-            )
-            ledger.written += 1
-            feedback.pushInfo(
-                f"Section {part.label}: {len(intervals[index].unit)} interval(s), "
-                f"{len(numbered)} crossing(s)."
-            )
+        geology = (intervals, crossings, units, estimates)
+        ledger.written = _write_sections(
+            sinks, usable, sampled, geology, to_map, settings.exaggeration, feedback
+        )
         ledger.close()
         self._style(context, sinks[OUTPUT_INTERVALS][1], units)
         return sink_results(sinks)
@@ -359,6 +340,36 @@ def _padded(values, count, fill):
     out = np.full(count, fill, dtype=np.asarray(values).dtype if len(values) else float)
     out[: len(values)] = values
     return out
+
+
+def _write_sections(sinks, parts, sampled, geology, to_map, exaggeration, feedback):
+    """The crossings and the geology strip of every sampled part;
+    ``geology`` is (intervals, crossings, units, estimates). Returns how
+    many parts were written."""
+    intervals, crossings, units, estimates = geology
+    by_section = {}
+    for number, crossing in enumerate(crossings):
+        by_section.setdefault(crossing.section, []).append((number, crossing))
+    for index, part in enumerate(parts[: len(sampled)]):
+        chainage, _, elevation = sampled[index]
+        numbered = by_section.get(index, [])
+        _write_crossings(
+            sinks[OUTPUT][0], part, numbered, units, chainage, elevation, to_map, estimates
+        )
+        _write_intervals(
+            sinks[OUTPUT_INTERVALS][0],
+            part,
+            intervals[index],
+            units,
+            chainage,
+            elevation,
+            exaggeration,
+        )
+        feedback.pushInfo(
+            f"Section {part.label}: {len(intervals[index].unit)} interval(s), "
+            f"{len(numbered)} crossing(s)."
+        )
+    return len(sampled)
 
 
 def _write_crossings(sink, part, numbered, units, chainage, elevation, to_map, estimates):

@@ -126,6 +126,24 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         )
         add_attitude_parameters(self, ATTITUDES)
         self.add_max_distance_parameter("Maximum distance from the section")
+        self._add_projection_parameters()
+        self.add_dem_parameter("DEM (elevation of points without Z, and of the ground)", True)
+        self.add_unit_parameters()
+        self._add_uncertainty_parameters()
+        self.add_exaggeration_parameter()
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                TICK_LENGTH,
+                tr("Tick length in the section view (0: automatic)"),
+                NUMBER_DOUBLE,
+                defaultValue=0.0,
+                minValue=0.0,
+            )
+        )
+        self._add_outputs()
+
+    def _add_projection_parameters(self):
+        tr = self.tr
         self.addParameter(
             QgsProcessingParameterEnum(
                 PROJECTION, tr("Projection"), options=[tr(p) for p in PROJECTIONS], defaultValue=0
@@ -151,8 +169,9 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 maxValue=89.9,
             )
         )
-        self.add_dem_parameter("DEM (elevation of points without Z, and of the ground)", True)
-        self.add_unit_parameters()
+
+    def _add_uncertainty_parameters(self):
+        tr = self.tr
         for name, label, default, top in (
             (OBLIQUE_ANGLE, "Flag lines closer to strike than (degrees)", 20.0, 90.0),
             (DIP_UNCERTAINTY, "Dip uncertainty, one standard deviation (degrees)", 2.0, 45.0),
@@ -163,16 +182,9 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                     name, tr(label), NUMBER_DOUBLE, defaultValue=default, minValue=0.0, maxValue=top
                 )
             )
-        self.add_exaggeration_parameter()
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                TICK_LENGTH,
-                tr("Tick length in the section view (0: automatic)"),
-                NUMBER_DOUBLE,
-                defaultValue=0.0,
-                minValue=0.0,
-            )
-        )
+
+    def _add_outputs(self):
+        tr = self.tr
         self.addParameter(
             QgsProcessingParameterFeatureSink(
                 OUTPUT, tr("Attitudes on sections (map)"), SOURCE_POINTS
