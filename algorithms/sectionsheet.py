@@ -22,6 +22,7 @@ from qgis.core import (
     QgsRectangle,
 )
 
+from .compat.null import plain
 from .compat.qgis_compat import (
     EXPORT_SUCCESS,
     NO_THREADING,
@@ -420,7 +421,7 @@ def _units(layer):
     if layer is None or layer.fields().lookupField(F.UNIT) < 0:
         return []
     values = layer.uniqueValues(layer.fields().lookupField(F.UNIT))
-    return sorted({str(v) for v in values if v is not None and str(v) not in ("", "NULL")})
+    return sorted({str(v) for v in map(plain, values) if v is not None and str(v) != ""})
 
 
 def _extent(layers, ground):

@@ -10,6 +10,7 @@ from qgis.core import (
     QgsVectorLayer,
 )
 
+from ..compat.null import plain
 from ..outputs import fields as F
 from ..outputs.section_space import is_section_view, section_crs
 
@@ -56,13 +57,10 @@ def crossings_in_section(source, label, exaggeration, name, renderer):
     layer = _memory_layer("Point", name, source.fields(), section_crs())
     features = []
     for feature in source.getFeatures(section_filter(label)):
-        chainage, elevation = feature[F.CHAINAGE], feature[F.ELEVATION]
+        chainage, elevation = plain(feature[F.CHAINAGE]), plain(feature[F.ELEVATION])
         if chainage is None or elevation is None or elevation != elevation:
             continue
-        try:
-            point = QgsPointXY(float(chainage), float(elevation) * exaggeration)
-        except TypeError:  # a NULL that is not None
-            continue
+        point = QgsPointXY(float(chainage), float(elevation) * exaggeration)
         copy = QgsFeature(feature)
         copy.setGeometry(QgsGeometry.fromPointXY(point))
         features.append(copy)
