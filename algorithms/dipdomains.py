@@ -5,17 +5,15 @@ from collections import Counter
 
 import numpy as np
 from qgis.core import (
-    QgsFeature,
     QgsFeatureRequest,
     QgsProcessingException,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterNumber,
 )
-from qgis.PyQt.QtCore import QVariant
 
+from .compat.null import plain
 from .compat.qgis_compat import (
-    FAST_INSERT,
     NO_GEOMETRY,
     NUMBER_DOUBLE,
     SKIP_GEOMETRY_CHECKS,
@@ -24,10 +22,12 @@ from .compat.qgis_compat import (
 )
 from .core.attitudes import as_numbers
 from .core.domains import domain_table, representatives, segment, signed_apparent_dip
-from .framework.base import SKIPPED, SectionwrightAlgorithm
+from .framework.base import SKIPPED, SectionwrightAlgorithm, sink_results
 from .framework.ledger import RunLedger
 from .outputs import fields as F
-from .outputs.carried_fields import CarriedFields, computed_fields
+from .outputs.carried_fields import CarriedFields
+from .outputs.geometry_io import add_qgis_features
+from .outputs.skipped import skip_features
 
 ATTITUDES = "ATTITUDES"
 ANGLE_TOLERANCE = "ANGLE_TOLERANCE"
@@ -40,14 +40,14 @@ REQUIRED = (F.SECTION, F.CHAINAGE, F.APPARENT_DIP, F.DIPS_TO)
 OPTIONAL = (F.TRAVEL, F.APPARENT_DIP_SD, F.FLAGS, F.SOURCE_FID)
 
 
-def _plain(value):
-    """None for NULL (a null QVariant on 3.22, None later)."""
-    return None if value is None or isinstance(value, QVariant) else value
-
-
 class DipDomainsAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "dipdomains"
     DISPLAY_NAME = "Dip domains and representative attitudes"
+    OUTPUT_SCHEMAS = {
+        OUTPUT: F.DOMAIN_POINTS,
+        OUTPUT_DOMAINS: F.DIP_DOMAINS,
+        SKIPPED: F.SKIPPED_ROWS,
+    }
 
     def initAlgorithm(self, config=None):
         tr = self.tr
@@ -171,7 +171,7 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
             rows["geometries"].append(feature.geometry())
             rows["fids"].append(feature.id())
             for name, index in names.items():
-                rows[name].append(_plain(attributes[index]) if index >= 0 else None)
+                rows[name].append(plain(attributes[index]) if index >= 0 else None)
             if number % 1000 == 0:
                 feedback.setProgress(40 * number / total)
         return rows
@@ -184,87 +184,72 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
         return np.where(np.isnan(given), rows["fids"], given).astype(np.int64)
 
     def _write(self, parameters, context, feedback, points, rows, result):
-        carried = CarriedFields(points.fields(), F.DOMAIN_POINT_FIELDS)
+        carried = CarriedFields(points.fields(), F.DOMAIN_POINTS)
         carried.log_replaced(feedback, f"the {ATTITUDES_LABEL.lower()} layer")
-        skipped_fields = CarriedFields(points.fields(), (F.REASON,))
-        output, output_id = self.parameterAsSink(
-            parameters, OUTPUT, context, carried.fields, points.wkbType(), points.sourceCrs()
-        )
-        domains, domains_id = self.parameterAsSink(
-            parameters, OUTPUT_DOMAINS, context, computed_fields(F.DOMAIN_FIELDS), NO_GEOMETRY
-        )
-        for sink, name in ((output, OUTPUT), (domains, OUTPUT_DOMAINS)):
-            if sink is None:
-                raise QgsProcessingException(self.invalidSinkError(parameters, name))
-        skipped, skipped_id = self.parameterAsSink(
+        skipped_fields = CarriedFields(points.fields(), F.SKIPPED_ROWS)
+        crs = points.sourceCrs()
+        sinks = self.open_sinks(
             parameters,
-            SKIPPED,
             context,
-            skipped_fields.fields,
-            points.wkbType(),
-            points.sourceCrs(),
+            (
+                (OUTPUT, carried.qgs_fields(), points.wkbType(), crs),
+                (OUTPUT_DOMAINS, F.DIP_DOMAINS.qgs_fields(), NO_GEOMETRY, crs),
+                (SKIPPED, skipped_fields.qgs_fields(), points.wkbType(), crs),
+            ),
+            required=(OUTPUT, OUTPUT_DOMAINS),
         )
-        table = result["table"]
-        dom_dip = np.where(result["group"] >= 0, table["mean_dip"][result["group"]], np.nan)
+        reasons = result["reasons"]
         ledger = RunLedger(feedback)
-        per_section = Counter()
-        total = max(len(rows["fids"]), 1)
-        for i, attributes in enumerate(rows["attributes"]):
-            if feedback.isCanceled():
-                break
-            ledger.read += 1
-            feature = QgsFeature()
-            feature.setGeometry(rows["geometries"][i])
-            reason = result["reasons"][i]
-            if reason:
-                ledger.skip(reason)
-                if skipped is not None:
-                    feature.setAttributes(skipped_fields.row(attributes, [reason]))
-                    skipped.addFeature(feature, FAST_INSERT)
-                continue
-            values = [
-                int(result["domain"][i]),
-                float(dom_dip[i]),
-                int(result["represent"][i]),
-                str(result["why"][i]),
-            ]
-            feature.setAttributes(carried.row(attributes, values))
-            output.addFeature(feature, FAST_INSERT)
-            ledger.written += 1
-            per_section[result["labels"][i]] += 1
-            if i % 1000 == 0:
-                feedback.setProgress(60 + 30 * i / total)
-        self._write_domains(domains, result)
-        domain_count = Counter(result["labels"][table["rep"]].tolist())
+        ledger.read = len(reasons)
+        for reason in reasons[reasons != ""]:
+            ledger.skip(reason)
+        bad = np.flatnonzero(reasons != "")
+        skip_features(
+            sinks[SKIPPED][0],
+            skipped_fields,
+            [rows["geometries"][i] for i in bad],
+            [rows["attributes"][i] for i in bad],
+            result["source_ids"][bad],
+            reasons[bad],
+        )
+        good = np.flatnonzero(reasons == "")
+        ledger.written = len(good)
+        table = result["table"]
+        columns = {
+            F.DOMAIN: result["domain"][good],
+            F.DOMAIN_DIP: table["mean_dip"][result["group"][good]],
+            F.REPRESENT: result["represent"][good].astype(int),
+            F.WHY: result["why"][good],
+        }
+        add_qgis_features(
+            sinks[OUTPUT][0],
+            [rows["geometries"][i] for i in good],
+            carried.rows(carried.columns([rows["attributes"][i] for i in good], columns)),
+        )
+        feedback.setProgress(90)
+        rep = table["rep"]
+        domain_rows = F.DIP_DOMAINS.rows(
+            {
+                F.SECTION: result["labels"][rep],
+                F.DOMAIN: result["domain"][rep],
+                F.FROM_CHAINAGE: table["from_ch"],
+                F.TO_CHAINAGE: table["to_ch"],
+                F.COUNT: table["count"],
+                F.MEAN_DIP: table["mean_dip"],
+                F.DIP_SPREAD: table["dip_sd"],
+                F.DIPS_TO: table["dips_to"],
+                F.REPRESENTATIVE_FID: result["source_ids"][rep],
+            }
+        )
+        add_qgis_features(sinks[OUTPUT_DOMAINS][0], [None] * len(domain_rows), domain_rows)
+        per_section = Counter(result["labels"][good].tolist())
+        domain_count = Counter(result["labels"][rep].tolist())
         for label in result["sections"]:
             if label:
                 feedback.pushInfo(
                     f"Section {label}: {per_section[label]} attitude(s) in "
                     f"{domain_count[label]} domain(s)."
                 )
-        ledger.close()
         feedback.setProgress(100)
-        results = {OUTPUT: output_id, OUTPUT_DOMAINS: domains_id}
-        if skipped is not None:
-            results[SKIPPED] = skipped_id
-        return results
-
-    @staticmethod
-    def _write_domains(sink, result):
-        table = result["table"]
-        for k, rep in enumerate(table["rep"]):
-            feature = QgsFeature()
-            feature.setAttributes(
-                [
-                    str(result["labels"][rep]),
-                    int(result["domain"][rep]),
-                    float(table["from_ch"][k]),
-                    float(table["to_ch"][k]),
-                    int(table["count"][k]),
-                    float(table["mean_dip"][k]),
-                    float(table["dip_sd"][k]),
-                    str(table["dips_to"][k]),
-                    int(result["source_ids"][rep]),
-                ]
-            )
-            sink.addFeature(feature, FAST_INSERT)
+        ledger.close()
+        return sink_results(sinks)

@@ -6,10 +6,8 @@ import shapely
 from qgis.core import (
     QgsCoordinateTransform,
     QgsCsException,
-    QgsFeature,
     QgsFeatureRequest,
     QgsProcessingException,
-    QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterField,
@@ -17,7 +15,6 @@ from qgis.core import (
 )
 
 from .compat.qgis_compat import (
-    FAST_INSERT,
     LINE_STRING,
     NO_GEOMETRY,
     NUMBER_DOUBLE,
@@ -39,18 +36,24 @@ from .core.section_choice import (
     suggested_lines,
 )
 from .core.units import polygon_index_at
-from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
+from .framework.base import (
+    INPUT,
+    LINE_ID_FIELD,
+    MAX_DISTANCE,
+    SKIPPED,
+    SectionwrightAlgorithm,
+    sink_results,
+)
 from .framework.ledger import RunLedger
 from .inputs.attitudes import AttitudeSettings, add_attitude_parameters, geometry_reason
 from .inputs.section_lines import crs_wkt, read_section_parts, section_label, working_crs
 from .outputs import fields as F
-from .outputs.carried_fields import computed_fields
-from .outputs.geometry_io import add_features
+from .outputs.geometry_io import add_features, add_qgis_features, to_qgis
+from .outputs.skipped import write_skipped
 
 ATTITUDES = "ATTITUDES"
 AREAS = "AREAS"
 AREA_FIELD = "AREA_FIELD"
-MAX_DISTANCE = "MAX_DISTANCE"
 OBLIQUE_ANGLE = "OBLIQUE_ANGLE"
 OUTPUT = "OUTPUT"
 OUTPUT_LINES = "OUTPUT_LINES"
@@ -61,13 +64,14 @@ TOO_FEW = f"area with fewer than {MIN_COUNT} attitudes"
 NO_AREA_GEOMETRY = "area without usable geometry"
 
 
-def _value(x):
-    return None if x is None or x != x else float(x)
-
-
 class StructuralTrendAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "structuraltrend"
     DISPLAY_NAME = "Structural trend and section orientation"
+    OUTPUT_SCHEMAS = {
+        OUTPUT: F.STRUCTURAL_TREND,
+        OUTPUT_LINES: F.LINES_CHECKED,
+        SKIPPED: F.SKIPPED_TREND_ROWS,
+    }
 
     def initAlgorithm(self, config=None):
         tr = self.tr
@@ -94,15 +98,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
             )
         )
         self.add_section_line_parameters("Existing section lines to check", optional=True)
-        self.addParameter(
-            QgsProcessingParameterDistance(
-                MAX_DISTANCE,
-                tr("Maximum distance of a carried attitude from a line"),
-                defaultValue=250.0,
-                parentParameterName=INPUT,
-                minValue=0.0,
-            )
-        )
+        self.add_max_distance_parameter("Maximum distance of a carried attitude from a line")
         self.addParameter(
             advanced(
                 QgsProcessingParameterNumber(
@@ -199,7 +195,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         self._write_skipped(sinks[SKIPPED][0], skipped_rows, ledger)
         ledger.close()
         feedback.setProgress(100)
-        return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+        return sink_results(sinks)
 
     def _areas(self, source, parameters, work_crs, context, feedback, skipped_rows):
         """(labels, polygons in the working CRS) of the usable areas, or None
@@ -236,48 +232,37 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         return labels, polygons
 
     def _sinks(self, parameters, context, out_crs):
-        sinks = {
-            OUTPUT: self.parameterAsSink(
-                parameters, OUTPUT, context, computed_fields(F.TREND_FIELDS), LINE_STRING, out_crs
+        return self.open_sinks(
+            parameters,
+            context,
+            (
+                (OUTPUT, F.STRUCTURAL_TREND.qgs_fields(), LINE_STRING, out_crs),
+                (OUTPUT_LINES, F.LINES_CHECKED.qgs_fields(), LINE_STRING, out_crs),
+                (SKIPPED, F.SKIPPED_TREND_ROWS.qgs_fields(), NO_GEOMETRY, out_crs),
             ),
-            OUTPUT_LINES: self.parameterAsSink(
-                parameters,
-                OUTPUT_LINES,
-                context,
-                computed_fields(F.LINE_CHECK_FIELDS),
-                LINE_STRING,
-                out_crs,
-            ),
-            SKIPPED: self.parameterAsSink(
-                parameters, SKIPPED, context, computed_fields(F.TREND_SKIPPED_FIELDS), NO_GEOMETRY
-            ),
-        }
-        if sinks[OUTPUT][0] is None:
-            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
-        return sinks
+            required=(OUTPUT,),
+        )
 
     @staticmethod
     def _write_areas(sink, labels, result, suggested, to_out, feedback):
-        for k, label in enumerate(labels):
-            if result["n"][k] < MIN_COUNT:
-                feedback.pushInfo(
-                    f"Area {label}: {result['n'][k]} usable attitude(s), fewer than the "
-                    f"{MIN_COUNT} a fabric needs; no result."
-                )
-                continue
-            values = [label, int(result["n"][k])] + [
-                _value(result[name][k]) for name in F.TREND_FIELDS[2:-1]
-            ]
-            feature = QgsFeature()
-            feature.setAttributes(values + [str(result["pattern"][k])])
+        for k in np.flatnonzero(result["n"] < MIN_COUNT):
+            feedback.pushInfo(
+                f"Area {labels[k]}: {result['n'][k]} usable attitude(s), fewer than the "
+                f"{MIN_COUNT} a fabric needs; no result."
+            )
+        kept = np.flatnonzero(result["n"] >= MIN_COUNT)
+        columns = {name: result[name][kept] for name in F.STRUCTURAL_TREND.names[1:]}
+        columns[F.AREA] = [labels[k] for k in kept]
+        rows = F.STRUCTURAL_TREND.rows(columns)
+        geometries = []
+        for k in kept:
             line = suggested[k]
             if line is not None:
                 coords = shapely.get_coordinates(line)
-                mapped = shapely.linestrings(np.column_stack(to_out(*coords.T)))
-                add_features(sink, np.array([mapped], dtype=object), [feature.attributes()])
-            else:
-                sink.addFeature(feature, FAST_INSERT)
-            feedback.pushInfo(_area_summary(label, result, k, line))
+                line = to_qgis(shapely.linestrings(np.column_stack(to_out(*coords.T))))
+            geometries.append(line)
+            feedback.pushInfo(_area_summary(labels[k], result, k, suggested[k]))
+        add_qgis_features(sink, geometries, rows)
 
     def _check_lines(self, parameters, context, feedback, lines, work_crs, attitudes, areas, out):
         xy, dip_direction, dip, reasons = attitudes
@@ -323,20 +308,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         plunge = np.where(known, result["axis_pl"][np.maximum(area, 0)], np.nan)
         texts = advice(off, best, n_near, n_oblique, pattern, plunge)
         texts = np.where(known, texts, OUTSIDE)
-        rows = []
         for i, part in enumerate(parts):
-            rows.append(
-                [
-                    part.label,
-                    labels[area[i]] if known[i] else None,
-                    float(line_az[i]),
-                    _value(best[i]),
-                    _value(off[i]),
-                    int(n_near[i]),
-                    int(n_oblique[i]),
-                    str(texts[i]),
-                ]
-            )
             feedback.pushInfo(
                 f"Section {part.label}: azimuth {line_az[i]:.0f}°, misfit "
                 + (f"{off[i]:.0f}°" if np.isfinite(off[i]) else "none")
@@ -345,17 +317,28 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         ledger.written += len(parts)
         sink = sinks[OUTPUT_LINES][0]
         if sink is not None:
+            rows = F.LINES_CHECKED.rows(
+                {
+                    F.SECTION: [p.label for p in parts],
+                    F.AREA: [labels[a] if a >= 0 else None for a in area],
+                    F.LINE_AZIMUTH: line_az,
+                    F.BEST_AZIMUTH: best,
+                    F.MISFIT: off,
+                    F.NEAR_COUNT: n_near,
+                    F.OBLIQUE_COUNT: n_oblique,
+                    F.ADVICE: texts,
+                }
+            )
             mapped = [shapely.linestrings(np.column_stack(to_out(*p.coords.T))) for p in parts]
             add_features(sink, np.array(mapped, dtype=object), rows)
 
     @staticmethod
     def _write_skipped(sink, skipped_rows, ledger):
-        for table, fid, reason in skipped_rows:
+        for _, _, reason in skipped_rows:
             ledger.skip(reason)
-            if sink is not None:
-                feature = QgsFeature()
-                feature.setAttributes([table, fid, reason])
-                sink.addFeature(feature, FAST_INSERT)
+        tables, fids, reasons = zip(*skipped_rows) if skipped_rows else ((), (), ())
+        rows = F.SKIPPED_TREND_ROWS.rows({F.TABLE: tables, F.SOURCE_FID: fids, F.REASON: reasons})
+        write_skipped(sink, [None] * len(rows), rows)
 
 
 def _extent(xy):

@@ -63,7 +63,7 @@ def main(demo):
 
     from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
     from sectionwright.algorithms.outputs import styles
-    from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
+    from sectionwright.algorithms.outputs.section_space import section_crs
     from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
     from sectionwright.algorithms.sheet.page import add_page
 
@@ -116,7 +116,7 @@ def main(demo):
     add(results, "trend_lines", "Section lines checked against the trend", trend_group)
     add(results, "attitude_domains", "Attitudes with dip domains", trend_group)
     add(results, "domains", "Dip domains", trend_group)
-    engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+    engineering = section_crs()
     view = {}
     for layer_name, name, renderer in (
         ("profile_section", "Ground surface", styles.profile_renderer()),
