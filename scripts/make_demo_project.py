@@ -69,7 +69,7 @@ def main(demo):
     from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
     from sectionwright.algorithms.outputs import styles
     from sectionwright.algorithms.outputs.output_styles import SECTION_VIEW_GROUP, apply_style
-    from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
+    from sectionwright.algorithms.outputs.section_space import section_crs
     from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
     from sectionwright.algorithms.sheet.page import add_page
 
@@ -150,7 +150,20 @@ def main(demo):
     ):
         add_result(layer_name, name, results_group, algorithm_id, output_name)
 
-    engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+    trend_group = root.addGroup("Structural trend and dip domains")
+    for layer_name, name, algorithm_id, output_name in (
+        ("trend", "Suggested section line (structural trend)", "structuraltrend", "OUTPUT"),
+        (
+            "trend_lines",
+            "Section lines checked against the trend",
+            "structuraltrend",
+            "OUTPUT_LINES",
+        ),
+        ("attitude_domains", "Attitudes with dip domains", "dipdomains", "OUTPUT"),
+        ("domains", "Dip domains", "dipdomains", "OUTPUT_DOMAINS"),
+    ):
+        add_result(layer_name, name, trend_group, algorithm_id, output_name)
+    engineering = section_crs()
     view = {}
     for layer_name, name, algorithm_id, output_name in (
         ("attitude_ticks", "Dip ticks", "projectattitudes", "OUTPUT_TICKS"),

@@ -40,9 +40,6 @@ SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.Typ
 SOURCE_POLYGONS = _scoped("ProcessingSourceType", "VectorPolygon", QgsProcessing.TypeVectorPolygon)
 SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", QgsProcessing.TypeVector)
 
-FLAG_ADVANCED = _scoped(
-    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.FlagAdvanced
-)
 NUMBER_DOUBLE = _scoped(
     "ProcessingNumberParameterType", "Double", QgsProcessingParameterNumber.Double
 )
@@ -62,6 +59,9 @@ SKIP_GEOMETRY_CHECKS = _scoped(
 NO_GEOMETRY_REQUEST = _scoped("FeatureRequestFlag", "NoGeometry", QgsFeatureRequest.Flag.NoGeometry)
 NO_THREADING = _scoped(
     "ProcessingAlgorithmFlag", "NoThreading", QgsProcessingAlgorithm.Flag.FlagNoThreading
+)
+ADVANCED = _scoped(
+    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.Flag.FlagAdvanced
 )
 EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
 LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)
@@ -122,3 +122,9 @@ def geometry_kind(layer):
     """ "point", "line", "polygon" or "none" (a table) for a vector layer or
     a feature source."""
     return _GEOMETRY_KINDS.get(QgsWkbTypes.geometryType(layer.wkbType()), "none")
+
+
+def advanced(parameter):
+    """The parameter, marked as rarely changed (under Advanced parameters)."""
+    parameter.setFlags(parameter.flags() | ADVANCED)
+    return parameter

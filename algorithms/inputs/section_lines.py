@@ -6,7 +6,6 @@ from typing import Optional
 import numpy as np
 import shapely
 from qgis.core import (
-    NULL,
     QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
     QgsCsException,
@@ -15,7 +14,13 @@ from qgis.core import (
     QgsProcessingException,
 )
 
-from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
+from ..compat.null import plain
+from ..compat.qgis_compat import (
+    SKIP_GEOMETRY_CHECKS,
+    UNIT_METERS,
+    is_curved,
+    unit_name,
+)
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
 
@@ -40,13 +45,16 @@ def crs_wkt(crs):
     return crs.toWkt(WKT2)
 
 
-def working_crs(source, context, feedback):
+def working_crs(source, context, feedback, layer=("Section lines", "the section lines")):
     """The section lines' CRS when projected, else the UTM zone of the centre
-    of their extent (one CRS per run); the log says which and in what unit."""
+    of their extent (one CRS per run); the log says which and in what unit.
+    ``layer``: the parameter's label and the layer's name in messages, when
+    the layer that sets the CRS is another one."""
+    label, name = layer
     crs = source.sourceCrs()
     if not crs.isValid():
         raise QgsProcessingException(
-            "Section lines: the section lines have no coordinate reference system. "
+            f"{label}: {name} have no coordinate reference system. "
             "Set one in the layer's properties (Source) and run again."
         )
     if not crs.isGeographic():
@@ -61,7 +69,7 @@ def working_crs(source, context, feedback):
     )
     work = QgsCoordinateReferenceSystem(f"EPSG:{utm_epsg(centre.x(), centre.y())}")
     feedback.pushInfo(
-        f"The section lines are in a geographic CRS ({crs.authid()}); "
+        f"{name[0].upper() + name[1:]} are in a geographic CRS ({crs.authid()}); "
         f"working CRS: {work.authid()} {work.description()}, in metres."
     )
     return work
@@ -70,8 +78,8 @@ def working_crs(source, context, feedback):
 def section_label(feature, id_field):
     """The section's label: the LINE_ID_FIELD value, else the feature id."""
     if id_field:
-        value = feature[id_field]
-        if value is not None and value != NULL and str(value).strip():
+        value = plain(feature[id_field])
+        if value is not None and str(value).strip():
             return str(value).strip()
     return str(feature.id())
 

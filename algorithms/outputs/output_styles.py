@@ -76,6 +76,9 @@ OUTPUT_STYLES = {
     ("projectboreholes", "OUTPUT"): _renderer(styles.hole_renderer),
     ("projectboreholes", "OUTPUT_INTERVALS"): _by_values(styles.code_interval_renderer, F.CODE),
     ("projectboreholes", "OUTPUT_TRACES"): _renderer(styles.trace_renderer),
+    ("structuraltrend", "OUTPUT"): _renderer(styles.suggested_line_renderer),
+    ("structuraltrend", "OUTPUT_LINES"): _renderer(lambda: styles.misfit_renderer(F.MISFIT)),
+    ("dipdomains", "OUTPUT"): _attitudes,
     (ANY_ALGORITHM, "SKIPPED"): _skipped,
 }
 

@@ -7,12 +7,15 @@ boundaries. Units take them in the alphabetical order of their labels.
 
 from qgis.core import (
     QgsCategorizedSymbolRenderer,
+    QgsExpression,
     QgsLineSymbol,
     QgsMarkerSymbol,
     QgsRendererCategory,
     QgsSingleSymbolRenderer,
 )
 from qgis.PyQt.QtGui import QColor
+
+from . import fields as F
 
 UNIT_COLOURS = (
     "#e6d5a3",
@@ -131,8 +134,9 @@ def crossing_renderer():
             "contact",
         ),
     ]
+    kind = QgsExpression.quotedColumnRef(F.KIND)
     return QgsCategorizedSymbolRenderer(
-        "CASE WHEN \"kind\" IN ('unit boundary', 'fault') THEN \"kind\" ELSE '' END", categories
+        f"CASE WHEN {kind} IN ('unit boundary', 'fault') THEN {kind} ELSE '' END", categories
     )
 
 
@@ -372,3 +376,28 @@ def dip_labels(dip_field):
     settings.placement = LABEL_AROUND_POINT
     settings.dist = 1.2
     return QgsVectorLayerSimpleLabeling(settings)
+
+
+SUGGESTED = "#1f5f8b"
+
+
+def suggested_line_renderer():
+    """A section line the structure suggests: bold, dashed, in blue."""
+    return _single_line(SUGGESTED, 0.8, "dash")
+
+
+def misfit_renderer(misfit_field):
+    """Existing section lines by their misfit to the structure: within 20°
+    dark green, to 45° amber, beyond red (common practice: a section within
+    about 20° of the dip direction shows apparent dips close to true)."""
+    from qgis.core import QgsRuleBasedRenderer
+
+    root = QgsRuleBasedRenderer.Rule(None)
+    for colour, expression, label in (
+        ("#2e7d32", f'"{misfit_field}" <= 20', "within 20° of the best azimuth"),
+        ("#d9a441", f'"{misfit_field}" > 20 AND "{misfit_field}" <= 45', "20–45° off"),
+        (SKIPPED_COLOUR, f'"{misfit_field}" > 45', "more than 45° off"),
+    ):
+        symbol = QgsLineSymbol.createSimple({"line_color": colour, "line_width": "0.9"})
+        root.appendChild(QgsRuleBasedRenderer.Rule(symbol, 0, 0, expression, label))
+    return QgsRuleBasedRenderer(root)

@@ -28,6 +28,8 @@ def algorithms(provider):
         "geologycrossings",
         "projectboreholes",
         "sectionsheet",
+        "structuraltrend",
+        "dipdomains",
     ],
 )
 def test_help_is_whole_blocks_with_choices_by_label(algorithms, name):

@@ -217,9 +217,9 @@ def test_run_and_load_results_styles_every_output(
     }
     assert loaded, results
     for output, layer in loaded.items():
-        assert style_for(name, output) is not None, output
         if geometry_kind(layer) == "none":
-            continue
+            continue  # a table: nothing to draw
+        assert style_for(name, output) is not None, output
         as_loaded = layer.renderer().dump()
         style_for(name, output)(layer)  # the table's style, made afresh
         assert as_loaded == layer.renderer().dump(), output
