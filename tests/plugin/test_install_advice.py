@@ -13,6 +13,9 @@ from installed_plugin import load
 
 from sectionwright.plugin import dependencies
 
+# test_releases.sh copies the machine's CA bundle into each root for pip.
+HOST_CA_BUNDLE = Path("/etc/ssl/certs/host-ca-bundle.crt")
+
 
 def qgis_python():
     """The interpreter QGIS's Python bindings belong to: the base of the
@@ -65,6 +68,8 @@ def test_following_the_advice_gives_a_working_profile(profile, user_base, demo_d
         PIP_DISABLE_PIP_VERSION_CHECK="1",
     )
     env.pop("PYTHONNOUSERSITE", None)
+    if HOST_CA_BUNDLE.exists():  # inside a release root: the machine's own CA bundle
+        env.update(PIP_CERT=str(HOST_CA_BUNDLE), PIP_CONFIG_FILE="/dev/null")
     env.pop("PYTHONPATH", None)
     numpy_before = run_python(python, "import numpy; print(numpy.__version__)", env)
     had_shapely_2 = (
