@@ -141,6 +141,43 @@ def _viewer_and_dialog(iface):
     return shots
 
 
+def _run_and_load():
+    """Topographic profile run as the dialog runs it, its outputs loaded:
+    which groups they land in, shown or not, with which renderer."""
+    import processing
+
+    project = QgsProject.instance()
+    lines, dem = project.mapLayersByName("Section lines"), project.mapLayersByName("DEM")
+    if not lines or not dem:
+        return None
+    before = set(project.mapLayers())
+    processing.runAndLoadResults(
+        "sectionwright:profile",
+        {
+            "INPUT": lines[0],
+            "DEM": dem[0],
+            "STEP": 50,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": "TEMPORARY_OUTPUT",
+            "OUTPUT_SECTION": "TEMPORARY_OUTPUT",
+        },
+    )
+    QgsApplication.processEvents()
+    added = []
+    for layer_id in set(project.mapLayers()) - before:
+        layer = project.mapLayer(layer_id)
+        node = project.layerTreeRoot().findLayer(layer_id)
+        added.append(
+            {
+                "name": layer.name(),
+                "group": node.parent().name() if node and node.parent() else "",
+                "visible": bool(node and node.isVisible()),
+                "renderer": type(layer.renderer()).__name__ if layer.renderer() else "",
+            }
+        )
+    return sorted(added, key=lambda row: row["name"])
+
+
 def _finish(iface):
     _note_message_bar(iface)
     project = QgsProject.instance()
@@ -160,8 +197,11 @@ def _finish(iface):
     }
     try:
         report["screenshots"].update(_viewer_and_dialog(iface))
+        report["run_and_load"] = _run_and_load()
+        _wait_drawn(canvas)
+        report["screenshots"]["results"] = _screenshot("results")
     except Exception as error:  # reported, so the test can show it
-        _record("smoke", "desktop_session", f"viewer/dialog step failed: {error!r}", 2)
+        _record("smoke", "desktop_session", f"viewer/dialog/run step failed: {error!r}", 2)
     import qgis.utils
 
     report["plugins"] = sorted(qgis.utils.active_plugins)
