@@ -94,14 +94,14 @@ def _label(
     size=9,
     bold=False,
     italic=False,
-    align=Qt.AlignLeft,
+    align=Qt.AlignmentFlag.AlignLeft,
     rotation=0.0,
 ):
     item = QgsLayoutItemLabel(layout)
     item.setText(text)
     set_label_text(item, _text_format(size, bold, italic))
     item.setHAlign(align)
-    item.setVAlign(Qt.AlignVCenter)
+    item.setVAlign(Qt.AlignmentFlag.AlignVCenter)
     layout.addLayoutItem(item)
     _place(item, page, x, y, width, height)
     if rotation:
@@ -242,10 +242,18 @@ def add_page(layout, page, page_size, section):
         6,
         11,
         True,
-        align=Qt.AlignRight,
+        align=Qt.AlignmentFlag.AlignRight,
     )
     _label(
-        layout, page, "Chainage (m)", map_x, map_y + map_h + 7, map_w, 5, 8, align=Qt.AlignHCenter
+        layout,
+        page,
+        "Chainage (m)",
+        map_x,
+        map_y + map_h + 7,
+        map_w,
+        5,
+        8,
+        align=Qt.AlignmentFlag.AlignHCenter,
     )
     _label(
         layout,
@@ -256,7 +264,7 @@ def add_page(layout, page, page_size, section):
         40,
         5,
         8,
-        align=Qt.AlignHCenter,
+        align=Qt.AlignmentFlag.AlignHCenter,
         rotation=-90.0,
     )
 
