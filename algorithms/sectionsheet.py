@@ -22,6 +22,7 @@ from qgis.core import (
     QgsRectangle,
 )
 
+from .compat.null import plain
 from .compat.qgis_compat import (
     EXPORT_SUCCESS,
     FAST_INSERT,
@@ -305,7 +306,8 @@ class SheetBuilder:
         if ground is None:
             return None
         ve_field = self.profile.fields().lookupField("ve")
-        exaggeration = float(ground["ve"]) if ve_field >= 0 else 1.0
+        ve = plain(ground["ve"]) if ve_field >= 0 else None
+        exaggeration = 1.0 if ve is None else float(ve)
         inputs = self.inputs
         holes = copy_section(
             inputs.get(BOREHOLES), part.label, "Boreholes", "LineString", styles.hole_renderer()
@@ -379,7 +381,7 @@ def _units(layer):
     if layer is None or layer.fields().lookupField("unit") < 0:
         return []
     values = layer.uniqueValues(layer.fields().lookupField("unit"))
-    return sorted({str(v) for v in values if v is not None and str(v) not in ("", "NULL")})
+    return sorted({str(v) for v in map(plain, values) if v is not None and str(v) != ""})
 
 
 def _extent(layers, ground):

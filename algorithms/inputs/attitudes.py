@@ -6,7 +6,6 @@ from typing import List
 
 import numpy as np
 from qgis.core import (
-    NULL,
     QgsFeatureRequest,
     QgsProcessingException,
     QgsProcessingParameterEnum,
@@ -14,6 +13,7 @@ from qgis.core import (
     QgsProcessingParameterNumber,
 )
 
+from ..compat.null import plain
 from ..compat.qgis_compat import NUMBER_DOUBLE, SKIP_GEOMETRY_CHECKS
 from ..core.attitudes import (
     DIP_DIRECTION,
@@ -109,10 +109,6 @@ def add_attitude_parameters(algorithm, parent):
     )
 
 
-def _value(raw):
-    return None if raw is None or raw == NULL else raw
-
-
 @dataclass
 class AttitudeRows:
     """The attitude features as read, and their planes (NaN + reason where
@@ -172,7 +168,7 @@ class AttitudeSettings:
             rows.geometries.append(geometry)
             xyz.append(_point_xyz(geometry))
             for name in wanted:
-                raw[name].append(_value(feature[name]))
+                raw[name].append(plain(feature[name]))
             if number % 1000 == 0:
                 feedback.setProgress(progress_share * number / total)
         rows.xyz = np.array(xyz, dtype=float).reshape(-1, 3)

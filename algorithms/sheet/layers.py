@@ -11,6 +11,7 @@ from qgis.core import (
     QgsVectorLayer,
 )
 
+from ..compat.null import plain
 from ..outputs.section_space import SECTION_CRS_WKT, is_section_view
 
 
@@ -62,13 +63,10 @@ def crossings_in_section(source, label, exaggeration, name, renderer):
     layer = _memory_layer("Point", name, source.fields(), section_crs())
     features = []
     for feature in source.getFeatures(section_filter(label)):
-        chainage, elevation = feature["chainage"], feature["elev"]
+        chainage, elevation = plain(feature["chainage"]), plain(feature["elev"])
         if chainage is None or elevation is None or elevation != elevation:
             continue
-        try:
-            point = QgsPointXY(float(chainage), float(elevation) * exaggeration)
-        except TypeError:  # a NULL that is not None
-            continue
+        point = QgsPointXY(float(chainage), float(elevation) * exaggeration)
         copy = QgsFeature(feature)
         copy.setGeometry(QgsGeometry.fromPointXY(point))
         features.append(copy)
