@@ -16,7 +16,6 @@ from qgis.core import (
     QgsPalLayerSettings,
     QgsRectangle,
     QgsTextFormat,
-    QgsUnitTypes,
     QgsVectorLayerSimpleLabeling,
 )
 from qgis.PyQt.QtCore import Qt
@@ -28,6 +27,7 @@ from ..compat.qgis_compat import (
     LEGEND_GROUP,
     LEGEND_ITEM,
     LEGEND_TITLE,
+    UNIT_METERS,
     set_label_text,
     set_legend_text,
 )
@@ -271,7 +271,7 @@ def add_page(layout, page, page_size, section):
     scale_bar = QgsLayoutItemScaleBar(layout)
     scale_bar.setStyle("Single Box")
     scale_bar.setLinkedMap(section_map)
-    scale_bar.setUnits(QgsUnitTypes.DistanceMeters)
+    scale_bar.setUnits(UNIT_METERS)
     scale_bar.setUnitLabel("m")
     scale_bar.setNumberOfSegments(2)
     scale_bar.setNumberOfSegmentsLeft(0)

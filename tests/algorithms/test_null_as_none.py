@@ -147,7 +147,8 @@ def geology_case(tmp_path):
     units = point_layer(
         [
             (
-                f"POLYGON(({x} {y}, {x + 1000} {y}, {x + 1000} {y + 2000}, {x} {y + 2000}, {x} {y}))",
+                f"POLYGON(({x} {y}, {x + 1000} {y}, {x + 1000} {y + 2000}, {x} {y + 2000}, "
+                f"{x} {y}))",
                 ["SST"],
             ),
             (
