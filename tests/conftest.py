@@ -25,22 +25,17 @@ gdal.UseExceptions()  # the tests' own GDAL calls (newer GDAL asks to choose)
 
 
 # sip names the class first: "QgsField constructor is deprecated",
-# "QgsLayoutItemLabel.setFont() is deprecated". Prefixes, as PYTHONWARNINGS
-# takes them for the QGIS processes that tests start.
-QGIS_DEPRECATION_PREFIXES = ("Qgs", "Qgis")
+# "QgsLayoutItemLabel.setFont() is deprecated".
+QGIS_DEPRECATIONS = r"(Qgs|Qgis)\w*(\.\w+\(\)| constructor) is deprecated"
 
 
 def pytest_configure(config):
     """SECTIONWRIGHT_QGIS_DEPRECATIONS=error (the QGIS 3.44 leg): QGIS's own
-    deprecation warnings fail the run, here and in the QGIS processes tests
-    start; other libraries' deprecations stay ignored (pytest.ini)."""
-    if os.environ.get("SECTIONWRIGHT_QGIS_DEPRECATIONS") != "error":
-        return
-    for prefix in QGIS_DEPRECATION_PREFIXES:
-        config.addinivalue_line("filterwarnings", f"error:{prefix}:DeprecationWarning")
-    children = [f"error:{p}::DeprecationWarning" for p in QGIS_DEPRECATION_PREFIXES]
-    inherited = os.environ.get("PYTHONWARNINGS")
-    os.environ["PYTHONWARNINGS"] = ",".join(([inherited] if inherited else []) + children)
+    deprecation warnings fail the test; other libraries' deprecations stay
+    ignored (pytest.ini). Only in this process: the QGIS processes some tests
+    start reset the warning filters themselves (qgis.utils)."""
+    if os.environ.get("SECTIONWRIGHT_QGIS_DEPRECATIONS") == "error":
+        config.addinivalue_line("filterwarnings", f"error:{QGIS_DEPRECATIONS}:DeprecationWarning")
 
 
 @pytest.fixture(scope="session")

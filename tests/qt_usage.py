@@ -7,7 +7,8 @@ lists
   the Qt package: imports (``from qgis.PyQt.QtGui import QColor`` →
   ``QtGui.QColor``) and attribute chains on them (``Qt.AlignmentFlag.AlignLeft``
   → ``QtCore.Qt.AlignmentFlag.AlignLeft``), so that each can be looked up in
-  PyQt6 (``pyqt6_resolve.py``);
+  PyQt6 (``pyqt6_resolve.py``), and likewise every name used through
+  qgis.core, qgis.gui and qgis.analysis (``qgis_names.py`` judges them);
 - every Qt5-only idiom, which would not run under QGIS 4 even where a name
   happens to resolve (``exec_``, QVariant type constants, ``QRegExp``,
   compiled resources, signal overload subscripts, Qt imported past
@@ -27,6 +28,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 QT_PACKAGE = "qgis.PyQt"
+QGIS_PACKAGES = ("qgis.core", "qgis.gui", "qgis.analysis")
 SKIPPED_FOLDERS = {"__pycache__", "dist", "demo", "node_modules"}
 # The version each kind of check compares with, below which a branch is Qt5-era.
 QGIS_4 = 40000
@@ -54,9 +56,15 @@ RESOURCE_CALLS = {"qInitResources", "qCleanupResources", "qRegisterResourceData"
 
 @dataclass(frozen=True)
 class Use:
-    name: str  # relative to the Qt package: "QtCore.Qt.AlignmentFlag.AlignLeft"
+    # Qt names relative to the Qt package ("QtCore.Qt.AlignmentFlag.AlignLeft"),
+    # QGIS names in full ("qgis.core.QgsWkbTypes.PointZ").
+    name: str
     where: str  # "algorithms/sheet/page.py:97"
     legacy: bool  # in a compatibility branch QGIS 4 never takes
+
+    @property
+    def qt(self):
+        return not self.name.startswith("qgis.")
 
 
 @dataclass(frozen=True)
@@ -109,7 +117,7 @@ class _Scanner(ast.NodeVisitor):
         self.relative = relative
         self.compat = compat
         self.plugin_file = plugin_file
-        self.aliases = {}  # local dotted name -> Qt path ("" = the Qt package)
+        self.aliases = {}  # local dotted name -> Use.name it stands for
         self.uses = []
         self.findings = []
         self.legacy = 0
@@ -147,14 +155,14 @@ class _Scanner(ast.NodeVisitor):
         """Aliases first, so a use above its (function-level) import counts."""
         for node in ast.walk(tree):
             if isinstance(node, ast.ImportFrom) and node.level == 0 and node.module:
-                qt = _qt_path(node.module)
+                qt = _binding_path(node.module)
                 if qt is not None:
                     for alias in node.names:
                         if alias.name != "*":
                             self.aliases[alias.asname or alias.name] = _join(qt, alias.name)
             elif isinstance(node, ast.Import):
                 for alias in node.names:
-                    qt = _qt_path(alias.name)
+                    qt = _binding_path(alias.name)
                     if qt is not None:
                         self.aliases[alias.asname or alias.name] = qt
 
@@ -162,7 +170,7 @@ class _Scanner(ast.NodeVisitor):
         module = node.module or ""
         if node.level == 0 and _direct_qt(module):
             self.find("Qt past qgis.PyQt", node, f"from {module} import …: use qgis.PyQt")
-        qt = _qt_path(module) if node.level == 0 else None
+        qt = _binding_path(module) if node.level == 0 else None
         for alias in node.names:
             if _is_resource_module(alias.name) or _is_resource_module(module):
                 self.find("compiled resources", node, f"imports {alias.name}")
@@ -179,7 +187,7 @@ class _Scanner(ast.NodeVisitor):
                 self.find("Qt past qgis.PyQt", node, f"import {alias.name}: use qgis.PyQt")
             if _is_resource_module(alias.name):
                 self.find("compiled resources", node, f"imports {alias.name}")
-            qt = _qt_path(alias.name)
+            qt = _binding_path(alias.name)
             if qt:
                 self.use(qt, node)
 
@@ -283,8 +291,11 @@ class _Scanner(ast.NodeVisitor):
             )
 
 
-def _qt_path(module):
-    """``qgis.PyQt.QtCore`` → ``QtCore``, ``qgis.PyQt`` → ``""``, else None."""
+def _binding_path(module):
+    """``qgis.PyQt.QtCore`` → ``QtCore``, ``qgis.PyQt`` → ``""``, a QGIS module
+    → itself, else None."""
+    if any(module == p or module.startswith(p + ".") for p in QGIS_PACKAGES):
+        return module
     if module == QT_PACKAGE:
         return ""
     if module.startswith(QT_PACKAGE + "."):

@@ -16,6 +16,7 @@ from pathlib import Path
 import build_zip
 import pyqt6_venv
 import pytest
+from qgis_names import name_problem
 from qt_usage import resource_files, scan, source_files
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -70,7 +71,7 @@ def test_no_qt5_only_idioms():
 @ON_HOST_ONLY
 def test_every_qt_name_resolves_in_pyqt6():
     uses, _ = scanned()
-    current = [u for u in uses if not u.legacy]
+    current = [u for u in uses if u.qt and not u.legacy]
     assert current, "the scan found no Qt names at all"
     why = resolve_in_pyqt6(u.name for u in current)
     problems = [f"{u.where}: {why[u.name]}" for u in current if why[u.name]]
@@ -82,13 +83,23 @@ def test_compatibility_spellings_for_older_qgis_resolve_here():
     running QGIS's Qt (3.22's PyQt5 on the host)."""
     uses, _ = scanned()
     problems = []
-    for use in (u for u in uses if u.legacy):
+    for use in (u for u in uses if u.qt and u.legacy):
         module, *attributes = use.name.split(".")
         owner = importlib.import_module(f"qgis.PyQt.{module}")
         for attribute in attributes:
             owner = getattr(owner, attribute, None)
         if owner is None:
             problems.append(f"{use.where}: qgis.PyQt.{use.name} does not resolve")
+    assert not problems, "\n".join(problems)
+
+
+def test_qgis_names_are_scoped_and_no_aliases():
+    """QGIS 4 takes enum members only scoped and need not keep the aliases
+    3.30+ patches in; on this release every QGIS name must be such a one."""
+    uses, _ = scanned()
+    current = [u for u in uses if not u.qt and not u.legacy]
+    assert current, "the scan found no QGIS names at all"
+    problems = [f"{u.where}: {name_problem(u.name)}" for u in current if name_problem(u.name)]
     assert not problems, "\n".join(problems)
 
 

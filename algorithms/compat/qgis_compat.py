@@ -73,6 +73,9 @@ LEGEND_ITEM = scoped("LegendComponent", "SymbolLabel", "QgsLegendStyle.Style.Sym
 CRITICAL = scoped("MessageLevel", "Critical", "Qgis.Critical")
 
 UNIT_METERS = scoped("DistanceUnit", "Meters", "QgsUnitTypes.DistanceMeters")
+WKT2_2019 = scoped(
+    "CrsWktVariant", "Wkt2_2019", "QgsCoordinateReferenceSystem.WktVariant.WKT2_2019"
+)
 
 DOUBLE, LONG, STRING = field_types()
 
