@@ -4,6 +4,7 @@ the source uses through ``qgis.PyQt`` must resolve in the real PyQt6
 left, and the Qt5 spellings the compatibility package keeps for QGIS 3.22
 must resolve in this QGIS's own Qt."""
 
+import configparser
 import importlib
 import json
 import os
@@ -91,6 +92,15 @@ def test_compatibility_spellings_for_older_qgis_resolve_here():
         if owner is None:
             problems.append(f"{use.where}: qgis.PyQt.{use.name} does not resolve")
     assert not problems, "\n".join(problems)
+
+
+def test_metadata_lets_qgis_4_and_qt6_builds_install_it():
+    metadata = configparser.ConfigParser()
+    metadata.read(ROOT / "metadata.txt")
+    general = metadata["general"]
+    major, minor = (int(n) for n in general["qgisMaximumVersion"].split(".")[:2])
+    assert (major, minor) >= (4, 99)
+    assert general.getboolean("supportsQt6")
 
 
 def test_qgis_names_are_scoped_and_no_aliases():
