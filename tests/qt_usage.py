@@ -18,7 +18,8 @@ The compatibility package may spell a name the Qt5 way, but only in a branch
 that QGIS 4 never takes: the else-branch of ``if <QGIS version> >= N``, the
 statements after such an ``if`` whose body returns, or the body of
 ``if <QGIS version> < N``, with N at most 4.0 (for the Qt version: at most
-6.0). Names used there are listed as legacy: they must resolve in the
+6.0), and ``except ImportError`` after an import (which itself must resolve
+in PyQt6). Names used there are listed as legacy: they must resolve in the
 running QGIS's own Qt instead.
 """
 
@@ -236,6 +237,18 @@ class _Scanner(ast.NodeVisitor):
         if isinstance(node.value, str) and re.match(r"(qrc)?:/", node.value):
             self.find("compiled resources", node, f"resource path {node.value!r}")
 
+    def visit_Try(self, node):  # noqa: N802
+        """In the compatibility package, ``except ImportError`` after an import
+        that resolves in PyQt6 is a branch QGIS 4 never takes."""
+        self._block(node.body)
+        for handler in node.handlers:
+            legacy = self.compat and _catches_import_error(handler)
+            self.legacy += legacy
+            self.visit(handler)
+            self.legacy -= legacy
+        self._block(node.orelse)
+        self._block(node.finalbody)
+
     def visit_If(self, node):  # noqa: N802
         self._branches(node)
 
@@ -320,6 +333,11 @@ def _dotted(node):
     if isinstance(node, ast.Attribute):
         return f"{_dotted(node.value)}.{node.attr}"
     return node.id if isinstance(node, ast.Name) else ""
+
+
+def _catches_import_error(handler):
+    names = handler.type.elts if isinstance(handler.type, ast.Tuple) else [handler.type]
+    return any(_dotted(n) in ("ImportError", "ModuleNotFoundError") for n in names if n)
 
 
 def _returns_for_new_releases(statement):

@@ -143,6 +143,11 @@ def field_types(qgis_version):
     return QVariant.Double
 
 LATER = QVariant.String if Qgis.QGIS_VERSION_INT >= 50000 else None
+
+try:
+    from qgis.PyQt.QtGui import QAction
+except ImportError:
+    from qgis.PyQt.QtWidgets import QAction
 """
 
 
@@ -173,7 +178,7 @@ def test_the_scan_finds_each_qt5_idiom(tmp_path):
 def test_the_scan_keeps_qt5_spellings_to_compat_branches_qgis_4_never_takes(tmp_path):
     uses, findings = _scan_sample(tmp_path, "algorithms/compat/types.py", COMPAT_SAMPLE)
     legacy = {u.name for u in uses if u.legacy}
-    assert legacy == {"QtCore.QVariant.Double"}
+    assert legacy == {"QtCore.QVariant.Double", "QtWidgets.QAction"}
     # A branch for QGIS 5 is not one that QGIS 4 never takes.
     assert [f.idiom for f in findings] == ["QVariant type constant"]
 

@@ -11,8 +11,15 @@ later the old names are aliases that QGIS patches in for old scripts
 import qgis.core
 from qgis.core import Qgis, QgsFeatureSink, QgsLayoutExporter, QgsUnitTypes, QgsWkbTypes
 
+# Menu actions of the plugin's desktop glue. Qt6 has QAction in QtGui, and
+# so has QGIS 3.44's qgis.PyQt.QtGui for Qt5; 3.22's has it in QtWidgets only.
+try:
+    from qgis.PyQt.QtGui import QAction
+except ImportError:
+    from qgis.PyQt.QtWidgets import QAction  # noqa: F401 (imported from here)
 
-def scoped(scope, member, legacy, qgis_namespace=Qgis):
+
+def _scoped(scope, member, legacy, qgis_namespace=Qgis):
     """``Qgis.<scope>.<member>`` where this QGIS has it, else ``legacy``, the
     dotted name of the old spelling in ``qgis.core`` (``"QgsWkbTypes.PointZ"``)."""
     value = getattr(getattr(qgis_namespace, scope, None), member, None)
@@ -36,44 +43,46 @@ def field_types(qgis_version=Qgis.QGIS_VERSION_INT):
     return QVariant.Double, QVariant.LongLong, QVariant.String
 
 
-POINT_Z = scoped("WkbType", "PointZ", "QgsWkbTypes.PointZ")
-LINE_STRING = scoped("WkbType", "LineString", "QgsWkbTypes.LineString")
-LINE_STRING_Z = scoped("WkbType", "LineStringZ", "QgsWkbTypes.LineStringZ")
-NO_GEOMETRY = scoped("WkbType", "NoGeometry", "QgsWkbTypes.NoGeometry")
-MULTI_LINE_STRING = scoped("WkbType", "MultiLineString", "QgsWkbTypes.MultiLineString")
+POINT_Z = _scoped("WkbType", "PointZ", "QgsWkbTypes.PointZ")
+LINE_STRING = _scoped("WkbType", "LineString", "QgsWkbTypes.LineString")
+LINE_STRING_Z = _scoped("WkbType", "LineStringZ", "QgsWkbTypes.LineStringZ")
+NO_GEOMETRY = _scoped("WkbType", "NoGeometry", "QgsWkbTypes.NoGeometry")
+MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", "QgsWkbTypes.MultiLineString")
 
-SOURCE_LINES = scoped("ProcessingSourceType", "VectorLine", "QgsProcessing.TypeVectorLine")
-SOURCE_POINTS = scoped("ProcessingSourceType", "VectorPoint", "QgsProcessing.TypeVectorPoint")
-SOURCE_POLYGONS = scoped("ProcessingSourceType", "VectorPolygon", "QgsProcessing.TypeVectorPolygon")
-SOURCE_ANY_VECTOR = scoped("ProcessingSourceType", "Vector", "QgsProcessing.TypeVector")
+SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", "QgsProcessing.TypeVectorLine")
+SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", "QgsProcessing.TypeVectorPoint")
+SOURCE_POLYGONS = _scoped(
+    "ProcessingSourceType", "VectorPolygon", "QgsProcessing.TypeVectorPolygon"
+)
+SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", "QgsProcessing.TypeVector")
 
-NUMBER_DOUBLE = scoped(
+NUMBER_DOUBLE = _scoped(
     "ProcessingNumberParameterType", "Double", "QgsProcessingParameterNumber.Double"
 )
 
-TEXT_AS_TEXT = scoped("TextRenderFormat", "AlwaysText", "QgsRenderContext.TextFormatAlwaysText")
-LABEL_OVER_POINT = scoped("LabelPlacement", "OverPoint", "QgsPalLayerSettings.OverPoint")
-LABEL_HORIZONTAL = scoped("LabelPlacement", "Horizontal", "QgsPalLayerSettings.Horizontal")
+TEXT_AS_TEXT = _scoped("TextRenderFormat", "AlwaysText", "QgsRenderContext.TextFormatAlwaysText")
+LABEL_OVER_POINT = _scoped("LabelPlacement", "OverPoint", "QgsPalLayerSettings.OverPoint")
+LABEL_HORIZONTAL = _scoped("LabelPlacement", "Horizontal", "QgsPalLayerSettings.Horizontal")
 FAST_INSERT = QgsFeatureSink.Flag.FastInsert
-SKIP_GEOMETRY_CHECKS = scoped(
+SKIP_GEOMETRY_CHECKS = _scoped(
     "ProcessingFeatureSourceFlag",
     "SkipGeometryValidityChecks",
     "QgsProcessingFeatureSource.Flag.FlagSkipGeometryValidityChecks",
 )
-NO_GEOMETRY_REQUEST = scoped(
+NO_GEOMETRY_REQUEST = _scoped(
     "FeatureRequestFlag", "NoGeometry", "QgsFeatureRequest.Flag.NoGeometry"
 )
-NO_THREADING = scoped(
+NO_THREADING = _scoped(
     "ProcessingAlgorithmFlag", "NoThreading", "QgsProcessingAlgorithm.Flag.FlagNoThreading"
 )
 EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
-LEGEND_TITLE = scoped("LegendComponent", "Title", "QgsLegendStyle.Style.Title")
-LEGEND_GROUP = scoped("LegendComponent", "Subgroup", "QgsLegendStyle.Style.Subgroup")
-LEGEND_ITEM = scoped("LegendComponent", "SymbolLabel", "QgsLegendStyle.Style.SymbolLabel")
-CRITICAL = scoped("MessageLevel", "Critical", "Qgis.Critical")
+LEGEND_TITLE = _scoped("LegendComponent", "Title", "QgsLegendStyle.Style.Title")
+LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", "QgsLegendStyle.Style.Subgroup")
+LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", "QgsLegendStyle.Style.SymbolLabel")
+CRITICAL = _scoped("MessageLevel", "Critical", "Qgis.Critical")
 
-UNIT_METERS = scoped("DistanceUnit", "Meters", "QgsUnitTypes.DistanceMeters")
-WKT2_2019 = scoped(
+UNIT_METERS = _scoped("DistanceUnit", "Meters", "QgsUnitTypes.DistanceMeters")
+WKT2_2019 = _scoped(
     "CrsWktVariant", "Wkt2_2019", "QgsCoordinateReferenceSystem.WktVariant.WKT2_2019"
 )
 

@@ -8,7 +8,8 @@ from qgis.core import Qgis, QgsField
 from qgis_names import patched_aliases
 
 from sectionwright.algorithms.compat import qgis_compat
-from sectionwright.algorithms.compat.qgis_compat import field_types, scoped
+from sectionwright.algorithms.compat.qgis_compat import _scoped as scoped
+from sectionwright.algorithms.compat.qgis_compat import field_types
 
 COMPAT_FILE = Path(qgis_compat.__file__)
 
@@ -28,6 +29,12 @@ def test_this_release_gets_field_types_it_takes():
     assert QgsField("fid", qgis_compat.LONG).isNumeric()
     assert not QgsField("unit", qgis_compat.STRING).isNumeric()
     assert (qgis_compat.DOUBLE, qgis_compat.LONG, qgis_compat.STRING) == field_types()
+
+
+def test_qaction_comes_from_where_this_qgis_has_it(qgis_app):
+    action = qgis_compat.QAction("Sections")
+    assert action.text() == "Sections"
+    assert type(action).__module__.rsplit(".", 1)[-1] in ("QtGui", "QtWidgets")
 
 
 class _Scope:
