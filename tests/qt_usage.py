@@ -1,4 +1,4 @@
-"""What the source asks of Qt, read with ``ast`` (nothing is imported).
+"""What the source asks of Qt and QGIS, read with ``ast`` (nothing is imported).
 
 For every Python file of the checkout (hidden folders and caches aside) it
 lists
@@ -156,31 +156,31 @@ class _Scanner(ast.NodeVisitor):
         """Aliases first, so a use above its (function-level) import counts."""
         for node in ast.walk(tree):
             if isinstance(node, ast.ImportFrom) and node.level == 0 and node.module:
-                qt = _binding_path(node.module)
-                if qt is not None:
+                bound = _binding_path(node.module)
+                if bound is not None:
                     for alias in node.names:
                         if alias.name != "*":
-                            self.aliases[alias.asname or alias.name] = _join(qt, alias.name)
+                            self.aliases[alias.asname or alias.name] = _join(bound, alias.name)
             elif isinstance(node, ast.Import):
                 for alias in node.names:
-                    qt = _binding_path(alias.name)
-                    if qt is not None:
-                        self.aliases[alias.asname or alias.name] = qt
+                    bound = _binding_path(alias.name)
+                    if bound is not None:
+                        self.aliases[alias.asname or alias.name] = bound
 
     def visit_ImportFrom(self, node):  # noqa: N802 (ast's name)
         module = node.module or ""
         if node.level == 0 and _direct_qt(module):
             self.find("Qt past qgis.PyQt", node, f"from {module} import …: use qgis.PyQt")
-        qt = _binding_path(module) if node.level == 0 else None
+        bound = _binding_path(module) if node.level == 0 else None
         for alias in node.names:
             if _is_resource_module(alias.name) or _is_resource_module(module):
                 self.find("compiled resources", node, f"imports {alias.name}")
-            if qt is None:
+            if bound is None:
                 continue
             if alias.name == "*":
                 self.find("star import", node, f"from {module} import *: names cannot be checked")
             else:
-                self.use(_join(qt, alias.name), node)
+                self.use(_join(bound, alias.name), node)
 
     def visit_Import(self, node):  # noqa: N802
         for alias in node.names:
@@ -188,9 +188,9 @@ class _Scanner(ast.NodeVisitor):
                 self.find("Qt past qgis.PyQt", node, f"import {alias.name}: use qgis.PyQt")
             if _is_resource_module(alias.name):
                 self.find("compiled resources", node, f"imports {alias.name}")
-            qt = _binding_path(alias.name)
-            if qt:
-                self.use(qt, node)
+            bound = _binding_path(alias.name)
+            if bound:
+                self.use(bound, node)
 
     # uses ------------------------------------------------------------------
 
@@ -209,7 +209,7 @@ class _Scanner(ast.NodeVisitor):
             self.find(
                 "signal overload subscript",
                 node,
-                f"…[{ast.unparse(base.slice)}].{attributes[0]}: Qt6 picks the overload itself",
+                f"…[{ast.unparse(base.slice)}].{attributes[0]}: Qt6 signals lost most overloads",
             )
         if isinstance(base, ast.Name):
             self._chain([base.id, *attributes], node)
