@@ -37,8 +37,7 @@ class SectionwrightPlugin:
         self.initProcessing()
         if self.provider is None or self.iface is None:
             return
-        from qgis.PyQt.QtWidgets import QAction
-
+        from ..algorithms.compat.qgis_compat import QAction
         from .provider import icon
 
         self.viewer_action = QAction(icon(), "Section viewer", self.iface.mainWindow())
