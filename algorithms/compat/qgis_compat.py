@@ -138,3 +138,11 @@ def geometry_kind(layer):
     """ "point", "line", "polygon" or "none" (a table) for a vector layer or
     a feature source."""
     return _GEOMETRY_KINDS.get(QgsWkbTypes.geometryType(layer.wkbType()), "none")
+
+
+def save_default_style(layer, name, description):
+    """Saves the layer's style into its data source as the default style:
+    saveStyleToDatabaseV2 from 3.40 on (the old call is deprecated there)."""
+    if hasattr(layer, "saveStyleToDatabaseV2"):
+        return layer.saveStyleToDatabaseV2(name, description, True, "")
+    return layer.saveStyleToDatabase(name, description, True, "")

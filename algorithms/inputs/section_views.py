@@ -102,12 +102,14 @@ def _section_of(layer, label):
 
 
 def extent_of(layers, margin=0.06):
-    box = QgsRectangle()
-    box.setMinimal()
+    box = None
     for layer in layers:
         if layer.featureCount():
-            box.combineExtentWith(layer.extent())
-    if box.isEmpty() and not box.width():
+            if box is None:
+                box = QgsRectangle(layer.extent())
+            else:
+                box.combineExtentWith(layer.extent())
+    if box is None:
         return None
     grow_x, grow_y = margin * box.width() or 1.0, 2 * margin * box.height() or 1.0
     return QgsRectangle(

@@ -15,6 +15,7 @@ panel does. A new output joins with one line in ``OUTPUT_STYLES``.
 from qgis.core import QgsProcessingLayerPostProcessorInterface, QgsProviderRegistry
 
 from ..compat.qgis_compat import geometry_kind
+from ..compat.qgis_compat import save_default_style as save_style_inside
 from . import fields as F
 from . import styles
 from .section_space import is_section_view
@@ -158,5 +159,5 @@ def save_default_style(destination, algorithm_id, output_name):
     layer = QgsVectorLayer(destination, output_name, "ogr")
     if not apply_style(layer, algorithm_id, output_name):
         return False
-    layer.saveStyleToDatabase(layer.name(), f"Sectionwright {algorithm_id} {output_name}", True, "")
+    save_style_inside(layer, layer.name(), f"Sectionwright {algorithm_id} {output_name}")
     return True
