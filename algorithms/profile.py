@@ -3,10 +3,9 @@
 import numpy as np
 import shapely
 from qgis.core import (
+    QgsProcessing,
     QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
-    QgsFeature,
-    QgsPoint,
     QgsProcessingException,
     QgsProcessingParameterBand,
     QgsProcessingParameterDistance,
@@ -16,15 +15,15 @@ from qgis.core import (
 )
 
 from .compat.qgis_compat import (
-    FAST_INSERT,
     MULTI_LINE_STRING,
+    MULTI_LINE_STRING_ZM,
     NUMBER_DOUBLE,
     POINT_Z,
     SOURCE_LINES,
     SOURCE_POINTS,
 )
 from .core.crs import transformer
-from .core.profile import profile_samples, section_runs
+from .core.profile import draped_runs, profile_samples, section_runs
 from .framework.base import (
     INPUT,
     LINE_ID_FIELD,
@@ -39,7 +38,7 @@ from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.carried_fields import computed_fields
-from .outputs.geometry_io import to_qgis
+from .outputs.feature_writer import multi_line_zm_wkb, point_z_wkbs, write_rows
 from .outputs.section_space import SECTION_CRS_WKT
 
 DEM = "DEM"
@@ -47,18 +46,12 @@ DEM_BAND = "DEM_BAND"
 Z_FACTOR = "Z_FACTOR"
 STEP = "STEP"
 OUTPUT = "OUTPUT"
+OUTPUT_LINE = "OUTPUT_LINE"
 OUTPUT_SECTION = "OUTPUT_SECTION"
 
-BATCH = 5000
-
-
 SAMPLE_FIELDS = (F.SECTION, F.CHAINAGE, F.ELEVATION, F.X, F.Y)
-SECTION_FIELDS = (F.SECTION, F.LENGTH, F.MIN_ELEVATION, F.MAX_ELEVATION, F.EXAGGERATION)
-
-
-def _nullable(values):
-    """Python floats with None where NaN, for QGIS attributes."""
-    return [None if v != v else v for v in values.tolist()]
+LINE_FIELDS = (F.SECTION, F.LENGTH, F.MIN_ELEVATION, F.MAX_ELEVATION)
+SECTION_FIELDS = LINE_FIELDS + (F.EXAGGERATION,)
 
 
 class ProfileAlgorithm(SectionwrightAlgorithm):
@@ -97,7 +90,23 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         self.add_exaggeration_parameter()
         self.addParameter(
             QgsProcessingParameterFeatureSink(
-                OUTPUT, self.tr("Profile points (map)"), SOURCE_POINTS
+                OUTPUT_LINE,
+                self.tr("Profile line (map, 3-D)"),
+                SOURCE_LINES,
+                # Optional, so that scripts written before it existed run on:
+                # where they do not name it, it is a temporary layer.
+                defaultValue=QgsProcessing.TEMPORARY_OUTPUT,
+                optional=True,
+                createByDefault=True,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                OUTPUT,
+                self.tr("Profile points (map, one per sample)"),
+                SOURCE_POINTS,
+                optional=True,
+                createByDefault=False,
             )
         )
         self.addParameter(
@@ -126,26 +135,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             step = self._cell_step(sampler, source, work_crs, context)
             feedback.pushInfo(f"Sampling step: {step:.3f} (the DEM's cell size).")
 
-        (points, points_id) = self.parameterAsSink(
-            parameters, OUTPUT, context, computed_fields(SAMPLE_FIELDS), POINT_Z, source.sourceCrs()
-        )
-        section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-        (sections, sections_id) = self.parameterAsSink(
-            parameters,
-            OUTPUT_SECTION,
-            context,
-            computed_fields(SECTION_FIELDS),
-            MULTI_LINE_STRING,
-            section_crs,
-        )
-        (skipped, skipped_id) = self.parameterAsSink(
-            parameters, SKIPPED, context, skipped_fields(), source.wkbType(), source.sourceCrs()
-        )
-        if points is None:
-            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
-        if sections is None:
-            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT_SECTION))
-
+        sinks = self._open_sinks(parameters, context, source)
         parts = read_section_parts(source, id_field, work_crs, context, feedback)
         to_map = transformer(crs_wkt(work_crs), crs_wkt(source.sourceCrs()))
         ledger = RunLedger(feedback)
@@ -159,11 +149,11 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     part.reason = "no DEM coverage"
                 if part.reason:
                     ledger.skip(part.reason)
-                    add_skipped_section(skipped, part)
+                    add_skipped_section(sinks[SKIPPED][0], part)
                     feedback.pushInfo(f"Section {part.label} skipped: {part.reason}.")
                 else:
-                    self._write_samples(points, part.label, chainage, elevation, to_map(*xy.T))
-                    self._write_section(sections, part.label, chainage, elevation, exaggeration)
+                    map_xy = np.column_stack(to_map(*xy.T))
+                    self._write_part(sinks, part.label, chainage, elevation, map_xy, exaggeration)
                     ledger.written += 1
                     feedback.pushInfo(
                         f"Section {part.label}: length {chainage[-1]:.1f}, "
@@ -172,10 +162,24 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     )
                 feedback.setProgress(100.0 * (index + 1) / max(len(parts), 1))
         ledger.close()
-        results = {OUTPUT: points_id, OUTPUT_SECTION: sections_id}
-        if skipped is not None:
-            results[SKIPPED] = skipped_id
-        return results
+        return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+
+    def _open_sinks(self, parameters, context, source):
+        """{name: (sink, id)}; the sink is None for an optional output not asked for."""
+        map_crs = source.sourceCrs()
+        section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+        sinks = {}
+        for name, fields, kind, crs in (
+            (OUTPUT_LINE, computed_fields(LINE_FIELDS), MULTI_LINE_STRING_ZM, map_crs),
+            (OUTPUT, computed_fields(SAMPLE_FIELDS), POINT_Z, map_crs),
+            (OUTPUT_SECTION, computed_fields(SECTION_FIELDS), MULTI_LINE_STRING, section_crs),
+            (SKIPPED, skipped_fields(), source.wkbType(), map_crs),
+        ):
+            sinks[name] = self.parameterAsSink(parameters, name, context, fields, kind, crs)
+        for name in (OUTPUT_SECTION,):
+            if sinks[name][0] is None:
+                raise QgsProcessingException(self.invalidSinkError(parameters, name))
+        return sinks
 
     @staticmethod
     def _sample_jobs(parts, step):
@@ -196,34 +200,32 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         return sampler.cell_size((centre.x(), centre.y()))
 
     @staticmethod
-    def _write_samples(sink, label, chainage, elevation, map_xy):
-        map_x, map_y = map_xy
-        rows = zip(
-            chainage.tolist(),
-            _nullable(elevation),
-            map_x.tolist(),
-            map_y.tolist(),
-            elevation.tolist(),
-        )
-        batch = []
-        # The hot loop: one feature per sample, nothing else (~4 µs each).
-        for ch, elev, x, y, z in rows:
-            feature = QgsFeature()
-            feature.setGeometry(QgsPoint(x, y, z))
-            feature.setAttributes([label, ch, elev, x, y])
-            batch.append(feature)
-            if len(batch) == BATCH:
-                sink.addFeatures(batch, FAST_INSERT)
-                batch = []
-        sink.addFeatures(batch, FAST_INSERT)
-
-    @staticmethod
-    def _write_section(sink, label, chainage, elevation, exaggeration):
-        runs = section_runs(chainage, elevation, exaggeration)
-        feature = QgsFeature()
-        feature.setGeometry(to_qgis(shapely.MultiLineString(runs)))
+    def _write_part(sinks, label, chainage, elevation, map_xy, exaggeration):
+        """The outputs of one section part: its line on the map, its samples
+        (when asked for) and its line in the section view."""
         valid = elevation[~np.isnan(elevation)]
-        feature.setAttributes(
-            [label, float(chainage[-1]), float(valid.min()), float(valid.max()), exaggeration]
-        )
-        sink.addFeature(feature, FAST_INSERT)
+        summary = {
+            F.SECTION: [label],
+            F.LENGTH: [chainage[-1]],
+            F.MIN_ELEVATION: [valid.min()],
+            F.MAX_ELEVATION: [valid.max()],
+            F.EXAGGERATION: [exaggeration],
+        }
+        line_sink = sinks[OUTPUT_LINE][0]
+        if line_sink is not None:
+            line = multi_line_zm_wkb(draped_runs(map_xy, chainage, elevation))
+            write_rows(line_sink, computed_fields(LINE_FIELDS), [line], summary)
+        points_sink = sinks[OUTPUT][0]
+        if points_sink is not None:
+            samples = {
+                F.SECTION: [label] * len(chainage),
+                F.CHAINAGE: chainage,
+                F.ELEVATION: elevation,
+                F.X: map_xy[:, 0],
+                F.Y: map_xy[:, 1],
+            }
+            points = point_z_wkbs(np.column_stack((map_xy, elevation)))
+            write_rows(points_sink, computed_fields(SAMPLE_FIELDS), points, samples)
+        view = shapely.MultiLineString(section_runs(chainage, elevation, exaggeration))
+        section_sink = sinks[OUTPUT_SECTION][0]
+        write_rows(section_sink, computed_fields(SECTION_FIELDS), np.array([view]), summary)

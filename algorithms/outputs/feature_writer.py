@@ -4,15 +4,18 @@ alternatives side by side).
 
 What makes it fast: the geometries of a whole batch go to QGIS as one
 GeometryCollection WKB, parsed in C++ and split by ``asGeometryCollection``;
-attribute values are converted per column by numpy, not per value; the
-features of a batch go to the sink in one ``addFeatures`` call. What is
-left per row is making the ``QgsFeature`` itself. Text that QGIS or OGR
+attribute values are converted per column by numpy, not per value; Python's
+cycle collector rests while a batch's features are made; the features of a
+batch go to the sink in one ``addFeatures`` call. What is left per row is
+making the ``QgsFeature`` itself (~2 µs). Text that QGIS or OGR
 parses in C++ (GeoJSON, CSV, an OGR layer handed over as an iterator) is
 slower on 3.22: turning OGR features into QGIS features costs more than
 making them in Python.
 """
 
+import gc
 import struct
+from contextlib import contextmanager
 from itertools import repeat
 
 import numpy as np
@@ -24,6 +27,8 @@ from ..compat.qgis_compat import DOUBLE, FAST_INSERT, STRING
 
 BATCH = 5000  # rows per addFeatures call and between two looks at Cancel
 WKB_POINT_Z = 1001  # ISO codes
+WKB_LINE_STRING_ZM = 3002
+WKB_MULTI_LINE_STRING_ZM = 3005
 WKB_COLLECTION = 7
 POINT_Z_RECORD = np.dtype([("order", "u1"), ("type", "<u4"), ("xyz", "<f8", 3)])
 
@@ -55,16 +60,34 @@ def write_rows(sink, fields, geometries, columns, feedback=None):
         stop = min(start + BATCH, count)
         rows = zip(*(v[start:stop] for v in values)) if values else repeat((), stop - start)
         shapes = repeat(None) if wkbs is None else qgis_geometries(wkbs[start:stop])
-        features = []
-        for row, geometry in zip(rows, shapes):
-            feature = QgsFeature()
-            feature.setAttributes(list(row))
-            if geometry is not None:
-                feature.setGeometry(geometry)
-            features.append(feature)
+        with collector_paused():
+            features = [_feature(row, geometry) for row, geometry in zip(rows, shapes)]
         sink.addFeatures(features, FAST_INSERT)
         written += stop - start
     return written
+
+
+def _feature(row, geometry):
+    feature = QgsFeature()
+    feature.setAttributes(list(row))
+    if geometry is not None:
+        feature.setGeometry(geometry)
+    return feature
+
+
+@contextmanager
+def collector_paused():
+    """Python's cycle collector paused while a batch of features is made:
+    it would otherwise walk every live object again and again as thousands
+    of wrappers (which hold no cycles) are allocated, which costs more than
+    making them (bench_writing.py)."""
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if enabled:
+            gc.enable()
 
 
 def attribute_values(values, field):
@@ -76,7 +99,7 @@ def attribute_values(values, field):
         out[np.isnan(numbers)] = None
         return out.tolist()
     if field.type() == STRING:
-        return [None if _is_null(v) else str(v) for v in _plain(values)]
+        return [v if type(v) is str else None if _is_null(v) else str(v) for v in _plain(values)]
     if field.isNumeric():
         array = np.asarray(values)
         if array.dtype.kind in "iub":
@@ -119,10 +142,21 @@ def point_z_wkbs(xyz):
     return [row.tobytes() for row in flat]
 
 
+def multi_line_zm_wkb(runs):
+    """ISO WKB MultiLineStringZM of (n, 4) arrays of x, y, z, m (shapely 2.0
+    has no M)."""
+    parts = [
+        struct.pack("<BII", 1, WKB_LINE_STRING_ZM, len(run)) + np.asarray(run, "<f8").tobytes()
+        for run in runs
+    ]
+    return struct.pack("<BII", 1, WKB_MULTI_LINE_STRING_ZM, len(parts)) + b"".join(parts)
+
+
 def qgis_geometries(wkbs):
     """QgsGeometry (or None) per WKB, parsed by QGIS in one call."""
     present = [w for w in wkbs if w is not None]
     collection = QgsGeometry()
     collection.fromWkb(struct.pack("<BII", 1, WKB_COLLECTION, len(present)) + b"".join(present))
-    parts = iter(collection.asGeometryCollection() if present else ())
+    with collector_paused():
+        parts = iter(collection.asGeometryCollection() if present else ())
     return [None if w is None else next(parts) for w in wkbs]
