@@ -3,9 +3,9 @@
 import numpy as np
 import shapely
 from qgis.core import (
-    QgsProcessing,
     QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
+    QgsProcessing,
     QgsProcessingException,
     QgsProcessingParameterBand,
     QgsProcessingParameterDistance,

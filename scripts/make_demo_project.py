@@ -105,6 +105,7 @@ def main(demo):
         )
     )
     add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
+    add(results, "profile_line", "Profile lines (3-D, M = chainage)", map_group)
     engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
     view = {}
     for layer_name, name, renderer in (

@@ -29,7 +29,7 @@ def run_profile(world, out):
             "DEM": f"{world}/dem.tif",
             "STEP": 10,
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "profile_points"),
+            "OUTPUT_LINE": headless.gpkg_layer(out, "profile_line"),
             "OUTPUT_SECTION": headless.gpkg_layer(out, "profile_section"),
             "SKIPPED": headless.gpkg_layer(out, "profile_skipped"),
         },
@@ -122,9 +122,21 @@ def count_by_section(layer, condition=lambda feature: True):
     return counts
 
 
+def vertices_by_section(layer):
+    """Samples with an elevation: the vertices of each draped profile line."""
+    counts = {}
+    for feature in layer:
+        lines = feature.GetGeometryRef()
+        vertices = sum(
+            lines.GetGeometryRef(i).GetPointCount() for i in range(lines.GetGeometryCount())
+        )
+        counts[feature.GetField("section")] = vertices
+    return counts
+
+
 def print_summary(out):
     data = ogr.Open(str(out))
-    samples = count_by_section(data.GetLayerByName("profile_points"))
+    samples = vertices_by_section(data.GetLayerByName("profile_line"))
     attitudes = data.GetLayerByName("attitudes")
     carried = count_by_section(attitudes)
     flagged = count_by_section(attitudes, lambda f: bool(f.GetField("flags")))

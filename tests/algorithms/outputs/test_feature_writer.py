@@ -18,8 +18,8 @@ from qgis.core import (
 
 from sectionwright.algorithms.compat.qgis_compat import (
     DOUBLE,
-    LONG,
     LINE_STRING,
+    LONG,
     NO_GEOMETRY,
     POINT_Z,
     STRING,
