@@ -1,7 +1,6 @@
 """sectionwright:profile — the topographic profile along each section line."""
 
 import numpy as np
-import shapely
 from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
@@ -38,7 +37,7 @@ from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.carried_fields import computed_fields
-from .outputs.feature_writer import multi_line_zm_wkb, point_z_wkbs, write_rows
+from .outputs.feature_writer import multi_line_wkb, point_z_wkbs, write_rows
 from .outputs.section_space import SECTION_CRS_WKT
 
 DEM = "DEM"
@@ -162,10 +161,11 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     )
                 feedback.setProgress(100.0 * (index + 1) / max(len(parts), 1))
         ledger.close()
-        return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+        return {name: sink_id for name, (sink, sink_id, _) in sinks.items() if sink is not None}
 
     def _open_sinks(self, parameters, context, source):
-        """{name: (sink, id)}; the sink is None for an optional output not asked for."""
+        """{name: (sink, id, fields)}; the sink is None for an optional output
+        not asked for."""
         map_crs = source.sourceCrs()
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
         sinks = {}
@@ -175,7 +175,8 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             (OUTPUT_SECTION, computed_fields(SECTION_FIELDS), MULTI_LINE_STRING, section_crs),
             (SKIPPED, skipped_fields(), source.wkbType(), map_crs),
         ):
-            sinks[name] = self.parameterAsSink(parameters, name, context, fields, kind, crs)
+            sink, sink_id = self.parameterAsSink(parameters, name, context, fields, kind, crs)
+            sinks[name] = (sink, sink_id, fields)
         for name in (OUTPUT_SECTION,):
             if sinks[name][0] is None:
                 raise QgsProcessingException(self.invalidSinkError(parameters, name))
@@ -211,11 +212,11 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             F.MAX_ELEVATION: [valid.max()],
             F.EXAGGERATION: [exaggeration],
         }
-        line_sink = sinks[OUTPUT_LINE][0]
+        line_sink, _, fields = sinks[OUTPUT_LINE]
         if line_sink is not None:
-            line = multi_line_zm_wkb(draped_runs(map_xy, chainage, elevation))
-            write_rows(line_sink, computed_fields(LINE_FIELDS), [line], summary)
-        points_sink = sinks[OUTPUT][0]
+            line = multi_line_wkb(draped_runs(map_xy, chainage, elevation), 4)
+            write_rows(line_sink, fields, [line], summary)
+        points_sink, _, fields = sinks[OUTPUT]
         if points_sink is not None:
             samples = {
                 F.SECTION: [label] * len(chainage),
@@ -225,7 +226,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                 F.Y: map_xy[:, 1],
             }
             points = point_z_wkbs(np.column_stack((map_xy, elevation)))
-            write_rows(points_sink, computed_fields(SAMPLE_FIELDS), points, samples)
-        view = shapely.MultiLineString(section_runs(chainage, elevation, exaggeration))
-        section_sink = sinks[OUTPUT_SECTION][0]
-        write_rows(section_sink, computed_fields(SECTION_FIELDS), np.array([view]), summary)
+            write_rows(points_sink, fields, points, samples)
+        view = multi_line_wkb(section_runs(chainage, elevation, exaggeration), 2)
+        section_sink, _, fields = sinks[OUTPUT_SECTION]
+        write_rows(section_sink, fields, [view], summary)

@@ -32,10 +32,10 @@ def covered_runs(elevation):
     [(0, 2), (5, 8)]
     """
     valid = ~np.isnan(np.asarray(elevation, dtype=float))
-    edges = np.diff(np.r_[0, valid.astype(np.int8), 0])
+    edges = np.diff(np.concatenate(([0], valid.view(np.int8), [0])))
     starts = np.flatnonzero(edges == 1)
     ends = np.flatnonzero(edges == -1)
-    return [(int(s), int(e)) for s, e in zip(starts, ends) if e - s >= 2]
+    return [(int(s), int(e)) for s, e in zip(starts.tolist(), ends.tolist()) if e - s >= 2]
 
 
 def section_runs(chainage, elevation, exaggeration):

@@ -27,8 +27,9 @@ from ..compat.qgis_compat import DOUBLE, FAST_INSERT, STRING
 
 BATCH = 5000  # rows per addFeatures call and between two looks at Cancel
 WKB_POINT_Z = 1001  # ISO codes
-WKB_LINE_STRING_ZM = 3002
-WKB_MULTI_LINE_STRING_ZM = 3005
+WKB_LINE_STRING = 2
+WKB_MULTI_LINE_STRING = 5
+WKB_DIMENSION_OFFSET = {2: 0, 3: 1000, 4: 3000}  # columns: x y, x y z, x y z m
 WKB_COLLECTION = 7
 POINT_Z_RECORD = np.dtype([("order", "u1"), ("type", "<u4"), ("xyz", "<f8", 3)])
 
@@ -142,19 +143,25 @@ def point_z_wkbs(xyz):
     return [row.tobytes() for row in flat]
 
 
-def multi_line_zm_wkb(runs):
-    """ISO WKB MultiLineStringZM of (n, 4) arrays of x, y, z, m (shapely 2.0
-    has no M)."""
+def multi_line_wkb(runs, columns):
+    """ISO WKB MultiLineString of (n, columns) arrays: 2 columns x, y; 3
+    x, y, z; 4 x, y, z, m (shapely 2.0 has no M). Made by numpy, no GEOS."""
+    offset = WKB_DIMENSION_OFFSET[columns]
     parts = [
-        struct.pack("<BII", 1, WKB_LINE_STRING_ZM, len(run)) + np.asarray(run, "<f8").tobytes()
+        struct.pack("<BII", 1, WKB_LINE_STRING + offset, len(run))
+        + np.asarray(run, "<f8").reshape(-1, columns).tobytes()
         for run in runs
     ]
-    return struct.pack("<BII", 1, WKB_MULTI_LINE_STRING_ZM, len(parts)) + b"".join(parts)
+    return struct.pack("<BII", 1, WKB_MULTI_LINE_STRING + offset, len(parts)) + b"".join(parts)
 
 
 def qgis_geometries(wkbs):
     """QgsGeometry (or None) per WKB, parsed by QGIS in one call."""
     present = [w for w in wkbs if w is not None]
+    if len(present) == 1:
+        single = QgsGeometry()
+        single.fromWkb(present[0])
+        return [None if w is None else single for w in wkbs]
     collection = QgsGeometry()
     collection.fromWkb(struct.pack("<BII", 1, WKB_COLLECTION, len(present)) + b"".join(present))
     with collector_paused():

@@ -24,7 +24,12 @@ from sectionwright.algorithms.compat.qgis_compat import (
     POINT_Z,
     STRING,
 )
-from sectionwright.algorithms.outputs.feature_writer import BATCH, write_rows
+from sectionwright.algorithms.outputs.feature_writer import (
+    BATCH,
+    multi_line_wkb,
+    qgis_geometries,
+    write_rows,
+)
 
 
 def fields_of(**kinds):
@@ -111,16 +116,31 @@ def test_lines_and_wkb_with_m(qgis_app):
         "LineString (0 0, 1 1)",
         "LineString (2 2, 3 5)",
     ]
-    # ISO WKB LineStringZM (type 3002), as the profile line is handed over.
+    # ISO WKB LineStringZM (type 3002, the OGC Simple Features code).
     coords = np.array([[0.0, 0, 10, 0], [3, 4, 12, 5]])
     zm = struct.pack("<BII", 1, 3002, 2) + coords.tobytes()
-    fields = fields_of(section=STRING)
     sink, layer = sink_of(fields, QgsWkbTypes.LineStringZM)
     write_rows(sink, fields, [zm, None], {"section": ["a", "b"]})
     del sink
     features = list(layer().getFeatures())
     assert features[0].geometry().asWkt() == "LineStringZM (0 0 10 0, 3 4 12 5)"
     assert not features[1].hasGeometry()
+
+
+@pytest.mark.parametrize("columns", [2, 3, 4])
+def test_multi_line_wkb_is_read_alike_by_shapely_and_qgis(qgis_app, columns):
+    runs = [np.arange(3 * columns, dtype=float).reshape(3, columns), np.ones((2, columns))]
+    wkb = multi_line_wkb(runs, columns)
+    (geometry,) = qgis_geometries([wkb])
+    parts = geometry.constGet()
+    assert parts.numGeometries() == 2
+    assert QgsWkbTypes.hasZ(parts.wkbType()) == (columns >= 3)
+    assert QgsWkbTypes.hasM(parts.wkbType()) == (columns == 4)
+    if columns < 4:  # shapely 2.0 reads no M
+        np.testing.assert_array_equal(
+            shapely.get_coordinates(shapely.from_wkb(wkb), include_z=columns == 3),
+            np.concatenate(runs),
+        )
 
 
 def test_empty_input_writes_nothing_and_reports_nothing(qgis_app):
