@@ -1,22 +1,19 @@
 """sectionwright:profile — the topographic profile along each section line."""
 
+from dataclasses import dataclass
+
 import numpy as np
 from qgis.core import (
-    QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
     QgsProcessing,
-    QgsProcessingException,
     QgsProcessingParameterBand,
     QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
-    QgsProcessingParameterNumber,
-    QgsProcessingParameterRasterLayer,
 )
 
 from .compat.qgis_compat import (
     MULTI_LINE_STRING,
     MULTI_LINE_STRING_ZM,
-    NUMBER_DOUBLE,
     POINT_Z,
     SOURCE_LINES,
     SOURCE_POINTS,
@@ -24,42 +21,69 @@ from .compat.qgis_compat import (
 from .core.crs import transformer
 from .core.profile import draped_runs, profile_samples, section_runs
 from .framework.base import (
+    DEM,
     INPUT,
     LINE_ID_FIELD,
     SKIPPED,
     VERTICAL_EXAGGERATION,
+    Z_FACTOR,
     SectionwrightAlgorithm,
-    add_skipped_section,
-    skipped_fields,
+    sink_results,
 )
 from .framework.ledger import RunLedger
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
-from .outputs.carried_fields import computed_fields
-from .outputs.feature_writer import multi_line_wkb, point_z_wkbs, write_rows
-from .outputs.section_space import SECTION_CRS_WKT
+from .outputs.feature_writer import multi_line_wkb, write_rows
+from .outputs.geometry_io import points_z
+from .outputs.section_space import section_crs
+from .outputs.skipped import skip_sections
 
-DEM = "DEM"
 DEM_BAND = "DEM_BAND"
-Z_FACTOR = "Z_FACTOR"
 STEP = "STEP"
 OUTPUT = "OUTPUT"
 OUTPUT_LINE = "OUTPUT_LINE"
 OUTPUT_SECTION = "OUTPUT_SECTION"
 
-SAMPLE_FIELDS = (F.SECTION, F.CHAINAGE, F.ELEVATION, F.X, F.Y)
-LINE_FIELDS = (F.SECTION, F.LENGTH, F.MIN_ELEVATION, F.MAX_ELEVATION)
-SECTION_FIELDS = LINE_FIELDS + (F.EXAGGERATION,)
+
+@dataclass
+class ProfileSettings:
+    """Every parameter of a run, read once."""
+
+    lines: object
+    id_field: str
+    dem: object
+    band: int
+    z_factor: float
+    step: float  # 0: the DEM's cell size
+    exaggeration: float
+
+    @classmethod
+    def read(cls, algorithm, parameters, context):
+        return cls(
+            lines=algorithm.source(parameters, INPUT, context),
+            id_field=algorithm.parameterAsString(parameters, LINE_ID_FIELD, context),
+            dem=algorithm.dem(parameters, context),
+            band=algorithm.parameterAsInt(parameters, DEM_BAND, context),
+            z_factor=algorithm.parameterAsDouble(parameters, Z_FACTOR, context),
+            step=algorithm.parameterAsDouble(parameters, STEP, context),
+            exaggeration=algorithm.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context),
+        )
 
 
 class ProfileAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "profile"
     DISPLAY_NAME = "Topographic profile"
+    OUTPUT_SCHEMAS = {
+        OUTPUT_LINE: F.PROFILE_LINES,
+        OUTPUT: F.PROFILE_POINTS,
+        OUTPUT_SECTION: F.PROFILE_SECTIONS,
+        SKIPPED: F.SKIPPED_SECTIONS,
+    }
 
     def initAlgorithm(self, config=None):
         self.add_section_line_parameters()
-        self.addParameter(QgsProcessingParameterRasterLayer(DEM, self.tr("DEM")))
+        self.add_dem_parameter()
         self.addParameter(
             QgsProcessingParameterBand(
                 DEM_BAND,
@@ -69,14 +93,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                 optional=True,
             )
         )
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                Z_FACTOR,
-                self.tr("Z factor (DEM values × factor = metres)"),
-                NUMBER_DOUBLE,
-                defaultValue=1.0,
-            )
-        )
+        self.add_z_factor_parameter()
         self.addParameter(
             QgsProcessingParameterDistance(
                 STEP,
@@ -116,27 +133,17 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        source = self.source(parameters, INPUT, context)
-        id_field = self.parameterAsString(parameters, LINE_ID_FIELD, context)
-        dem = self.parameterAsRasterLayer(parameters, DEM, context)
-        if dem is None:
-            raise QgsProcessingException(
-                self.tr("DEM: the layer given is not a raster that can be read.")
-            )
-        band = self.parameterAsInt(parameters, DEM_BAND, context)
-        z_factor = self.parameterAsDouble(parameters, Z_FACTOR, context)
-        step = self.parameterAsDouble(parameters, STEP, context)
-        exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
-
-        work_crs = working_crs(source, context, feedback)
-        sampler = DemSampler(dem, band, z_factor, work_crs)
+        settings = ProfileSettings.read(self, parameters, context)
+        lines = settings.lines
+        work_crs = working_crs(lines, context, feedback)
+        sampler = DemSampler(settings.dem, settings.band, settings.z_factor, work_crs)
+        step = settings.step
         if step <= 0:
-            step = self._cell_step(sampler, source, work_crs, context)
+            step = self._cell_step(sampler, lines, work_crs, context)
             feedback.pushInfo(f"Sampling step: {step:.3f} (the DEM's cell size).")
-
-        sinks = self._open_sinks(parameters, context, source)
-        parts = read_section_parts(source, id_field, work_crs, context, feedback)
-        to_map = transformer(crs_wkt(work_crs), crs_wkt(source.sourceCrs()))
+        sinks = self._sinks(parameters, context, lines)
+        parts = read_section_parts(lines, settings.id_field, work_crs, context, feedback)
+        to_map = transformer(crs_wkt(work_crs), crs_wkt(lines.sourceCrs()))
         ledger = RunLedger(feedback)
         with bounded_gdal_cache():
             sampled = sample_ahead(self._sample_jobs(parts, step), sampler)
@@ -148,11 +155,11 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     part.reason = "no DEM coverage"
                 if part.reason:
                     ledger.skip(part.reason)
-                    add_skipped_section(sinks[SKIPPED][0], part)
+                    skip_sections(sinks[SKIPPED][0], [part])
                     feedback.pushInfo(f"Section {part.label} skipped: {part.reason}.")
                 else:
                     map_xy = np.column_stack(to_map(*xy.T))
-                    self._write_part(sinks, part.label, chainage, elevation, map_xy, exaggeration)
+                    self._write_part(sinks, part.label, chainage, elevation, map_xy, settings)
                     ledger.written += 1
                     feedback.pushInfo(
                         f"Section {part.label}: length {chainage[-1]:.1f}, "
@@ -161,26 +168,46 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     )
                 feedback.setProgress(100.0 * (index + 1) / max(len(parts), 1))
         ledger.close()
-        return {name: sink_id for name, (sink, sink_id, _) in sinks.items() if sink is not None}
+        return sink_results(sinks)
 
-    def _open_sinks(self, parameters, context, source):
-        """{name: (sink, id, fields)}; the sink is None for an optional output
-        not asked for."""
-        map_crs = source.sourceCrs()
-        section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-        sinks = {}
-        for name, fields, kind, crs in (
-            (OUTPUT_LINE, computed_fields(LINE_FIELDS), MULTI_LINE_STRING_ZM, map_crs),
-            (OUTPUT, computed_fields(SAMPLE_FIELDS), POINT_Z, map_crs),
-            (OUTPUT_SECTION, computed_fields(SECTION_FIELDS), MULTI_LINE_STRING, section_crs),
-            (SKIPPED, skipped_fields(), source.wkbType(), map_crs),
-        ):
-            sink, sink_id = self.parameterAsSink(parameters, name, context, fields, kind, crs)
-            sinks[name] = (sink, sink_id, fields)
-        for name in (OUTPUT_SECTION,):
-            if sinks[name][0] is None:
-                raise QgsProcessingException(self.invalidSinkError(parameters, name))
-        return sinks
+    def _sinks(self, parameters, context, lines):
+        specs = (
+            (OUTPUT_LINE, F.PROFILE_LINES.qgs_fields(), MULTI_LINE_STRING_ZM, lines.sourceCrs()),
+            (OUTPUT, F.PROFILE_POINTS.qgs_fields(), POINT_Z, lines.sourceCrs()),
+            (OUTPUT_SECTION, F.PROFILE_SECTIONS.qgs_fields(), MULTI_LINE_STRING, section_crs()),
+            (SKIPPED, F.SKIPPED_SECTIONS.qgs_fields(), lines.wkbType(), lines.sourceCrs()),
+        )
+        return self.open_sinks(parameters, context, specs, required=(OUTPUT_SECTION,))
+
+    @staticmethod
+    def _write_part(sinks, label, chainage, elevation, map_xy, settings):
+        """The outputs of one section part: its line on the map, its samples
+        (when asked for) and its line in the section view."""
+        valid = elevation[~np.isnan(elevation)]
+        summary = {
+            F.SECTION: [label],
+            F.LENGTH: [chainage[-1]],
+            F.MIN_ELEVATION: [valid.min()],
+            F.MAX_ELEVATION: [valid.max()],
+            F.EXAGGERATION: [settings.exaggeration],
+        }
+        line_sink = sinks[OUTPUT_LINE][0]
+        if line_sink is not None:
+            line = multi_line_wkb(draped_runs(map_xy, chainage, elevation), 4)
+            write_rows(line_sink, F.PROFILE_LINES.qgs_fields(), [line], summary)
+        points_sink = sinks[OUTPUT][0]
+        if points_sink is not None:
+            samples = {
+                F.SECTION: [label] * len(chainage),
+                F.CHAINAGE: chainage,
+                F.ELEVATION: elevation,
+                F.X: map_xy[:, 0],
+                F.Y: map_xy[:, 1],
+            }
+            points = points_z(map_xy[:, 0], map_xy[:, 1], elevation)
+            write_rows(points_sink, F.PROFILE_POINTS.qgs_fields(), points, samples)
+        view = multi_line_wkb(section_runs(chainage, elevation, settings.exaggeration), 2)
+        write_rows(sinks[OUTPUT_SECTION][0], F.PROFILE_SECTIONS.qgs_fields(), [view], summary)
 
     @staticmethod
     def _sample_jobs(parts, step):
@@ -199,34 +226,3 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             source.sourceCrs(), work_crs, context.transformContext()
         ).transform(source.sourceExtent().center())
         return sampler.cell_size((centre.x(), centre.y()))
-
-    @staticmethod
-    def _write_part(sinks, label, chainage, elevation, map_xy, exaggeration):
-        """The outputs of one section part: its line on the map, its samples
-        (when asked for) and its line in the section view."""
-        valid = elevation[~np.isnan(elevation)]
-        summary = {
-            F.SECTION: [label],
-            F.LENGTH: [chainage[-1]],
-            F.MIN_ELEVATION: [valid.min()],
-            F.MAX_ELEVATION: [valid.max()],
-            F.EXAGGERATION: [exaggeration],
-        }
-        line_sink, _, fields = sinks[OUTPUT_LINE]
-        if line_sink is not None:
-            line = multi_line_wkb(draped_runs(map_xy, chainage, elevation), 4)
-            write_rows(line_sink, fields, [line], summary)
-        points_sink, _, fields = sinks[OUTPUT]
-        if points_sink is not None:
-            samples = {
-                F.SECTION: [label] * len(chainage),
-                F.CHAINAGE: chainage,
-                F.ELEVATION: elevation,
-                F.X: map_xy[:, 0],
-                F.Y: map_xy[:, 1],
-            }
-            points = point_z_wkbs(np.column_stack((map_xy, elevation)))
-            write_rows(points_sink, fields, points, samples)
-        view = multi_line_wkb(section_runs(chainage, elevation, exaggeration), 2)
-        section_sink, _, fields = sinks[OUTPUT_SECTION]
-        write_rows(section_sink, fields, [view], summary)

@@ -21,17 +21,16 @@ from itertools import repeat
 import numpy as np
 import shapely
 from qgis.core import QgsFeature, QgsGeometry
-from qgis.PyQt.QtCore import QVariant
 
+from ..compat.null import plain
 from ..compat.qgis_compat import DOUBLE, FAST_INSERT, STRING
+from .geometry_io import points_z
 
 BATCH = 5000  # rows per addFeatures call and between two looks at Cancel
-WKB_POINT_Z = 1001  # ISO codes
 WKB_LINE_STRING = 2
 WKB_MULTI_LINE_STRING = 5
-WKB_DIMENSION_OFFSET = {2: 0, 3: 1000, 4: 3000}  # columns: x y, x y z, x y z m
+WKB_DIMENSION_OFFSET = {2: 0, 3: 1000, 4: 3000}  # ISO codes; columns x y, x y z, x y z m
 WKB_COLLECTION = 7
-POINT_Z_RECORD = np.dtype([("order", "u1"), ("type", "<u4"), ("xyz", "<f8", 3)])
 
 
 def write_rows(sink, fields, geometries, columns, feedback=None):
@@ -114,8 +113,9 @@ def _plain(values):
 
 
 def _is_null(value):
-    """None, NaN, or a NULL QVariant (what 3.22 hands out for NULL)."""
-    return value is None or value != value or (isinstance(value, QVariant) and value.isNull())
+    """None, NaN, or a NULL as the release hands it out."""
+    value = plain(value)
+    return value is None or value != value
 
 
 def geometry_wkbs(geometries):
@@ -127,20 +127,13 @@ def geometry_wkbs(geometries):
     wkbs = np.full(len(geometries), None, dtype=object)
     points = present & (shapely.get_type_id(geometries) == 0) & ~shapely.is_empty(geometries)
     if points.any() and shapely.has_z(geometries[points]).any():
-        wkbs[points] = point_z_wkbs(shapely.get_coordinates(geometries[points], include_z=True))
+        xyz = shapely.get_coordinates(geometries[points], include_z=True)
+        wkbs[points] = points_z(xyz[:, 0], xyz[:, 1], xyz[:, 2])
         present &= ~points
     wkbs[present] = shapely.to_wkb(
         geometries[present], output_dimension=3, byte_order=1, flavor="iso"
     )
     return wkbs.tolist()
-
-
-def point_z_wkbs(xyz):
-    """ISO WKB PointZ per row of ``xyz``."""
-    packed = np.empty(len(xyz), POINT_Z_RECORD)
-    packed["order"], packed["type"], packed["xyz"] = 1, WKB_POINT_Z, xyz
-    flat = packed.view(np.uint8).reshape(len(xyz), POINT_Z_RECORD.itemsize)
-    return [row.tobytes() for row in flat]
 
 
 def multi_line_wkb(runs, columns):
