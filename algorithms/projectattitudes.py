@@ -242,7 +242,9 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         trend = to_grid(np.full(len(rows), settings.plunge_trend), xy, work_wkt, rows.declination)
         feedback.setProgress(40)
         with bounded_gdal_cache():
-            sampler = DemSampler(settings.dem, 1, 1.0, work_crs) if settings.dem else None
+            sampler = (
+                DemSampler(settings.dem, 1, 1.0, work_crs) if settings.dem is not None else None
+            )
             unit_map = (
                 read_unit_map(settings.units, settings.unit_field, work_crs, context, feedback)
                 if settings.units is not None

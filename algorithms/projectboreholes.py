@@ -21,17 +21,13 @@ from .compat.qgis_compat import (
     SOURCE_POINTS,
 )
 from .core.attitudes import as_numbers
+from .core.borehole_tables import drawn_samples, kept_intervals, survey_stations
 from .core.boreholes import (
-    assemble_stations,
     check_collars,
-    check_intervals,
-    check_surveys,
-    drawing_depths,
     group_ranges,
     interval_runs,
 )
 from .core.crs import transformer
-from .core.desurvey import positions_at_depths, station_offsets
 from .core.north import GRID, meridian_convergence, to_grid
 from .core.projection import SectionNetwork, nearest_points
 from .framework.base import (
@@ -257,12 +253,12 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         holes = _read_collars(settings, work_crs, network, skipped)
         surveys = _read_table(settings.surveys, holes)
         intervals = _read_table(settings.intervals, holes)
-        stations = _stations(holes, surveys, skipped)
-        valid_intervals = _intervals(holes, intervals, skipped)
+        stations = survey_stations(holes, surveys, skipped)
+        valid_intervals = kept_intervals(holes, intervals, skipped)
         feedback.setProgress(40)
 
         drawn = np.flatnonzero(holes["reason"] == "")
-        samples = _samples(holes, stations, valid_intervals, drawn)
+        samples = drawn_samples(holes, stations, valid_intervals, drawn, DRAW_STEP)
         sinks = self._sinks(parameters, context, settings.lines)
         if not feedback.isCanceled():
             to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
@@ -396,69 +392,6 @@ def _read_table(table, holes):
     return values
 
 
-# Checking -----------------------------------------------------------
-
-
-def _stations(holes, surveys, skipped):
-    depth, _ = as_numbers(surveys["depth"], "depth")
-    azimuth, _ = as_numbers(surveys["azimuth"], "azimuth")
-    inclination, _ = as_numbers(surveys["inclination"], "inclination")
-    collar = surveys["collar"]
-    reasons = check_surveys(collar, depth, azimuth, inclination, holes["depth"])
-    _refuse("surveys", surveys, depth, reasons, holes, skipped)
-    good = reasons == ""
-    surveys["used"] = good
-    grid_azimuth = to_grid(
-        azimuth[good], holes["north"], holes["convergence"][collar[good]], holes["declination"]
-    )
-    return assemble_stations(
-        holes["inclination"],
-        holes["azimuth"],
-        collar[good],
-        depth[good],
-        inclination[good],
-        grid_azimuth,
-    )
-
-
-def _intervals(holes, intervals, skipped):
-    top, _ = as_numbers(intervals["from"], "from")
-    bottom, _ = as_numbers(intervals["to"], "to")
-    collar = intervals["collar"]
-    reasons = check_intervals(collar, top, bottom, holes["depth"])
-    _refuse("intervals", intervals, top, reasons, holes, skipped)
-    good = np.flatnonzero(reasons == "")
-    codes = [intervals["code"][i] for i in good]
-    return {
-        "hole": collar[good],
-        "from": top[good],
-        "to": bottom[good],
-        "code": ["" if c is None else str(c) for c in codes],
-    }
-
-
-# Geometry -----------------------------------------------------------
-
-
-def _samples(holes, stations, intervals, drawn):
-    """Depths drawn per hole (stations, interval ends, every DRAW_STEP, the
-    bottom) and their positions: working-CRS xyz."""
-    hole, md = drawing_depths(
-        holes["depth"],
-        drawn,
-        stations,
-        np.concatenate((intervals["hole"], intervals["hole"])),
-        np.concatenate((intervals["from"], intervals["to"])),
-        DRAW_STEP,
-    )
-    offsets = station_offsets(stations.md, stations.inclination, stations.azimuth, stations.hole)
-    enu = positions_at_depths(
-        stations.md, stations.inclination, stations.azimuth, stations.hole, offsets, hole, md
-    )
-    xyz = np.column_stack((holes["xy"][hole] + enu[:, :2], holes["z"][hole] - enu[:, 2]))
-    return {"hole": hole, "md": md, "xyz": xyz}
-
-
 def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, settings):
     """The holes (and their traces and intervals) drawn; returns each drawn
     hole's collar index and offset range."""
@@ -542,14 +475,3 @@ def _point(geometry):
         return (np.nan, np.nan, np.nan)
     point = next(geometry.constParts())
     return (point.x(), point.y(), point.z() if point.is3D() else np.nan)
-
-
-def _refuse(table, rows, depth, reasons, holes, skipped):
-    """Rows of a collar that is not drawn are refused too; every refused row
-    joins ``skipped``. ``reasons`` is updated in place."""
-    collar = rows["collar"]
-    not_drawn = (reasons == "") & (collar >= 0)
-    not_drawn[not_drawn] = holes["reason"][collar[not_drawn]] != ""
-    reasons[not_drawn] = "collar skipped"
-    for i in np.flatnonzero(reasons != ""):
-        skipped.append((table, rows["hole"][i], rows["fid"][i], depth[i], str(reasons[i])))
