@@ -33,7 +33,7 @@ WKB_DIMENSION_OFFSET = {2: 0, 3: 1000, 4: 3000}  # ISO codes; columns x y, x y z
 WKB_COLLECTION = 7
 
 
-def write_rows(sink, fields, geometries, columns, feedback=None):
+def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     """Write one feature per row into ``sink``; returns the rows written
     (fewer than given only when the run was cancelled).
 
@@ -41,8 +41,14 @@ def write_rows(sink, fields, geometries, columns, feedback=None):
     ``columns`` maps each field's name to its values (numpy array or list,
     one per row; NaN and None are NULL); ``geometries`` is a numpy array of
     shapely geometries (None elements: no geometry), a list of WKB
-    ``bytes`` (for M values, which shapely 2.0 cannot hold), or None for a
-    table. Cancel (``feedback.isCanceled()``) is looked at between batches.
+    ``bytes`` (for M values, which shapely 2.0 cannot hold), ``QgsGeometry``
+    (as read from a source) or None, or None for a table. Cancel
+    (``feedback.isCanceled()``) is looked at between batches.
+
+    ``also`` lists further sinks of the same fields as (sink, geometries,
+    rows): they take the features of ``rows`` (ascending integer index) with
+    those geometries instead (a tick beside each point); their attributes
+    are converted and set once for all sinks.
     """
     names = fields.names()
     missing = [name for name in names if name not in columns]
@@ -53,6 +59,7 @@ def write_rows(sink, fields, geometries, columns, feedback=None):
     count = len(wkbs) if wkbs is not None else len(values[0]) if values else 0
     if any(len(v) != count for v in values):
         raise ValueError("columns and geometries differ in length")
+    others = [(other, geometry_wkbs(shapes), np.asarray(rows)) for other, shapes, rows in also]
     written = 0
     for start in range(0, count, BATCH):
         if feedback is not None and feedback.isCanceled():
@@ -63,8 +70,24 @@ def write_rows(sink, fields, geometries, columns, feedback=None):
         with collector_paused():
             features = [_feature(row, geometry) for row, geometry in zip(rows, shapes)]
         sink.addFeatures(features, FAST_INSERT)
+        for other, wkbs_of_other, rows_of_other in others:
+            low, high = np.searchsorted(rows_of_other, (start, stop))
+            shapes_of_other = qgis_geometries(wkbs_of_other[low:high])
+            with collector_paused():
+                copies = [
+                    _with_geometry(features[row - start], geometry)
+                    for row, geometry in zip(rows_of_other[low:high].tolist(), shapes_of_other)
+                ]
+            other.addFeatures(copies, FAST_INSERT)
         written += stop - start
     return written
+
+
+def _with_geometry(feature, geometry):
+    """A copy of ``feature`` (its attributes shared, not set again)."""
+    copy = QgsFeature(feature)
+    copy.setGeometry(geometry)
+    return copy
 
 
 def _feature(row, geometry):
@@ -136,6 +159,19 @@ def geometry_wkbs(geometries):
     return wkbs.tolist()
 
 
+def line_wkbs(vertices):
+    """ISO WKB LineString per row of ``vertices`` (lines, points per line,
+    2-4 columns as in ``multi_line_wkb``), packed by numpy in one go."""
+    lines, points, columns = vertices.shape
+    record = np.dtype(
+        [("order", "u1"), ("type", "<u4"), ("count", "<u4"), ("xy", "<f8", (points, columns))]
+    )
+    packed = np.empty(lines, record)
+    packed["order"], packed["count"], packed["xy"] = 1, points, vertices
+    packed["type"] = WKB_LINE_STRING + WKB_DIMENSION_OFFSET[columns]
+    return [row.tobytes() for row in packed.view(np.uint8).reshape(lines, record.itemsize)]
+
+
 def multi_line_wkb(runs, columns):
     """ISO WKB MultiLineString of (n, columns) arrays: 2 columns x, y; 3
     x, y, z; 4 x, y, z, m (shapely 2.0 has no M). Made by numpy, no GEOS."""
@@ -148,15 +184,27 @@ def multi_line_wkb(runs, columns):
     return struct.pack("<BII", 1, WKB_MULTI_LINE_STRING + offset, len(parts)) + b"".join(parts)
 
 
-def qgis_geometries(wkbs):
-    """QgsGeometry (or None) per WKB, parsed by QGIS in one call."""
-    present = [w for w in wkbs if w is not None]
-    if len(present) == 1:
+def qgis_geometries(items):
+    """QgsGeometry (or None) per item: WKB bytes are parsed by QGIS in one
+    call, QgsGeometry objects pass as they are."""
+    wkbs = [w for w in items if isinstance(w, bytes)]
+    if len(wkbs) == 1:
         single = QgsGeometry()
-        single.fromWkb(present[0])
-        return [None if w is None else single for w in wkbs]
-    collection = QgsGeometry()
-    collection.fromWkb(struct.pack("<BII", 1, WKB_COLLECTION, len(present)) + b"".join(present))
-    with collector_paused():
-        parts = iter(collection.asGeometryCollection() if present else ())
-    return [None if w is None else next(parts) for w in wkbs]
+        single.fromWkb(wkbs[0])
+        parsed = iter([single])
+    else:
+        collection = QgsGeometry()
+        collection.fromWkb(struct.pack("<BII", 1, WKB_COLLECTION, len(wkbs)) + b"".join(wkbs))
+        with collector_paused():
+            parsed = iter(collection.asGeometryCollection() if wkbs else ())
+    return [next(parsed) if isinstance(w, bytes) else w for w in items]
+
+
+def take(columns, index):
+    """The rows ``index`` (integer array) of every column."""
+    return {
+        name: values[index]
+        if isinstance(values, np.ndarray)
+        else [values[i] for i in index.tolist()]
+        for name, values in columns.items()
+    }
