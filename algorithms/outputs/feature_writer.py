@@ -199,12 +199,3 @@ def qgis_geometries(items):
             parsed = iter(collection.asGeometryCollection() if wkbs else ())
     return [next(parsed) if isinstance(w, bytes) else w for w in items]
 
-
-def take(columns, index):
-    """The rows ``index`` (integer array) of every column."""
-    return {
-        name: values[index]
-        if isinstance(values, np.ndarray)
-        else [values[i] for i in index.tolist()]
-        for name, values in columns.items()
-    }
