@@ -198,4 +198,3 @@ def qgis_geometries(items):
         with collector_paused():
             parsed = iter(collection.asGeometryCollection() if wkbs else ())
     return [next(parsed) if isinstance(w, bytes) else w for w in items]
-

@@ -19,6 +19,7 @@ from qgis.core import (
 from sectionwright.algorithms.compat.qgis_compat import (
     DOUBLE,
     LINE_STRING,
+    LINE_STRING_ZM,
     LONG,
     NO_GEOMETRY,
     POINT_Z,
@@ -119,12 +120,12 @@ def test_lines_and_wkb_with_m(qgis_app):
     # ISO WKB LineStringZM (type 3002, the OGC Simple Features code).
     coords = np.array([[0.0, 0, 10, 0], [3, 4, 12, 5]])
     zm = struct.pack("<BII", 1, 3002, 2) + coords.tobytes()
-    sink, layer = sink_of(fields, QgsWkbTypes.LineStringZM)
+    sink, layer = sink_of(fields, LINE_STRING_ZM)
     write_rows(sink, fields, [zm, None], {"section": ["a", "b"]})
     del sink
     features = list(layer().getFeatures())
     line = features[0].geometry().constGet()
-    assert line.wkbType() == QgsWkbTypes.LineStringZM  # (the WKT spelling differs by release)
+    assert line.wkbType() == LINE_STRING_ZM  # (the WKT spelling differs by release)
     assert [(v.x(), v.y(), v.z(), v.m()) for v in line.vertices()] == [tuple(c) for c in coords]
     assert not features[1].hasGeometry()
 
