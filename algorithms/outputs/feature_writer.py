@@ -117,7 +117,10 @@ def attribute_values(values, field):
     """A column as the Python values QGIS takes for ``field``'s type, NaN
     and None as None (NULL)."""
     if field.type() == DOUBLE:
-        numbers = np.asarray(values, dtype=float)
+        try:
+            numbers = np.asarray(values, dtype=float)
+        except TypeError:  # NULL QVariants among the source's own values
+            numbers = np.array([np.nan if _is_null(v) else v for v in values], dtype=float)
         out = numbers.astype(object)
         out[np.isnan(numbers)] = None
         return out.tolist()

@@ -6,6 +6,7 @@ import numpy as np
 import pytest
 import shapely
 from qgis.core import (
+    NULL,
     QgsCoordinateReferenceSystem,
     QgsField,
     QgsFields,
@@ -155,6 +156,15 @@ def test_empty_input_writes_nothing_and_reports_nothing(qgis_app):
     assert write_rows(sink, fields, None, empty, feedback) == 0
     del sink
     assert layer().featureCount() == 0
+
+
+def test_null_as_the_release_hands_it_over(qgis_app):
+    # Carried source values: a NULL QVariant on QGIS 3.22, None later.
+    fields = fields_of(section=STRING, elev=DOUBLE)
+    sink, layer = sink_of(fields, NO_GEOMETRY)
+    write_rows(sink, fields, None, {"section": [NULL, "b"], "elev": [NULL, 2.5]})
+    del sink
+    assert [plain(r) for r in rows_of(layer())] == [[None, None], ["b", 2.5]]
 
 
 def test_missing_column_is_an_error(qgis_app):
