@@ -6,11 +6,12 @@ What makes it fast: the geometries of a whole batch go to QGIS as one
 GeometryCollection WKB, parsed in C++ and split by ``asGeometryCollection``;
 attribute values are converted per column by numpy, not per value; Python's
 cycle collector rests while a batch's features are made; the features of a
-batch go to the sink in one ``addFeatures`` call. What is left per row is
-making the ``QgsFeature`` itself (~2 µs). Text that QGIS or OGR
-parses in C++ (GeoJSON, CSV, an OGR layer handed over as an iterator) is
-slower on 3.22: turning OGR features into QGIS features costs more than
-making them in Python.
+batch go to the sink in one ``addFeatures`` call; a second sink of the same
+rows takes copies that share the attributes. What is left per row is making
+the ``QgsFeature`` itself (a few µs, more with many fields). Text that QGIS
+or OGR parses in C++ (GeoJSON, CSV, an OGR layer handed over as an
+iterator) is slower on 3.22: turning OGR features into QGIS features costs
+more than making them in Python.
 """
 
 import gc
