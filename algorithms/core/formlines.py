@@ -1,0 +1,98 @@
+"""Form lines of one section: the chosen construction, a form line through
+every contact and, optionally, every ``spacing`` metres of stratigraphy,
+cut to the ground and the floor, at true scale."""
+
+from dataclasses import dataclass
+
+import numpy as np
+import shapely
+
+from .bedding import below_ground, clipped_parts, level_spacing
+from .busk import arc_section
+from .kink import kink_section
+
+KINK, ARC = 0, 1
+
+
+@dataclass
+class SectionFormLines:
+    lines: np.ndarray  # LineStrings, true scale
+    contact: np.ndarray  # index of the contact each line goes through, −1 for spacing lines
+    unit_above: np.ndarray
+    unit_below: np.ndarray
+    axes: np.ndarray  # LineStrings, true scale
+    dip_left: np.ndarray
+    dip_right: np.ndarray
+    axis_dip: np.ndarray
+
+
+def construct(method, ground_x, ground_z, stations, dips, contacts, before, after, depth, spacing):
+    """Form lines and axes of one section.
+
+    ``ground_x``/``ground_z`` the ground (sorted, no gaps), ``stations``
+    (n, 2) dip stations (chainage, elevation) with signed apparent
+    ``dips``, ``contacts`` (k, 2) ground points of the contacts with the
+    units ``before`` and ``after`` them along the line; the construction
+    reaches ``depth`` metres below the section's lowest ground.
+
+    A homocline dipping 45° toward the end (younger beds toward the end),
+    one contact at the ground:
+
+    >>> result = construct(KINK, np.array([0.0, 100]), np.array([0.0, 0]),
+    ...                    np.array([[50.0, 0]]), np.array([45.0]), np.array([[20.0, 0]]),
+    ...                    np.array(["A"]), np.array(["B"]), 30.0, 0.0)
+    >>> shapely.get_coordinates(result.lines).round(6).tolist(), result.unit_above.tolist()
+    ([[20.0, 0.0], [50.0, -30.0]], ['B'])
+    """
+    floor = float(np.min(ground_z)) - depth
+    width = max(float(ground_x[-1] - ground_x[0]), 1.0)
+    reach = 4.0 * (width + float(np.max(ground_z)) - floor)
+    if method == ARC:
+        section = arc_section(stations[:, 0], stations[:, 1], dips, reach)
+    else:
+        section = kink_section(stations[:, 0], dips, ground_x, ground_z, floor)
+    region = below_ground(ground_x, ground_z, floor)
+    contact_levels = section.levels_at(contacts) if len(contacts) else np.empty(0)
+    extra = level_spacing(contact_levels, *_level_range(section, region), spacing)
+    levels = np.r_[contact_levels, extra]
+    known = ~np.isnan(levels)
+    lines, which = clipped_parts(section.form_lines(levels[known]), region)
+    which = np.flatnonzero(known)[which]
+    contact = np.where(which < len(contacts), which, -1)
+    above, below = _units_above_below(section, contacts, before, after, ground_x, ground_z)
+    pick = np.maximum(contact, 0)
+    axes, left, right, axis_dip = section.axes()
+    axis_lines, axis_index = clipped_parts(axes, region)
+    return SectionFormLines(
+        lines,
+        contact,
+        np.where(contact >= 0, above[pick] if len(above) else "", ""),
+        np.where(contact >= 0, below[pick] if len(below) else "", ""),
+        axis_lines,
+        left[axis_index],
+        right[axis_index],
+        axis_dip[axis_index],
+    )
+
+
+def _level_range(section, region):
+    """Lowest and highest stratigraphic level met in the region (at its
+    vertices: s is linear between axial surfaces, monotonic along arcs)."""
+    levels = section.levels_at(shapely.get_coordinates(region))
+    levels = levels[~np.isnan(levels)]
+    return (levels.min(), levels.max()) if len(levels) else (np.nan, np.nan)
+
+
+def _units_above_below(section, contacts, before, after, ground_x, ground_z):
+    """Which of the units either side of each contact is the upper: walking
+    along the ground toward the end goes up-section when the level rises."""
+    if len(contacts) == 0:
+        return np.empty(0, dtype=object), np.empty(0, dtype=object)
+    step = 0.5
+    ahead = contacts[:, 0] + step
+    behind = contacts[:, 0] - step
+    rise = section.levels_at(np.column_stack((ahead, np.interp(ahead, ground_x, ground_z))))
+    rise -= section.levels_at(np.column_stack((behind, np.interp(behind, ground_x, ground_z))))
+    upward = rise > 0
+    before, after = np.asarray(before, dtype=object), np.asarray(after, dtype=object)
+    return np.where(upward, after, before), np.where(upward, before, after)
