@@ -126,9 +126,8 @@ def _runs(points, valid):
     """A MultiLineString of the runs of consecutive valid vertices."""
     edges = np.diff(np.r_[0, valid.astype(np.int8), 0])
     starts, stops = np.flatnonzero(edges == 1), np.flatnonzero(edges == -1)
-    return shapely.multilinestrings(
-        [shapely.linestrings(points[a:b]) for a, b in zip(starts, stops) if b - a >= 2]
-    )
+    runs = [shapely.linestrings(points[a:b]) for a, b in zip(starts, stops) if b - a >= 2]
+    return shapely.multilinestrings(runs) if runs else shapely.MultiLineString()
 
 
 def arc_section(station_x, station_z, signed_dips, reach):

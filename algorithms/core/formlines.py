@@ -12,6 +12,7 @@ from .busk import arc_section
 from .kink import kink_section
 
 KINK, ARC = 0, 1
+SAME_LEVEL = 1.0  # metres of stratigraphy: contacts this close share a form line
 
 
 @dataclass
@@ -53,7 +54,8 @@ def construct(method, ground_x, ground_z, stations, dips, contacts, before, afte
         section = kink_section(stations[:, 0], dips, ground_x, ground_z, floor)
     region = below_ground(ground_x, ground_z, floor)
     contact_levels = section.levels_at(contacts) if len(contacts) else np.empty(0)
-    extra = level_spacing(contact_levels, *_level_range(section, region), spacing)
+    contact_levels[_repeated(contact_levels, before, after)] = np.nan
+    extra = level_spacing(contact_levels, *_level_range(section, region, width), spacing)
     levels = np.r_[contact_levels, extra]
     known = ~np.isnan(levels)
     lines, which = clipped_parts(section.form_lines(levels[known]), region)
@@ -75,10 +77,21 @@ def construct(method, ground_x, ground_z, stations, dips, contacts, before, afte
     )
 
 
-def _level_range(section, region):
-    """Lowest and highest stratigraphic level met in the region (at its
-    vertices: s is linear between axial surfaces, monotonic along arcs)."""
-    levels = section.levels_at(shapely.get_coordinates(region))
+def _repeated(levels, before, after):
+    """Contacts on the level of an earlier contact between the same two
+    units (one bed met on both limbs of a fold): its form line is drawn
+    once."""
+    pair = np.array([" | ".join(sorted((str(b), str(a)))) for b, a in zip(before, after)])
+    close = np.abs(levels[:, None] - levels[None, :]) < SAME_LEVEL
+    same = close & (pair[:, None] == pair[None, :])
+    return np.triu(same, k=1).any(axis=0)
+
+
+def _level_range(section, region, width):
+    """Lowest and highest stratigraphic level met in the region: on its
+    boundary, sampled every 1/1000 of the section's width."""
+    boundary = shapely.segmentize(shapely.boundary(region), width / 1000.0)
+    levels = section.levels_at(shapely.get_coordinates(boundary))
     levels = levels[~np.isnan(levels)]
     return (levels.min(), levels.max()) if len(levels) else (np.nan, np.nan)
 
