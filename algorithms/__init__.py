@@ -2,6 +2,7 @@
 
 
 def all_algorithms():
+    from .formlines import FormLinesAlgorithm
     from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
@@ -16,4 +17,5 @@ def all_algorithms():
         GeologyCrossingsAlgorithm(),
         ProjectBoreholesAlgorithm(),
         SectionSheetAlgorithm(),
+        FormLinesAlgorithm(),
     ]

@@ -14,6 +14,7 @@ from qgis.core import (
     QgsPalLayerSettings,
     QgsProcessing,
     QgsProcessingAlgorithm,
+    QgsProcessingParameterDefinition,
     QgsProcessingFeatureSource,
     QgsProcessingParameterNumber,
     QgsRenderContext,
@@ -57,6 +58,9 @@ SKIP_GEOMETRY_CHECKS = _scoped(
 NO_GEOMETRY_REQUEST = _scoped("FeatureRequestFlag", "NoGeometry", QgsFeatureRequest.Flag.NoGeometry)
 NO_THREADING = _scoped(
     "ProcessingAlgorithmFlag", "NoThreading", QgsProcessingAlgorithm.Flag.FlagNoThreading
+)
+ADVANCED = _scoped(
+    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.FlagAdvanced
 )
 EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
 LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)

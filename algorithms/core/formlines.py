@@ -98,7 +98,9 @@ def _level_range(section, region, width):
 
 def _units_above_below(section, contacts, before, after, ground_x, ground_z):
     """Which of the units either side of each contact is the upper: walking
-    along the ground toward the end goes up-section when the level rises."""
+    along the ground toward the end goes up-section where the level rises.
+    Contacts between the same two units are given the order most of them
+    show, so that one badly placed dip does not turn a unit over."""
     if len(contacts) == 0:
         return np.empty(0, dtype=object), np.empty(0, dtype=object)
     step = 0.5
@@ -106,6 +108,13 @@ def _units_above_below(section, contacts, before, after, ground_x, ground_z):
     behind = contacts[:, 0] - step
     rise = section.levels_at(np.column_stack((ahead, np.interp(ahead, ground_x, ground_z))))
     rise -= section.levels_at(np.column_stack((behind, np.interp(behind, ground_x, ground_z))))
-    upward = rise > 0
     before, after = np.asarray(before, dtype=object), np.asarray(after, dtype=object)
+    # +1 when the alphabetically first unit of the pair is the upper one
+    first_is_after = np.array([str(a) < str(b) for b, a in zip(before, after)])
+    vote = np.where(first_is_after, 1, -1) * np.sign(np.nan_to_num(rise))
+    pair = np.array([" | ".join(sorted((str(b), str(a)))) for b, a in zip(before, after)])
+    _, code = np.unique(pair, return_inverse=True)
+    majority = np.bincount(code.ravel(), weights=vote)[code.ravel()]
+    orientation = np.where(first_is_after, 1, -1)
+    upward = np.where(majority != 0, np.sign(majority) * orientation, np.nan_to_num(rise)) > 0
     return np.where(upward, after, before), np.where(upward, before, after)
