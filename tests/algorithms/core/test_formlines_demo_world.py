@@ -18,11 +18,11 @@ shrinks there with cos δ (Groshong, *3-D Structural Geology*, 2006, ch. 6,
 on parallel and similar folds; confirmed in part).
 """
 
+import demo_world as W
 import numpy as np
 import pytest
 import shapely
 
-import demo_world as W
 from sectionwright.algorithms.core.formlines import ARC, KINK, construct
 
 STATION_SPACING = 100.0
