@@ -36,6 +36,7 @@ from .outputs import fields as F
 from .outputs.carried_fields import computed_fields
 from .outputs.geometry_io import add_features
 from .outputs.section_space import SECTION_CRS_WKT, is_section_view
+from .outputs.styles import RendererStyler, axis_renderer, form_line_renderer
 
 ATTITUDES = "ATTITUDES"
 CROSSINGS = "CROSSINGS"
@@ -196,6 +197,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             self._add_skipped(sinks[SKIPPED][0], table, section, fid, reason)
         ledger.close()
         feedback.setProgress(100)
+        self._style(context, sinks)
         return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
 
     # Reading
@@ -426,6 +428,17 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             if sinks[name][0] is None:
                 raise QgsProcessingException(self.invalidSinkError(parameters, name))
         return sinks
+
+    def _style(self, context, sinks):
+        self.stylers = []  # kept alive until QGIS has loaded the layers
+        for name, make in (
+            (OUTPUT, lambda: form_line_renderer(F.KIND)),
+            (OUTPUT_AXES, axis_renderer),
+        ):
+            layer_id = sinks[name][1]
+            if context.willLoadLayerOnCompletion(layer_id):
+                self.stylers.append(RendererStyler(make))
+                context.layerToLoadOnCompletionDetails(layer_id).setPostProcessor(self.stylers[-1])
 
     @staticmethod
     def _add_skipped(sink, table, section, fid, reason):

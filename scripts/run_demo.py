@@ -4,7 +4,8 @@
 
 Makes the demo world, runs the Sectionwright algorithms on every demo
 section line through qgis_process — the topographic profile, the attitudes
-carried onto the sections, the map geology along them and the boreholes —
+carried onto the sections, the map geology along them, the boreholes and
+the form lines below the ground with the thickness check —
 writes ``sections.gpkg`` and prints a short summary per section.
 """
 
@@ -114,6 +115,27 @@ def run_boreholes(world, out):
     )
 
 
+def run_formlines(world, out):
+    """Needs the profile, attitudes and geology steps' layers in ``out``."""
+    return headless.run(
+        "sectionwright:formlines",
+        {
+            "ATTITUDES": f"{out}|layername=attitudes",
+            "CROSSINGS": f"{out}|layername=geology_crossings",
+            "PROFILE": f"{out}|layername=profile_section",
+            "METHOD": 0,
+            "DEPTH": 1500,
+            "SPACING": 50,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "form_lines"),
+            "OUTPUT_AXES": headless.gpkg_layer(out, "axial_surfaces"),
+            "OUTPUT_THICKNESS": headless.gpkg_layer(out, "unit_thickness"),
+            "SKIPPED": headless.gpkg_layer(out, "form_lines_skipped"),
+        },
+        world / ".headless-qgis",
+    )
+
+
 def count_by_section(layer, condition=lambda feature: True):
     counts = {}
     for feature in layer:
@@ -133,9 +155,15 @@ def print_summary(out):
     crossings.ResetReading()
     boundaries = count_by_section(crossings, lambda f: f.GetField("kind") == "unit boundary")
     holes = count_by_section(data.GetLayerByName("boreholes"))
+    form_lines = count_by_section(data.GetLayerByName("form_lines"))
+    thickness = data.GetLayerByName("unit_thickness")
+    changes = count_by_section(
+        thickness, lambda f: "thickness_changes" in (f.GetField("flags") or "")
+    )
     print(
         f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
         f"{'attitudes':>11}{'flagged':>9}{'unit bdys':>11}{'contacts':>10}{'holes':>7}"
+        f"{'form lines':>12}{'thick chg':>11}"
     )
     for feature in data.GetLayerByName("profile_section"):
         label = feature.GetField("section")
@@ -144,7 +172,7 @@ def print_summary(out):
             f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}"
             f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}"
             f"{boundaries.get(label, 0):>11d}{contacts.get(label, 0):>10d}"
-            f"{holes.get(label, 0):>7d}"
+            f"{holes.get(label, 0):>7d}{form_lines.get(label, 0):>12d}{changes.get(label, 0):>11d}"
         )
 
 
@@ -158,6 +186,7 @@ def main(out_dir):
         ("Attitudes carried onto the sections", run_attitudes),
         ("Geology along the sections", run_geology),
         ("Boreholes on the sections", run_boreholes),
+        ("Form lines below the ground", run_formlines),
     ):
         report = step(world, out)
         print(

@@ -53,3 +53,18 @@ def test_boreholes_run_headless(demo_dir, tmp_path):
     assert data.GetLayerByName("boreholes").GetFeatureCount() == 7
     skipped = data.GetLayerByName("boreholes_skipped").GetFeatureCount()
     assert skipped == 2 and line.endswith(f"skipped={skipped}")
+
+
+def test_formlines_run_headless(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    for step in (run_demo.run_profile, run_demo.run_attitudes, run_demo.run_geology):
+        step(demo_dir, out)
+    line = summary(run_demo.run_formlines(demo_dir, out))
+    data = ogr.Open(str(out))
+    skipped = data.GetLayerByName("form_lines_skipped").GetFeatureCount()
+    assert line.endswith(f"skipped={skipped}")
+    kinds = {f.GetField("kind") for f in data.GetLayerByName("form_lines")}
+    assert kinds == {"contact", "form line"}
+    assert data.GetLayerByName("axial_surfaces").GetFeatureCount() > 10
+    assert data.GetLayerByName("unit_thickness").GetFeatureCount() > 10
+    assert {f.GetField("ve") for f in data.GetLayerByName("form_lines")} == {2.0}
