@@ -60,31 +60,79 @@ def ground_arrays(chainage, elevation):
     return chainage[keep][order], elevation[keep][order]
 
 
-def below_ground(ground_x, ground_z, floor):
-    """Polygon between the ground and the construction floor, over the
-    section's length: everything a form line may occupy.
+def below_ground(lines, ground_x, ground_z, floor):
+    """The pieces of ``lines`` (LineStrings or MultiLineStrings) that lie
+    below the ground, above ``floor`` and within the ground's chainages, as
+    LineStrings with the index of the line each came from.
 
-    >>> below_ground(np.array([0.0, 10]), np.array([5.0, 5]), -5.0).area
-    100.0
+    The ground is linear between its samples and each line between its
+    vertices, so the two meet only where a sign change shows between the
+    vertices of both: the cut is exact, and no polygon of the whole ground
+    is built (on long sections that would cost more than the construction).
+
+    >>> parts, index = below_ground(np.array([shapely.LineString([(-5, 5), (5, -5)])]),
+    ...                             np.array([0.0, 10]), np.array([0.0, 0]), -3.0)
+    >>> shapely.get_coordinates(parts).round(6).tolist(), index.tolist()
+    ([[0.0, 0.0], [3.0, -3.0]], [0])
     """
-    ring = np.vstack(
-        ([ground_x[0], floor], np.column_stack((ground_x, ground_z)), [ground_x[-1], floor])
-    )
-    return shapely.make_valid(shapely.Polygon(ring))
-
-
-def clipped_parts(lines, region):
-    """The pieces (LineStrings) of ``lines`` inside ``region``, with the
-    index of the line each came from."""
-    if len(lines) == 0:
+    lines = np.asarray(lines, dtype=object)
+    parts, owner = shapely.get_parts(lines, return_index=True)
+    coords, vertex_part = shapely.get_coordinates(parts, return_index=True)
+    if len(coords) == 0:
         return np.empty(0, dtype=object), np.empty(0, dtype=int)
-    shapely.prepare(region)
-    inside = shapely.intersection(np.asarray(lines, dtype=object), region)
-    parts, index = shapely.get_parts(inside, return_index=True)
-    lines_only = shapely.get_type_id(parts) == shapely.GeometryType.LINESTRING
-    parts, index = parts[lines_only], index[lines_only]
-    long_enough = shapely.length(parts) > 1e-6
-    return parts[long_enough], index[long_enough]
+    # one row of NaN between parts, so that no segment joins two of them
+    starts = np.flatnonzero(np.r_[True, np.diff(vertex_part) != 0])
+    path = np.insert(coords, starts[1:], np.nan, axis=0)
+    part_of = np.insert(vertex_part, starts[1:], -1)
+    a, b = path[:-1], path[1:]
+    lo, hi = np.fmin(a[:, 0], b[:, 0]), np.fmax(a[:, 0], b[:, 0])
+    first = np.searchsorted(ground_x, lo, side="right")
+    count = np.maximum(np.searchsorted(ground_x, hi, side="left") - first, 0)
+    count[np.isnan(lo) | np.isnan(hi)] = 0
+    segment = np.repeat(np.arange(len(a)), count)
+    k = first[segment] + np.arange(count.sum()) - np.repeat(np.cumsum(count) - count, count)
+    t = (ground_x[k] - a[segment, 0]) / (b[segment, 0] - a[segment, 0])
+    u = np.unique(np.r_[np.arange(len(path), dtype=float), segment + t])
+
+    def at(u):
+        s = np.minimum(u.astype(int), len(a) - 1)
+        f = (u - s)[:, None]
+        with np.errstate(invalid="ignore"):
+            # at a vertex itself the next segment may be the NaN separator
+            return np.where(f == 0, a[s], np.where(f == 1, b[s], a[s] + f * (b[s] - a[s])))
+
+    def margins(p):  # all ≤ 0 inside
+        with np.errstate(invalid="ignore"):
+            ground = np.interp(p[:, 0], ground_x, ground_z)
+        return np.column_stack(
+            (p[:, 1] - ground, floor - p[:, 1], ground_x[0] - p[:, 0], p[:, 0] - ground_x[-1])
+        )
+
+    m = margins(at(u))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        sign_change = m[:-1] * m[1:] < 0
+        fraction = m[:-1] / (m[:-1] - m[1:])
+    cuts = (u[:-1, None] + fraction * np.diff(u)[:, None])[sign_change]
+    u = np.unique(np.r_[u, cuts])
+    points = at(u)
+    with np.errstate(invalid="ignore"):
+        inside = margins(at(0.5 * (u[:-1] + u[1:]))).max(axis=1) <= 0
+    edges = np.diff(np.r_[0, inside.astype(np.int8), 0])
+    run_start, run_stop = np.flatnonzero(edges == 1), np.flatnonzero(edges == -1)
+    if len(run_start) == 0:
+        return np.empty(0, dtype=object), np.empty(0, dtype=int)
+    length = run_stop - run_start + 1
+    vertices = (
+        np.repeat(run_start, length)
+        + np.arange(length.sum())
+        - np.repeat(np.cumsum(length) - length, length)
+    )
+    pieces = shapely.linestrings(
+        points[vertices], indices=np.repeat(np.arange(len(length)), length)
+    )
+    which = owner[part_of[np.minimum(u[run_start].astype(int), len(part_of) - 1)]]
+    keep = shapely.length(pieces) > 1e-6
+    return pieces[keep], which[keep]
 
 
 def exaggerated(geometries, exaggeration):

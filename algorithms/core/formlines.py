@@ -7,11 +7,12 @@ from dataclasses import dataclass
 import numpy as np
 import shapely
 
-from .bedding import below_ground, clipped_parts, level_spacing
+from .bedding import below_ground, level_spacing
 from .busk import arc_section
 from .kink import kink_section
 
 KINK, ARC = 0, 1
+EDGE_SAMPLES = 200
 SAME_LEVEL = 1.0  # metres of stratigraphy: contacts this close share a form line
 
 
@@ -52,19 +53,24 @@ def construct(method, ground_x, ground_z, stations, dips, contacts, before, afte
         section = arc_section(stations[:, 0], stations[:, 1], dips, reach)
     else:
         section = kink_section(stations[:, 0], dips, ground_x, ground_z, floor)
-    region = below_ground(ground_x, ground_z, floor)
     contact_levels = section.levels_at(contacts) if len(contacts) else np.empty(0)
     contact_levels[_repeated(contact_levels, before, after)] = np.nan
-    extra = level_spacing(contact_levels, *_level_range(section, region, width), spacing)
+    axes, left, right, axis_dip = section.axes()
+    axis_lines, axis_index = below_ground(axes, ground_x, ground_z, floor)
+    extra = (
+        level_spacing(
+            contact_levels, *_level_range(section, ground_x, ground_z, floor, axis_lines), spacing
+        )
+        if spacing > 0
+        else np.empty(0)
+    )
     levels = np.r_[contact_levels, extra]
     known = ~np.isnan(levels)
-    lines, which = clipped_parts(section.form_lines(levels[known]), region)
+    lines, which = below_ground(section.form_lines(levels[known]), ground_x, ground_z, floor)
     which = np.flatnonzero(known)[which]
     contact = np.where(which < len(contacts), which, -1)
     above, below = _units_above_below(section, contacts, before, after, ground_x, ground_z)
     pick = np.maximum(contact, 0)
-    axes, left, right, axis_dip = section.axes()
-    axis_lines, axis_index = clipped_parts(axes, region)
     return SectionFormLines(
         lines,
         contact,
@@ -87,11 +93,21 @@ def _repeated(levels, before, after):
     return np.triu(same, k=1).any(axis=0)
 
 
-def _level_range(section, region, width):
-    """Lowest and highest stratigraphic level met in the region: on its
-    boundary, sampled every 1/1000 of the section's width."""
-    boundary = shapely.segmentize(shapely.boundary(region), width / 1000.0)
-    levels = section.levels_at(shapely.get_coordinates(boundary))
+def _level_range(section, ground_x, ground_z, floor, axes):
+    """Lowest and highest stratigraphic level met below the ground: at the
+    ground's samples (at most EDGE_SAMPLES of them), along the floor and at
+    the ends of the axes, where the levels' pattern changes."""
+    every = max(1, len(ground_x) // EDGE_SAMPLES)
+    along = np.linspace(ground_x[0], ground_x[-1], EDGE_SAMPLES)
+    points = np.vstack(
+        (
+            np.column_stack((ground_x[::every], ground_z[::every])),
+            [[ground_x[-1], ground_z[-1]]],
+            np.column_stack((along, np.full(EDGE_SAMPLES, floor))),
+            shapely.get_coordinates(axes),
+        )
+    )
+    levels = section.levels_at(points)
     levels = levels[~np.isnan(levels)]
     return (levels.min(), levels.max()) if len(levels) else (np.nan, np.nan)
 
