@@ -14,6 +14,7 @@ import shapely
 # Apparent dips are clipped to this so that a vertical bed still has a
 # direction along the section (its normal is horizontal, not undefined).
 STEEPEST_DIP = 89.9
+CUT_ROUNDING = 1e-6  # metres: a vertex this close to the ground counts as on it
 
 
 def upward_normals(signed_dip):
@@ -84,22 +85,40 @@ def below_ground(lines, ground_x, ground_z, floor):
     starts = np.flatnonzero(np.r_[True, np.diff(vertex_part) != 0])
     path = np.insert(coords, starts[1:], np.nan, axis=0)
     part_of = np.insert(vertex_part, starts[1:], -1)
-    a, b = path[:-1], path[1:]
-    lo, hi = np.fmin(a[:, 0], b[:, 0]), np.fmax(a[:, 0], b[:, 0])
+    a = path[:-1]
+    step = np.diff(path, axis=0)
+    # Only where a segment is within the ground's range of elevations can it
+    # meet the ground: the ground's samples there are where the difference
+    # of the two may change its slope.
+    low, high = np.min(ground_z), np.max(ground_z)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        t_low = (low - a[:, 1]) / step[:, 1]
+        t_high = (high - a[:, 1]) / step[:, 1]
+        t0 = np.clip(np.fmin(t_low, t_high), 0.0, 1.0)
+        t1 = np.clip(np.fmax(t_low, t_high), 0.0, 1.0)
+        flat = step[:, 1] == 0
+        inside_band = (a[:, 1] >= low) & (a[:, 1] <= high)
+        t0 = np.where(flat, np.where(inside_band, 0.0, 1.0), t0)
+        t1 = np.where(flat, np.where(inside_band, 1.0, 0.0), t1)
+        x0, x1 = a[:, 0] + t0 * step[:, 0], a[:, 0] + t1 * step[:, 0]
+    valid = ~np.isnan(x0 + x1) & (t1 > t0)
+    lo, hi = np.where(valid, np.fmin(x0, x1), 0.0), np.where(valid, np.fmax(x0, x1), 0.0)
     first = np.searchsorted(ground_x, lo, side="right")
-    count = np.maximum(np.searchsorted(ground_x, hi, side="left") - first, 0)
-    count[np.isnan(lo) | np.isnan(hi)] = 0
+    count = np.where(valid, np.maximum(np.searchsorted(ground_x, hi, side="left") - first, 0), 0)
     segment = np.repeat(np.arange(len(a)), count)
     k = first[segment] + np.arange(count.sum()) - np.repeat(np.cumsum(count) - count, count)
-    t = (ground_x[k] - a[segment, 0]) / (b[segment, 0] - a[segment, 0])
-    u = np.unique(np.r_[np.arange(len(path), dtype=float), segment + t])
+    t = (ground_x[k] - a[segment, 0]) / step[segment, 0]
+    band = np.flatnonzero(valid)
+    u = np.sort(
+        np.r_[np.arange(len(path), dtype=float), segment + t, band + t0[band], band + t1[band]]
+    )
 
     def at(u):
         s = np.minimum(u.astype(int), len(a) - 1)
         f = (u - s)[:, None]
         with np.errstate(invalid="ignore"):
-            # at a vertex itself the next segment may be the NaN separator
-            return np.where(f == 0, a[s], np.where(f == 1, b[s], a[s] + f * (b[s] - a[s])))
+            # a part's last vertex is itself, not a step toward the separator
+            return np.where(f == 0, a[s], a[s] + f * step[s])
 
     def margins(p):  # all ≤ 0 inside
         with np.errstate(invalid="ignore"):
@@ -108,15 +127,25 @@ def below_ground(lines, ground_x, ground_z, floor):
             (p[:, 1] - ground, floor - p[:, 1], ground_x[0] - p[:, 0], p[:, 0] - ground_x[-1])
         )
 
-    m = margins(at(u))
+    points = at(u)
+    m = margins(points)
     with np.errstate(invalid="ignore", divide="ignore"):
         sign_change = m[:-1] * m[1:] < 0
         fraction = m[:-1] / (m[:-1] - m[1:])
-    cuts = (u[:-1, None] + fraction * np.diff(u)[:, None])[sign_change]
-    u = np.unique(np.r_[u, cuts])
-    points = at(u)
+        cuts = (u[:-1, None] + fraction * np.diff(u)[:, None])[sign_change]
+    cut_points = at(cuts)
+    order = np.argsort(np.r_[u, cuts], kind="stable")
+    u = np.r_[u, cuts][order]
+    points = np.vstack((points, cut_points))[order]
+    worst = np.r_[m.max(axis=1), margins(cut_points).max(axis=1)][order]
+    distinct = np.r_[True, np.diff(u) > 0]
+    u, points, worst = u[distinct], points[distinct], worst[distinct]
+    # Each margin is linear between neighbouring samples and changes sign
+    # only at a sample, so an interval is inside when both its ends are
+    # (to within rounding at the cuts).
     with np.errstate(invalid="ignore"):
-        inside = margins(at(0.5 * (u[:-1] + u[1:]))).max(axis=1) <= 0
+        inside = np.fmax(worst[:-1], worst[1:]) <= CUT_ROUNDING
+        inside &= ~np.isnan(worst[:-1] + worst[1:])
     edges = np.diff(np.r_[0, inside.astype(np.int8), 0])
     run_start, run_stop = np.flatnonzero(edges == 1), np.flatnonzero(edges == -1)
     if len(run_start) == 0:

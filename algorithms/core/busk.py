@@ -27,7 +27,7 @@ import shapely
 
 from .bedding import bed_directions, signed_line_dip, upward_normals
 
-ARC_STEP = np.radians(0.5)  # angle between vertices of a drawn arc
+CHORD_TOLERANCE = 0.25  # metres between a drawn arc's chords and the true arc
 NEAR = 1e-9
 
 
@@ -116,7 +116,9 @@ class ArcSection:
         a = np.arctan2(outward * self.normals[k, 1], outward * self.normals[k, 0])
         b = np.arctan2(outward * self.normals[k + 1, 1], outward * self.normals[k + 1, 0])
         turn = (b - a + np.pi) % (2 * np.pi) - np.pi
-        angle = a + turn * np.linspace(0.0, 1.0, max(2, int(np.ceil(abs(turn) / ARC_STEP)) + 1))
+        largest = max(float(np.max(radius, initial=0.0)), CHORD_TOLERANCE)
+        step = 2 * np.arccos(max(1.0 - CHORD_TOLERANCE / largest, -1.0))
+        angle = a + turn * np.linspace(0.0, 1.0, max(2, int(np.ceil(abs(turn) / step)) + 1))
         ring = np.column_stack((np.cos(angle), np.sin(angle)))
         points = self.centres[k] + np.maximum(radius, 0.0)[:, None, None] * ring[None]
         return points, radius > 0
