@@ -49,6 +49,7 @@ def test_zip_installs_and_registers_the_provider(profile):
     assert report["available"] and report["started"]
     assert report["provider"] == "Sectionwright"
     assert report["algorithms"] == [
+        "sectionwright:formlines",
         "sectionwright:geologycrossings",
         "sectionwright:normalizeattitudes",
         "sectionwright:profile",
