@@ -7,8 +7,6 @@ import numpy as np
 import shapely
 from qgis.core import (
     QgsCoordinateReferenceSystem,
-    QgsFeature,
-    QgsFields,
     QgsProcessingException,
     QgsProcessingParameterBoolean,
     QgsProcessingParameterEnum,
@@ -19,7 +17,6 @@ from qgis.core import (
 
 from .compat.qgis_compat import (
     ADVANCED,
-    FAST_INSERT,
     LINE_STRING,
     NO_GEOMETRY,
     NUMBER_DOUBLE,
@@ -29,13 +26,13 @@ from .compat.qgis_compat import (
 from .core.bedding import exaggerated, ground_arrays
 from .core.formlines import construct
 from .core.thickness import bed_normals, thickness_changes, unit_thickness
-from .framework.base import SKIPPED, VERTICAL_EXAGGERATION, SectionwrightAlgorithm
+from .framework.base import SKIPPED, VERTICAL_EXAGGERATION, SectionwrightAlgorithm, sink_results
 from .framework.ledger import RunLedger
 from .inputs.tables import labels, read_columns
 from .outputs import fields as F
-from .outputs.carried_fields import computed_fields
-from .outputs.geometry_io import add_features
-from .outputs.section_space import SECTION_CRS_WKT, is_section_view
+from .outputs.geometry_io import add_features, add_qgis_features
+from .outputs.section_space import is_section_view, section_crs
+from .outputs.skipped import write_skipped
 from .outputs.styles import RendererStyler, axis_renderer, form_line_renderer
 
 ATTITUDES = "ATTITUDES"
@@ -88,6 +85,12 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "formlines"
     DISPLAY_NAME = "Subsurface form lines"
     GROUP_ID = "sectiondrawing"
+    OUTPUT_SCHEMAS = {
+        OUTPUT: F.FORM_LINES,
+        OUTPUT_AXES: F.AXIAL_SURFACES,
+        OUTPUT_THICKNESS: F.UNIT_THICKNESS,
+        SKIPPED: F.SKIPPED_FORM_LINE_ROWS,
+    }
 
     def initAlgorithm(self, config=None):
         tr = self.tr
@@ -192,13 +195,13 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             feedback.setProgress(100.0 * (number + 1) / max(len(sections), 1))
         for label, data in sections.items():
             skipped += [(CROSSINGS, label, crossings["fid"][i], FAULT_REASON) for i in data.faults]
-        for table, section, fid, reason in skipped:
+        for *_, reason in skipped:
             ledger.skip(reason)
-            self._add_skipped(sinks[SKIPPED][0], table, section, fid, reason)
+        self._write_skipped(sinks[SKIPPED][0], skipped)
         ledger.close()
         feedback.setProgress(100)
         self._style(context, sinks)
-        return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+        return sink_results(sinks)
 
     # Reading
 
@@ -339,26 +342,32 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             depth if depth > 0 else length / 2,
             spacing,
         )
-        kinds = np.where(result.contact >= 0, CONTACT, FORM_LINE)
+        count, axes = len(result.lines), len(result.axes)
         add_features(
             sinks[OUTPUT][0],
             exaggerated(result.lines, exaggeration),
-            [
-                [label, kind, above or None, below or None, exaggeration]
-                for kind, above, below in zip(
-                    kinds.tolist(), result.unit_above.tolist(), result.unit_below.tolist()
-                )
-            ],
+            F.FORM_LINES.rows(
+                {
+                    F.SECTION: [label] * count,
+                    F.KIND: np.where(result.contact >= 0, CONTACT, FORM_LINE),
+                    F.UNIT_ABOVE: [u or None for u in result.unit_above],
+                    F.UNIT_BELOW: [u or None for u in result.unit_below],
+                    F.EXAGGERATION: np.full(count, exaggeration),
+                }
+            ),
         )
         add_features(
             sinks[OUTPUT_AXES][0],
             exaggerated(result.axes, exaggeration),
-            [
-                [label, _rounded(left), _rounded(right), _rounded(dip), exaggeration]
-                for left, right, dip in zip(
-                    result.dip_left.tolist(), result.dip_right.tolist(), result.axis_dip.tolist()
-                )
-            ],
+            F.AXIAL_SURFACES.rows(
+                {
+                    F.SECTION: [label] * axes,
+                    F.DIP_LEFT: result.dip_left,
+                    F.DIP_RIGHT: result.dip_right,
+                    F.AXIS_DIP: result.axis_dip,
+                    F.EXAGGERATION: np.full(axes, exaggeration),
+                }
+            ),
         )
         measured = self._thickness(
             label, attitudes, rows, chainage, contact_points, before, after,
@@ -391,43 +400,41 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             faults,
         )
         change, changed = thickness_changes(table["unit"], table["thick_m"], tolerance)
-        for i, flags in enumerate(table["flags"]):
-            if changed[i]:
-                flags.insert(0, "thickness_changes")
-            feature = QgsFeature()
-            feature.setAttributes(
-                [
-                    label,
-                    table["unit"][i],
-                    _rounded(table["from_ch"][i]),
-                    _rounded(table["to_ch"][i]),
-                    _rounded(table["thick_m"][i]),
-                    _rounded(table["thick_sd"][i]),
-                    _rounded(change[i]),
-                    ",".join(flags),
-                ]
-            )
-            sink.addFeature(feature, FAST_INSERT)
+        flags = [
+            ",".join((["thickness_changes"] if flagged else []) + own)
+            for flagged, own in zip(changed.tolist(), table["flags"])
+        ]
+        rows = F.UNIT_THICKNESS.rows(
+            {
+                F.SECTION: [label] * len(flags),
+                F.UNIT: table["unit"],
+                F.FROM_CHAINAGE: table["from_ch"],
+                F.TO_CHAINAGE: table["to_ch"],
+                F.THICKNESS: table["thick_m"],
+                F.THICKNESS_SD: table["thick_sd"],
+                F.CHANGE: change,
+                F.FLAGS: flags,
+            }
+        )
+        add_qgis_features(sink, [None] * len(rows), rows)
         return len(table["unit"]), int(changed.sum())
 
     # Writing
 
     def _sinks(self, parameters, context):
-        section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-        sinks = {}
-        for name, fields, kind, crs in (
-            (OUTPUT, F.FORM_LINE_FIELDS, LINE_STRING, section_crs),
-            (OUTPUT_AXES, F.AXIS_FIELDS, LINE_STRING, section_crs),
-            (OUTPUT_THICKNESS, F.THICKNESS_FIELDS, NO_GEOMETRY, QgsCoordinateReferenceSystem()),
-            (SKIPPED, F.FORM_LINE_SKIPPED_FIELDS, NO_GEOMETRY, QgsCoordinateReferenceSystem()),
-        ):
-            sinks[name] = self.parameterAsSink(
-                parameters, name, context, computed_fields(fields), kind, crs
+        no_crs = QgsCoordinateReferenceSystem()
+        specs = [
+            (name, self.OUTPUT_SCHEMAS[name].qgs_fields(), kind, crs)
+            for name, kind, crs in (
+                (OUTPUT, LINE_STRING, section_crs()),
+                (OUTPUT_AXES, LINE_STRING, section_crs()),
+                (OUTPUT_THICKNESS, NO_GEOMETRY, no_crs),
+                (SKIPPED, NO_GEOMETRY, no_crs),
             )
-        for name in (OUTPUT, OUTPUT_AXES, OUTPUT_THICKNESS):
-            if sinks[name][0] is None:
-                raise QgsProcessingException(self.invalidSinkError(parameters, name))
-        return sinks
+        ]
+        return self.open_sinks(
+            parameters, context, specs, required=(OUTPUT, OUTPUT_AXES, OUTPUT_THICKNESS)
+        )
 
     def _style(self, context, sinks):
         self.stylers = []  # kept alive until QGIS has loaded the layers
@@ -441,23 +448,21 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
                 context.layerToLoadOnCompletionDetails(layer_id).setPostProcessor(self.stylers[-1])
 
     @staticmethod
-    def _add_skipped(sink, table, section, fid, reason):
-        if sink is None:
-            return
-        feature = QgsFeature(QgsFields())
-        feature.setAttributes(
-            ["attitudes" if table == ATTITUDES else "crossings", section or None, fid, reason]
+    def _write_skipped(sink, skipped):
+        tables, sections, fids, reasons = zip(*skipped) if skipped else ((), (), (), ())
+        rows = F.SKIPPED_FORM_LINE_ROWS.rows(
+            {
+                F.TABLE: ["attitudes" if t == ATTITUDES else "crossings" for t in tables],
+                F.SECTION: [s or None for s in sections],
+                F.SOURCE_FID: list(fids),
+                F.REASON: list(reasons),
+            }
         )
-        sink.addFeature(feature, FAST_INSERT)
+        write_skipped(sink, [None] * len(rows), rows)
 
 
 def _numbers(values):
     return np.array([np.nan if v is None else float(v) for v in values], dtype=float)
-
-
-def _rounded(value):
-    """Plain float for an attribute, NULL for NaN."""
-    return None if value is None or value != value else round(float(value), 3)
 
 
 def _one_per_contact(crossings, rows):

@@ -63,7 +63,7 @@ def main(demo):
 
     from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
     from sectionwright.algorithms.outputs import styles
-    from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
+    from sectionwright.algorithms.outputs.section_space import section_crs
     from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
     from sectionwright.algorithms.sheet.page import add_page
 
@@ -105,7 +105,7 @@ def main(demo):
         )
     )
     add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
-    engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+    engineering = section_crs()
     view = {}
     for layer_name, name, renderer in (
         ("profile_section", "Ground surface", styles.profile_renderer()),
