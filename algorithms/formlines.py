@@ -63,6 +63,15 @@ ATTITUDE_COLUMNS = (
     F.LINE_AZIMUTH,
     F.APPARENT_DIP_SD,
 )
+NUMERIC_COLUMNS = (
+    F.CHAINAGE,
+    F.ELEVATION,
+    F.APPARENT_DIP,
+    F.DIP,
+    F.DIP_DIRECTION,
+    F.LINE_AZIMUTH,
+    F.APPARENT_DIP_SD,
+)
 CROSSING_COLUMNS = (F.SECTION, F.CHAINAGE, F.ELEVATION, F.KIND, F.UNIT_BEFORE, F.UNIT_AFTER)
 # A unit-boundary crossing and a contact-line crossing between the same two
 # units closer than this are one contact, drawn once (the contact line's).
@@ -70,6 +79,15 @@ SAME_CONTACT = 25.0
 CONTACT, FORM_LINE = "contact", "form line"
 UNIT_BOUNDARY = "unit boundary"
 FAULT_REASON = "fault: no form line; it marks the units it cuts as faulted"
+
+
+@dataclass
+class Settings:
+    method: int
+    depth: float  # 0: half the section's length
+    spacing: float
+    tolerance: float  # percent
+    exaggeration: float
 
 
 @dataclass
@@ -164,34 +182,31 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         attitudes = self._read(parameters, ATTITUDES, ATTITUDE_COLUMNS, ATTITUDES_LABEL, context)
         represent = self._representatives(parameters, context, feedback)
         crossings = self._read(parameters, CROSSINGS, CROSSING_COLUMNS, CROSSINGS_LABEL, context)
-        method = self.parameterAsEnum(parameters, METHOD, context)
-        depth = self.parameterAsDouble(parameters, DEPTH, context)
-        spacing = self.parameterAsDouble(parameters, SPACING, context)
-        tolerance = self.parameterAsDouble(parameters, THICKNESS_TOLERANCE, context)
-        exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
+        settings = Settings(
+            self.parameterAsEnum(parameters, METHOD, context),
+            self.parameterAsDouble(parameters, DEPTH, context),
+            self.parameterAsDouble(parameters, SPACING, context),
+            self.parameterAsDouble(parameters, THICKNESS_TOLERANCE, context),
+            self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context),
+        )
         sinks = self._sinks(parameters, context)
         ledger = RunLedger(feedback)
         skipped = []
         sections = self._sort(grounds, attitudes, represent, crossings, skipped)
         feedback.pushInfo(
-            f"{len(sections)} section(s); method: {METHODS[method]}; "
+            f"{len(sections)} section(s); method: {METHODS[settings.method]}; "
             f"{len(attitudes['fid'])} attitude(s), {len(crossings['fid'])} crossing(s) read."
         )
         ledger.read = len(attitudes["fid"]) + len(crossings["fid"])
         for number, (label, data) in enumerate(sorted(sections.items())):
             if feedback.isCanceled():
                 break
-            used = self._section(
-                label, data, attitudes, crossings, method, depth, spacing, tolerance,
-                exaggeration, sinks, feedback,
-            )  # fmt: skip
-            if used:
+            if self._section(label, data, attitudes, crossings, settings, sinks, feedback):
                 ledger.written += len(data.attitudes) + len(data.contacts)
             else:
-                for table, rows in ((ATTITUDES, data.attitudes), (CROSSINGS, data.contacts)):
-                    source = attitudes if table == ATTITUDES else crossings
-                    skipped += [(table, label, source["fid"][i], "no usable dip on the section")
-                                for i in rows]  # fmt: skip
+                reason = "no usable dip on the section"
+                skipped += [(ATTITUDES, label, attitudes["fid"][i], reason) for i in data.attitudes]
+                skipped += [(CROSSINGS, label, crossings["fid"][i], reason) for i in data.contacts]
             feedback.setProgress(100.0 * (number + 1) / max(len(sections), 1))
         for label, data in sections.items():
             skipped += [(CROSSINGS, label, crossings["fid"][i], FAULT_REASON) for i in data.faults]
@@ -218,8 +233,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         for key in (F.SECTION, F.DIPS_TO, F.KIND, F.UNIT_BEFORE, F.UNIT_AFTER):
             if key in values:
                 values[key] = [v or "" for v in labels(values[key])]
-        for key in (F.CHAINAGE, F.ELEVATION, F.APPARENT_DIP, F.DIP, F.DIP_DIRECTION,
-                    F.LINE_AZIMUTH, F.APPARENT_DIP_SD):  # fmt: skip
+        for key in NUMERIC_COLUMNS:
             if key in values:
                 values[key] = _numbers(values[key])
         return values
@@ -304,10 +318,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
 
     # One section
 
-    def _section(
-        self, label, data, attitudes, crossings, method, depth, spacing, tolerance,
-        exaggeration, sinks, feedback,
-    ):  # fmt: skip
+    def _section(self, label, data, attitudes, crossings, settings, sinks, feedback):
         if len(data.attitudes) == 0:
             feedback.pushInfo(f"Section {label}: no usable dip; nothing constructed.")
             return False
@@ -330,8 +341,9 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         before = np.array(crossings[F.UNIT_BEFORE], dtype=object)[contacts]
         after = np.array(crossings[F.UNIT_AFTER], dtype=object)[contacts]
         length = ground_x[-1] - ground_x[0]
+        exaggeration = settings.exaggeration
         result = construct(
-            method,
+            settings.method,
             ground_x,
             ground_z,
             np.column_stack((chainage, elevation)),
@@ -339,8 +351,8 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             contact_points,
             before,
             after,
-            depth if depth > 0 else length / 2,
-            spacing,
+            settings.depth if settings.depth > 0 else length / 2,
+            settings.spacing,
         )
         count, axes = len(result.lines), len(result.axes)
         add_features(
@@ -371,7 +383,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         )
         measured = self._thickness(
             label, attitudes, rows, chainage, contact_points, before, after,
-            crossings[F.CHAINAGE][data.faults], tolerance, sinks[OUTPUT_THICKNESS][0],
+            crossings[F.CHAINAGE][data.faults], settings.tolerance, sinks[OUTPUT_THICKNESS][0],
         )  # fmt: skip
         feedback.pushInfo(
             f"Section {label}: {len(rows)} dip(s), {len(contacts)} contact(s): "
