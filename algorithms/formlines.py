@@ -282,6 +282,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         for i, section in enumerate(attitudes[F.SECTION]):
             reason = (
                 "no profile for the section" if section not in sections
+                else "no chainage" if np.isnan(attitudes[F.CHAINAGE][i])
                 else "no apparent dip" if np.isnan(attitudes[F.APPARENT_DIP][i])
                 else "not representative" if represent is not None and not represent[i]
                 else ""

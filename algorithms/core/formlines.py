@@ -45,6 +45,12 @@ def construct(method, ground_x, ground_z, stations, dips, contacts, before, afte
     ...                    np.array(["A"]), np.array(["B"]), 30.0, 0.0)
     >>> shapely.get_coordinates(result.lines).round(6).tolist(), result.unit_above.tolist()
     ([[20.0, 0.0], [50.0, -30.0]], ['B'])
+
+    Without a usable dip nothing is constructed:
+
+    >>> len(construct(ARC, np.array([0.0, 100]), np.array([0.0, 0]), np.array([[50.0, 0]]),
+    ...               np.array([np.nan]), np.empty((0, 2)), [], [], 30.0, 0.0).lines)
+    0
     """
     floor = float(np.min(ground_z)) - depth
     width = max(float(ground_x[-1] - ground_x[0]), 1.0)
@@ -53,6 +59,8 @@ def construct(method, ground_x, ground_z, stations, dips, contacts, before, afte
         section = arc_section(stations[:, 0], stations[:, 1], dips, reach)
     else:
         section = kink_section(stations[:, 0], dips, ground_x, ground_z, floor)
+    if section is None:
+        return _nothing()
     contact_levels = section.levels_at(contacts) if len(contacts) else np.empty(0)
     contact_levels[_repeated(contact_levels, before, after)] = np.nan
     axes, left, right, axis_dip = section.axes()
@@ -80,6 +88,14 @@ def construct(method, ground_x, ground_z, stations, dips, contacts, before, afte
         left[axis_index],
         right[axis_index],
         axis_dip[axis_index],
+    )
+
+
+def _nothing():
+    none = np.empty(0, dtype=object)
+    numbers = np.empty(0)
+    return SectionFormLines(
+        none, np.empty(0, dtype=int), none, none, none, numbers, numbers, numbers
     )
 
 
