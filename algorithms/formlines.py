@@ -263,6 +263,12 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         values, _, geometries = read_columns(
             profile, {F.SECTION: F.SECTION, F.EXAGGERATION: F.EXAGGERATION}, PROFILE_LABEL, True
         )
+        exaggerations = sorted({float(ve) for ve in values[F.EXAGGERATION] if ve})
+        if len(exaggerations) > 1:
+            raise QgsProcessingException(
+                f"{PROFILE_LABEL}: its sections carry different exaggerations (ve "
+                f"{', '.join(f'{ve:g}' for ve in exaggerations)}); give the profile of one run."
+            )
         grounds = {}
         for section, ve, geometry in zip(
             labels(values[F.SECTION]), values[F.EXAGGERATION], geometries

@@ -268,6 +268,23 @@ def test_a_wrong_profile_layer_is_refused_by_its_label(provider):
         run({"ATTITUDES": attitudes, "CROSSINGS": crossings, "PROFILE": layer})
 
 
+def test_a_profile_of_mixed_exaggerations_is_refused(provider):
+    from qgis.core import QgsProcessingException
+
+    profile = _section_view_line([(0, 200.0), (2000, 200.0)], ve=2.0)
+    other = QgsFeature(profile.fields())
+    other.setGeometry(QgsGeometry.fromWkt("LINESTRING (0 100, 2000 100)"))
+    other.setAttributes(["S2", 1.0])
+    profile.dataProvider().addFeatures([other])
+    inputs = {
+        "ATTITUDES": point_layer([], ATTITUDE_FIELDS),
+        "CROSSINGS": point_layer([], CROSSING_FIELDS),
+        "PROFILE": profile,
+    }
+    with pytest.raises(QgsProcessingException, match="different exaggerations"):
+        run(inputs)
+
+
 def test_runs_as_a_step_of_a_graphical_model(provider, demo):
     from qgis.core import (
         QgsProcessingModelAlgorithm,
