@@ -42,6 +42,7 @@ class ArcSection:
     station_levels: np.ndarray  # (n,) s at each station
     centres: np.ndarray  # (n - 1, 2)
     lam: np.ndarray  # (n - 1,) C = P_k + lam · u_k
+    mu: np.ndarray  # (n - 1,) C = P_k+1 + mu · u_k+1
     reach: float
 
     @property
@@ -79,16 +80,31 @@ class ArcSection:
             + (levels[:, None] - self.station_levels[None, :])[..., None] * self.normals[None, :, :]
         )  # (K, n, 2): where each form line crosses each station's normal
         direction = bed_directions(self.dips)
+        reachable = self._short_of_the_centres(levels)
         pieces = [on_normals[:, :1] - self.reach * direction[0]]
-        valid = [np.ones((len(levels), 1), dtype=bool)]
+        valid = [reachable[:, :1]]
         for k in range(len(self.lam)):
             points, ok = self._between(k, levels, on_normals[:, k], on_normals[:, k + 1])
+            ok &= reachable[:, k] & reachable[:, k + 1]
             pieces.append(points)
             valid.append(np.repeat(ok[:, None], points.shape[1], axis=1))
         pieces.append(on_normals[:, -1:] + self.reach * direction[-1])
-        valid.append(np.ones((len(levels), 1), dtype=bool))
+        valid.append(reachable[:, -1:])
         points, valid = np.concatenate(pieces, axis=1), np.concatenate(valid, axis=1)
         return np.array([_runs(points[k], valid[k]) for k in range(len(levels))], dtype=object)
+
+    def _short_of_the_centres(self, levels):
+        """(K, n): whether each form line meets each station's normal on the
+        station's side of both centres on that normal. Beyond the nearer
+        centre the wedges of neighbouring arcs overlap (their normals have
+        crossed), and form lines drawn there would cross each other."""
+        along = levels[:, None] - self.station_levels[None, :]  # distance along each normal
+        centres = np.full((2, len(self.stations)), np.nan)
+        centres[0, 1:] = self.mu  # the centre of the arc before the station
+        centres[1, :-1] = self.lam  # … and of the arc after it
+        with np.errstate(invalid="ignore"):
+            beyond = (along[None] - centres[:, None, :]) * np.sign(centres[:, None, :]) >= 0
+        return ~beyond.any(axis=0)
 
     def axes(self):
         """(LineStrings, left dips, right dips, axis dips): for each arc the
@@ -170,4 +186,4 @@ def arc_section(station_x, station_z, signed_dips, reach):
     straight_step = np.einsum("ij,ij->i", mean, gap)
     steps = np.where(arcs, lam - mu, straight_step)
     station_levels = np.r_[0.0, np.cumsum(steps)]
-    return ArcSection(stations, dips, normals, station_levels, centres, lam, float(reach))
+    return ArcSection(stations, dips, normals, station_levels, centres, lam, mu, float(reach))

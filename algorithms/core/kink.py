@@ -29,6 +29,7 @@ import shapely
 from .bedding import bed_directions, signed_line_dip, upward_normals
 
 EQUAL_DIPS = 1e-9  # degrees: neighbouring dips closer than this share a domain
+SAME_POINT = 1e-7  # metres: crossings closer than this are one
 
 
 @dataclass
@@ -117,7 +118,9 @@ class KinkSection:
         crossing is not the one left of the next, the form line went below
         the floor between them: each side is carried on along its own
         domain (and cut at the floor later)."""
-        before, after = self.left[segments], self.right[segments]
+        points, before, after = _one_crossing_per_point(
+            points, self.left[segments], self.right[segments]
+        )
         pieces, current = [], [points[0] - self.reach * direction[before[0]]]
         for i in range(len(points)):
             current.append(points[i])
@@ -139,6 +142,26 @@ class KinkSection:
         if len(own) == 0:
             return shapely.MultiLineString()
         return _straight(self, int(own[0]), level, direction)
+
+
+def _one_crossing_per_point(points, before, after):
+    """Crossings at one point (a level through a surface's start, where its
+    part in the air meets its part below, or through a meeting of axial
+    surfaces) merged into one, from the domain none of them leads into to
+    the one none of them leads out of."""
+    same = np.r_[False, np.all(np.abs(np.diff(points, axis=0)) <= SAME_POINT, axis=1)]
+    group = np.cumsum(~same) - 1
+    if not same.any():
+        return points, before, after
+    keep = np.flatnonzero(~same)
+    merged_before, merged_after = before[keep].copy(), after[keep].copy()
+    for g in np.unique(group[same]):
+        members = np.flatnonzero(group == g)
+        entering = [d for d in before[members] if d not in set(after[members])]
+        leaving = [d for d in after[members] if d not in set(before[members])]
+        merged_before[g] = entering[0] if entering else before[members[0]]
+        merged_after[g] = leaving[0] if leaving else after[members[-1]]
+    return points[keep], merged_before, merged_after
 
 
 def _straight(section, domain, level, direction):
@@ -166,8 +189,10 @@ def kink_section(station_x, signed_dips, ground_x, ground_z, floor):
 
     >>> fold = kink_section(np.array([400.0, 600]), np.array([-30.0, 30]),
     ...                     np.array([0.0, 1000]), np.array([100.0, 100]), -400.0)
-    >>> fold.upper[:, 0].round(6).tolist(), fold.lower.round(6).tolist()
-    ([500.0], [[500.0, -400.0]])
+    >>> fold.upper.round(6).tolist()  # below the ground, then into the air
+    [[500.0, 100.0], [500.0, 6100.0]]
+    >>> fold.lower.round(6).tolist()
+    [[500.0, -400.0], [500.0, 100.0]]
 
     Nothing is guessed without dips:
 
@@ -190,24 +215,31 @@ def kink_section(station_x, signed_dips, ground_x, ground_z, floor):
     offsets = np.r_[0.0, np.cumsum(jumps)]
     width = max(float(ground_x[-1] - ground_x[0]), float(station_x[-1] - station_x[0]), 1.0)
     reach = 4.0 * (width + float(np.max(ground_z)) - floor)
-    # Drawn far up into the air, so that a bed eroded from a crest still
-    # meets the axial surface it crossed there (the air is cut off later).
+    down = _sweep(starts, normals, ground_x, ground_z, floor)
+    # The same construction upward into the air, mirrored (z → −z turns the
+    # dips over), so that a bed eroded from a crest still meets the axial
+    # surface it crossed there, and the axial surfaces up there do not cross
+    # (the air is cut off afterwards).
     top = float(np.max(ground_z)) + reach
-    upper, lower, left, right = _sweep(starts, normals, ground_x, ground_z, top, floor)
+    mirror = np.array([1.0, -1.0])
+    # (mirrored, a bed's upward normal is −(u_x, −u_z))
+    up = _sweep(starts * mirror, -normals * mirror, ground_x, -ground_z, -top)
+    upper = np.vstack((down[0], up[1] * mirror))
+    lower = np.vstack((down[1], up[0] * mirror))
+    left, right = np.r_[down[2], up[2]], np.r_[down[3], up[3]]
     return KinkSection(dips, normals, offsets, upper, lower, left, right, reach)
 
 
-def _sweep(starts, normals, ground_x, ground_z, top, floor):
-    """Axial-surface segments from the ground down to ``floor``, ending
-    each pair of neighbours where they meet and starting the new one."""
+def _sweep(starts, normals, ground_x, ground_z, floor):
+    """Axial-surface segments from their starts at the ground down to
+    ``floor``, ending each pair of neighbours where they meet below both
+    starts and below the ground, and starting the new one there."""
     direction = -(normals[:-1] + normals[1:])
     direction /= np.linalg.norm(direction, axis=1)[:, None]
     origin = list(starts)
     heading = list(direction)
-    # The initial surfaces are drawn up into the air to ``top``; a meeting
-    # counts only below the ground (initial) or below a surface's start.
-    upper = [o + (top - o[1]) / d[1] * d for o, d in zip(starts, direction)]
-    limit = [np.inf] * len(starts)
+    upper = list(starts)
+    limit = [o[1] for o in starts]
     sides = [(k, k + 1) for k in range(len(starts))]
     active = list(range(len(starts)))
     domains = list(range(len(normals)))

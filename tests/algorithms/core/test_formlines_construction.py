@@ -14,7 +14,9 @@ import numpy as np
 import pytest
 import shapely
 
+from sectionwright.algorithms.core.bedding import below_ground
 from sectionwright.algorithms.core.formlines import ARC, KINK, construct
+from sectionwright.algorithms.core.kink import kink_section
 from sectionwright.algorithms.core.thickness import (
     bed_normals,
     thickness_changes,
@@ -286,3 +288,26 @@ def test_a_fold_closure_and_a_fault_give_no_thickness():
     )
     assert table["flags"] == [[], ["closure"], ["faulted"]]
     assert np.isnan(table["thick_m"][1:]).all()
+
+
+def test_kink_form_lines_never_cross_below_the_ground():
+    """Form lines are level sets of one stratigraphic level, so lines of
+    different levels never cross (common practice: form lines never cross).
+    Seeded random sections: folds sampled at random stations with noise, on
+    hilly ground, axial surfaces meeting at depth and in the air."""
+    rng = np.random.default_rng(13)
+    for _ in range(30):
+        length = 15000.0
+        ground_x = np.linspace(0, length, 300)
+        ground_z = 500 + 40 * np.sin(ground_x / 700 + rng.uniform(0, 6))
+        stations = np.sort(rng.uniform(0, length, rng.integers(5, 40)))
+        wavelength, amplitude = rng.uniform(3000, 8000), rng.uniform(100, 600)
+        slope = amplitude * 2 * np.pi / wavelength * np.cos(2 * np.pi * stations / wavelength)
+        dips = np.degrees(np.arctan(-slope)) + rng.normal(0, 3, len(stations))
+        floor = ground_z.min() - 2000
+        fold = kink_section(stations, dips, ground_x, ground_z, floor)
+        parts, level = below_ground(fold.form_lines(np.linspace(-2500, 1500, 41)), ground_x,
+                                    ground_z, floor)  # fmt: skip
+        drawn = [shapely.multilinestrings(list(parts[level == k])) for k in np.unique(level)]
+        for upper, lower in zip(drawn, drawn[1:]):
+            assert not shapely.intersects(upper, lower)
