@@ -236,43 +236,40 @@ def _sweep(starts, normals, ground_x, ground_z, floor):
     starts and below the ground, and starting the new one there."""
     direction = -(normals[:-1] + normals[1:])
     direction /= np.linalg.norm(direction, axis=1)[:, None]
-    origin = list(starts)
-    heading = list(direction)
+    count = len(starts)
+    # every segment ever made, by id; the active ones in order along the section
     upper = list(starts)
-    limit = [o[1] for o in starts]
-    sides = [(k, k + 1) for k in range(len(starts))]
-    active = list(range(len(starts)))
+    lower = [None] * count
+    sides = [(k, k + 1) for k in range(count)]
+    ids = np.arange(count)
+    origin, heading, limit = starts.copy(), direction, starts[:, 1].copy()
     domains = list(range(len(normals)))
-    lower = {}
-    while len(active) >= 2:
-        meeting = _meetings(
-            np.array([origin[r] for r in active]),
-            np.array([heading[r] for r in active]),
-            np.array([limit[r] for r in active]),
-            ground_x,
-            ground_z,
-            floor,
-        )
+    while len(ids) >= 2:
+        meeting = _meetings(origin, heading, limit, ground_x, ground_z, floor)
         if meeting is None:
             break
         j, point = meeting
-        for r in active[j : j + 2]:
-            lower[r] = point
+        lower[ids[j]] = lower[ids[j + 1]] = point
         new_direction = -(normals[domains[j]] + normals[domains[j + 2]])
-        origin.append(point)
-        heading.append(new_direction / np.linalg.norm(new_direction))
+        new_direction /= np.linalg.norm(new_direction)
         upper.append(point)
-        limit.append(point[1])
+        lower.append(None)
         sides.append((domains[j], domains[j + 2]))
-        active[j : j + 2] = [len(origin) - 1]
         del domains[j + 1]
-    for r in active:
-        o, d = origin[r], heading[r]
-        lower[r] = o + (floor - o[1]) / d[1] * d
+        ids = np.r_[ids[:j], len(upper) - 1, ids[j + 2 :]]
+        origin = np.vstack((origin[:j], point, origin[j + 2 :]))
+        heading = np.vstack((heading[:j], new_direction, heading[j + 2 :]))
+        limit = np.r_[limit[:j], point[1], limit[j + 2 :]]
+    ends = origin + ((floor - origin[:, 1]) / heading[:, 1])[:, None] * heading
+    for k, end in zip(ids.tolist(), ends):
+        lower[k] = end
     left, right = np.array(sides, dtype=int).reshape(-1, 2).T
-    upper = np.array(upper, dtype=float).reshape(-1, 2)
-    lower = np.array([lower[r] for r in range(len(origin))], dtype=float).reshape(-1, 2)
-    return upper, lower, left, right
+    return (
+        np.array(upper, dtype=float).reshape(-1, 2),
+        np.array(lower, dtype=float).reshape(-1, 2),
+        left,
+        right,
+    )
 
 
 def _meetings(origin, heading, limit, ground_x, ground_z, floor):
