@@ -256,10 +256,10 @@ def _sweep(starts, normals, ground_x, ground_z, floor):
         lower.append(None)
         sides.append((domains[j], domains[j + 2]))
         del domains[j + 1]
-        ids = np.r_[ids[:j], len(upper) - 1, ids[j + 2 :]]
-        origin = np.vstack((origin[:j], point, origin[j + 2 :]))
-        heading = np.vstack((heading[:j], new_direction, heading[j + 2 :]))
-        limit = np.r_[limit[:j], point[1], limit[j + 2 :]]
+        # the pair j, j + 1 becomes the new surface
+        keep = np.arange(len(ids)) != j + 1
+        ids, origin, heading, limit = ids[keep], origin[keep], heading[keep], limit[keep]
+        ids[j], origin[j], heading[j], limit[j] = len(upper) - 1, point, new_direction, point[1]
     ends = origin + ((floor - origin[:, 1]) / heading[:, 1])[:, None] * heading
     for k, end in zip(ids.tolist(), ends):
         lower[k] = end
