@@ -2,6 +2,7 @@
 
 
 def all_algorithms():
+    from .dipdomains import DipDomainsAlgorithm
     from .formlines import FormLinesAlgorithm
     from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
@@ -9,6 +10,7 @@ def all_algorithms():
     from .projectattitudes import ProjectAttitudesAlgorithm
     from .projectboreholes import ProjectBoreholesAlgorithm
     from .sectionsheet import SectionSheetAlgorithm
+    from .structuraltrend import StructuralTrendAlgorithm
 
     return [
         ProfileAlgorithm(),
@@ -17,5 +19,7 @@ def all_algorithms():
         GeologyCrossingsAlgorithm(),
         ProjectBoreholesAlgorithm(),
         SectionSheetAlgorithm(),
+        StructuralTrendAlgorithm(),
+        DipDomainsAlgorithm(),
         FormLinesAlgorithm(),
     ]

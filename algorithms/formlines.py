@@ -16,12 +16,12 @@ from qgis.core import (
 )
 
 from .compat.qgis_compat import (
-    ADVANCED,
     LINE_STRING,
     NO_GEOMETRY,
     NUMBER_DOUBLE,
     SOURCE_LINES,
     SOURCE_POINTS,
+    advanced,
 )
 from .core.bedding import exaggerated, ground_arrays
 from .core.formlines import construct
@@ -158,8 +158,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             defaultValue=15.0,
             minValue=0.0,
         )
-        tolerance.setFlags(tolerance.flags() | ADVANCED)
-        self.addParameter(tolerance)
+        self.addParameter(advanced(tolerance))
         self.add_exaggeration_parameter()
         for name, label, kind in (
             (OUTPUT, "Form lines (section view)", SOURCE_LINES),
@@ -244,14 +243,14 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         if not self.parameterAsBoolean(parameters, REPRESENTATIVES_ONLY, context):
             return None
         source = self.source(parameters, ATTITUDES, context)
-        if source.fields().lookupField(F.REPRESENTATIVE) < 0:
+        if source.fields().lookupField(F.REPRESENT) < 0:
             feedback.pushInfo(
-                f"{ATTITUDES_LABEL}: no '{F.REPRESENTATIVE}' field (made by Dip domains): "
+                f"{ATTITUDES_LABEL}: no '{F.REPRESENT}' field (made by Dip domains): "
                 "every attitude is used."
             )
             return None
-        values, _, _ = read_columns(source, {F.REPRESENTATIVE: F.REPRESENTATIVE}, ATTITUDES_LABEL)
-        return np.array([v == 1 or v == "1" for v in values[F.REPRESENTATIVE]], dtype=bool)
+        values, _, _ = read_columns(source, {F.REPRESENT: F.REPRESENT}, ATTITUDES_LABEL)
+        return np.array([v == 1 or v == "1" for v in values[F.REPRESENT]], dtype=bool)
 
     def _grounds(self, profile):
         """{section: (chainage, elevation)} at true scale from the profile."""

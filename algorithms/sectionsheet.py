@@ -339,7 +339,8 @@ class SheetBuilder:
         if ground is None:
             return None
         ve_field = self.profile.fields().lookupField(F.EXAGGERATION)
-        exaggeration = float(ground[F.EXAGGERATION]) if ve_field >= 0 else 1.0
+        ve = plain(ground[F.EXAGGERATION]) if ve_field >= 0 else None
+        exaggeration = 1.0 if ve is None else float(ve)
         layers = self._layers(part.label, exaggeration)
         self._report_empty(part.label, layers)
         present = [layer for layer in layers.values() if layer is not None]

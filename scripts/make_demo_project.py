@@ -105,6 +105,17 @@ def main(demo):
         )
     )
     add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
+    trend_group = root.addGroup("Structural trend and dip domains")
+    add(
+        results,
+        "trend",
+        "Suggested section line (structural trend)",
+        trend_group,
+        renderer=styles.section_line_renderer(),
+    )
+    add(results, "trend_lines", "Section lines checked against the trend", trend_group)
+    add(results, "attitude_domains", "Attitudes with dip domains", trend_group)
+    add(results, "domains", "Dip domains", trend_group)
     engineering = section_crs()
     view = {}
     for layer_name, name, renderer in (

@@ -7,6 +7,7 @@ from pathlib import Path
 from osgeo import ogr
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "scripts"))
+import headless  # noqa: E402
 import run_demo  # noqa: E402
 
 
@@ -55,6 +56,34 @@ def test_boreholes_run_headless(demo_dir, tmp_path):
     assert skipped == 2 and line.endswith(f"skipped={skipped}")
 
 
+def test_dip_domains_run_headless_on_the_carried_attitudes(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    run_demo.run_attitudes(demo_dir, out)
+    line = summary(run_demo.run_domains(demo_dir, out))
+    data = ogr.Open(str(out))
+    carried = data.GetLayerByName("attitudes").GetFeatureCount()
+    assert line == f"Summary: read={carried} written={carried} skipped=0"
+    points = data.GetLayerByName("attitude_domains")
+    domains = data.GetLayerByName("domains")
+    assert sum(f.GetField("represent") for f in points) == domains.GetFeatureCount()
+    assert {f.GetField("section") for f in domains} == {"A", "B", "C", "D"}
+
+
+def test_structural_trend_runs_headless(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    report = run_demo.run_trend(demo_dir, out)
+    assert summary(report) == "Summary: read=84 written=82 skipped=2"
+    data = ogr.Open(str(out))
+    (trend,) = list(data.GetLayerByName("trend"))
+    assert trend.GetField("pattern") == "girdle"
+    assert trend.GetGeometryRef().Length() > 5000
+    lines = {
+        f.GetField("section"): f.GetField("misfit") for f in data.GetLayerByName("trend_lines")
+    }
+    assert sorted(lines) == ["A", "B", "C", "D"]
+    assert data.GetLayerByName("trend_skipped").GetFeatureCount() == 2
+
+
 def test_formlines_run_headless(demo_dir, tmp_path):
     out = tmp_path / "demo.gpkg"
     for step in (run_demo.run_profile, run_demo.run_attitudes, run_demo.run_geology):
@@ -68,3 +97,29 @@ def test_formlines_run_headless(demo_dir, tmp_path):
     assert data.GetLayerByName("axial_surfaces").GetFeatureCount() > 10
     assert data.GetLayerByName("unit_thickness").GetFeatureCount() > 10
     assert {f.GetField("ve") for f in data.GetLayerByName("form_lines")} == {2.0}
+
+
+def test_formlines_take_the_representatives_of_dip_domains(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    for step in (run_demo.run_profile, run_demo.run_attitudes, run_demo.run_geology):
+        step(demo_dir, out)
+    run_demo.run_domains(demo_dir, out)
+    report = headless.run(
+        "sectionwright:formlines",
+        {
+            "ATTITUDES": f"{out}|layername=attitude_domains",
+            "CROSSINGS": f"{out}|layername=geology_crossings",
+            "PROFILE": f"{out}|layername=profile_section",
+            "REPRESENTATIVES_ONLY": True,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "form_lines"),
+            "OUTPUT_AXES": headless.gpkg_layer(out, "axial_surfaces"),
+            "OUTPUT_THICKNESS": headless.gpkg_layer(out, "unit_thickness"),
+        },
+        demo_dir / ".headless-qgis",
+    )
+    data = ogr.Open(str(out))
+    chosen = sum(f.GetField("represent") for f in data.GetLayerByName("attitude_domains"))
+    carried = data.GetLayerByName("attitude_domains").GetFeatureCount()
+    skipped = [line for line in report["log"]["info"] if line.startswith("Skipped:")][0]
+    assert f"not representative={carried - chosen}" in skipped

@@ -49,6 +49,7 @@ def test_zip_installs_and_registers_the_provider(profile):
     assert report["available"] and report["started"]
     assert report["provider"] == "Sectionwright"
     assert report["algorithms"] == [
+        "sectionwright:dipdomains",
         "sectionwright:formlines",
         "sectionwright:geologycrossings",
         "sectionwright:normalizeattitudes",
@@ -56,6 +57,7 @@ def test_zip_installs_and_registers_the_provider(profile):
         "sectionwright:projectattitudes",
         "sectionwright:projectboreholes",
         "sectionwright:sectionsheet",
+        "sectionwright:structuraltrend",
     ]
     assert report["unloaded"]
 
