@@ -13,7 +13,9 @@ Where two neighbouring axial surfaces meet below the ground the domain
 between them ends; from the meeting point a new axial surface runs down
 between the two domains that now touch, bisecting their beds. The
 construction sweeps downward from the highest such meeting to the lowest
-until the floor.
+until the floor, and the same way upward into the air (mirrored), so that
+a bed eroded from a crest crosses the axial surfaces it met up there and
+those never cross one another.
 
 A form line is a level set s = constant. Within a domain it is straight;
 it bends where it crosses an axial surface. Since ∂s/∂z = cos α > 0 in
