@@ -16,8 +16,9 @@ normals) the beds between them are straight. Where the two normals meet
 between the stations' sides (one station above the meeting point, the
 other below it) no single arc is tangent to both: the form lines are
 joined straight from normal to normal there. Arcs shrink toward their
-centre: a form line whose radius would reach zero ends at the normal
-before it (the space problem of concentric folds at depth).
+centre: on each station's normal a form line ends where that normal
+crosses another station's normal (for neighbours, their arc's centre), so
+that arcs never overlap (the space problem of concentric folds at depth).
 """
 
 from dataclasses import dataclass
@@ -94,17 +95,22 @@ class ArcSection:
         return np.array([_runs(points[k], valid[k]) for k in range(len(levels))], dtype=object)
 
     def _short_of_the_centres(self, levels):
-        """(K, n): whether each form line meets each station's normal on the
-        station's side of both centres on that normal. Beyond the nearer
-        centre the wedges of neighbouring arcs overlap (their normals have
-        crossed), and form lines drawn there would cross each other."""
+        """(K, n): whether each form line meets each station's normal short
+        of the nearest point, on either side of the station, where that
+        normal crosses the normal of another station (for neighbours: the
+        centre of their arc). Beyond it the wedges of the arcs overlap, and
+        form lines drawn there would cross each other."""
         along = levels[:, None] - self.station_levels[None, :]  # distance along each normal
-        centres = np.full((2, len(self.stations)), np.nan)
-        centres[0, 1:] = self.mu  # the centre of the arc before the station
-        centres[1, :-1] = self.lam  # … and of the arc after it
-        with np.errstate(invalid="ignore"):
-            beyond = (along[None] - centres[:, None, :]) * np.sign(centres[:, None, :]) >= 0
-        return ~beyond.any(axis=0)
+        p, u = self.stations, self.normals
+        gap = p[None, :, :] - p[:, None, :]  # P_k − P_j
+        denominator = u[:, None, 0] * u[None, :, 1] - u[:, None, 1] * u[None, :, 0]
+        with np.errstate(invalid="ignore", divide="ignore"):
+            # P_j + t u_j = P_k + s u_k, solved for t (along normal j)
+            t = (gap[..., 0] * u[None, :, 1] - gap[..., 1] * u[None, :, 0]) / denominator
+        t[~np.isfinite(t) | (np.abs(denominator) <= NEAR)] = np.nan
+        below = np.nanmax(np.where(t < 0, t, np.nan), axis=1, initial=-np.inf)
+        above = np.nanmin(np.where(t > 0, t, np.nan), axis=1, initial=np.inf)
+        return (along > below[None, :]) & (along < above[None, :])
 
     def axes(self):
         """(LineStrings, left dips, right dips, axis dips): for each arc the

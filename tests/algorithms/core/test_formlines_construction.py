@@ -15,6 +15,7 @@ import pytest
 import shapely
 
 from sectionwright.algorithms.core.bedding import below_ground
+from sectionwright.algorithms.core.busk import arc_section
 from sectionwright.algorithms.core.formlines import ARC, KINK, construct
 from sectionwright.algorithms.core.kink import kink_section
 from sectionwright.algorithms.core.thickness import (
@@ -290,11 +291,13 @@ def test_a_fold_closure_and_a_fault_give_no_thickness():
     assert np.isnan(table["thick_m"][1:]).all()
 
 
-def test_kink_form_lines_never_cross_below_the_ground():
+@pytest.mark.parametrize("method", [KINK, ARC])
+def test_form_lines_never_cross_below_the_ground(method):
     """Form lines are level sets of one stratigraphic level, so lines of
     different levels never cross (common practice: form lines never cross).
     Seeded random sections: folds sampled at random stations with noise, on
-    hilly ground, axial surfaces meeting at depth and in the air."""
+    hilly ground, axial surfaces meeting at depth and in the air, arcs
+    whose wedges overlap at depth."""
     rng = np.random.default_rng(13)
     for _ in range(30):
         length = 15000.0
@@ -305,7 +308,11 @@ def test_kink_form_lines_never_cross_below_the_ground():
         slope = amplitude * 2 * np.pi / wavelength * np.cos(2 * np.pi * stations / wavelength)
         dips = np.degrees(np.arctan(-slope)) + rng.normal(0, 3, len(stations))
         floor = ground_z.min() - 2000
-        fold = kink_section(stations, dips, ground_x, ground_z, floor)
+        fold = (
+            kink_section(stations, dips, ground_x, ground_z, floor)
+            if method == KINK
+            else arc_section(stations, np.interp(stations, ground_x, ground_z), dips, 1e6)
+        )
         parts, level = below_ground(fold.form_lines(np.linspace(-2500, 1500, 41)), ground_x,
                                     ground_z, floor)  # fmt: skip
         drawn = [shapely.multilinestrings(list(parts[level == k])) for k in np.unique(level)]
