@@ -40,7 +40,7 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
 
     ``fields`` (``QgsFields``) are the sink's fields, in its order;
     ``columns`` maps each field's name to its values (numpy array or list,
-    one per row; NaN and None are NULL); ``geometries`` is a numpy array of
+    one per row; NaN and None are NULL); ``geometries`` is an array or list of
     shapely geometries (None elements: no geometry), a list of WKB
     ``bytes`` (for M values, which shapely 2.0 cannot hold), ``QgsGeometry``
     (as read from a source) or None, or None for a table. Cancel
@@ -149,7 +149,10 @@ def geometry_wkbs(geometries):
     """WKB bytes (or None) per row. Points are packed by numpy as PointZ
     when any has a Z: GEOS writes a point whose Z is NaN as 2-D."""
     if not isinstance(geometries, np.ndarray):
-        return list(geometries)
+        items = list(geometries)
+        if not any(isinstance(g, shapely.Geometry) for g in items):
+            return items
+        geometries = np.array(items, dtype=object)
     present = ~shapely.is_missing(geometries)
     wkbs = np.full(len(geometries), None, dtype=object)
     points = present & (shapely.get_type_id(geometries) == 0) & ~shapely.is_empty(geometries)
