@@ -239,17 +239,23 @@ def ogr_iterator(sink, fields, columns, xyz):
     gdal.Unlink(path)
 
 
-def floor_prepare(fields, columns, xyz):
-    """Features made beforehand: only the sink's own work is timed."""
-    from qgis.core import QgsFeature, QgsPoint
+class Collector:
+    """Takes the features a candidate hands to a sink, and keeps them."""
 
-    features = []
-    for row, (x, y, z) in zip(python_rows(columns), xyz.tolist()):
-        feature = QgsFeature()
-        feature.setGeometry(QgsPoint(x, y, z))
-        feature.setAttributes(row)
-        features.append(feature)
-    return features
+    def __init__(self):
+        self.features = []
+
+    def addFeatures(self, features, flags):  # noqa: N802 (the sink's API)
+        self.features.extend(features)
+        return True
+
+
+def floor_prepare(fields, columns, xyz):
+    """Features made beforehand (as the first candidate makes them): only
+    the sink's own work is timed."""
+    collector = Collector()
+    per_feature(collector, fields, columns, xyz)
+    return collector.features
 
 
 CANDIDATES = (
