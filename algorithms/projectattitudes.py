@@ -4,9 +4,7 @@ from collections import Counter
 from dataclasses import dataclass
 
 import numpy as np
-import shapely
 from qgis.core import (
-    QgsFields,
     QgsProcessingException,
     QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
@@ -31,13 +29,14 @@ from .framework.base import (
     sink_results,
 )
 from .framework.ledger import RunLedger
-from .inputs.attitudes import AttitudeSettings, add_attitude_parameters, geometry_reason
+from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.dem import DemSampler, bounded_gdal_cache
 from .inputs.map_layers import read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
-from .outputs.geometry_io import add_features, add_wkb_features, points_z
+from .outputs.feature_writer import line_wkbs, write_rows
+from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_features
 
@@ -112,7 +111,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     DISPLAY_NAME = "Project attitudes onto sections"
     OUTPUT_SCHEMAS = {
         OUTPUT: F.CARRIED_ATTITUDES,
-        OUTPUT_TICKS: F.ATTITUDE_TICKS,
+        OUTPUT_TICKS: F.CARRIED_ATTITUDES,
         OUTPUT_CONNECTORS: F.CARRIED_ATTITUDES,
         SKIPPED: F.SKIPPED_ROWS,
     }
@@ -234,8 +233,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 rows.xyz[:, 0], rows.xyz[:, 1]
             )
         )
-        reasons = np.array([geometry_reason(g) for g in rows.geometries], dtype=object)
-        reasons = np.where(reasons == "", rows.reasons, reasons)
+        reasons = np.where(rows.geometry_reasons == "", rows.reasons, rows.geometry_reasons)
         to_grid = settings.attitudes.to_grid
         dip_direction = np.where(
             reasons == "", to_grid(rows.dip_direction, xy, work_wkt, rows.declination), np.nan
@@ -268,11 +266,9 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     def _sinks(self, parameters, context, settings, fields):
         carried, skipped = fields
         points, lines_crs = settings.points, settings.lines.sourceCrs()
-        tick_fields = QgsFields(carried.qgs_fields())  # a copy: the points keep theirs
-        tick_fields.append(F.ATTITUDE_TICKS.fields[-1].qgs_field())
         specs = (
             (OUTPUT, carried.qgs_fields(), POINT_Z, lines_crs),
-            (OUTPUT_TICKS, tick_fields, LINE_STRING, section_crs()),
+            (OUTPUT_TICKS, carried.qgs_fields(), LINE_STRING, section_crs()),
             (OUTPUT_CONNECTORS, carried.qgs_fields(), LINE_STRING, lines_crs),
             (SKIPPED, skipped.qgs_fields(), points.wkbType(), points.sourceCrs()),
         )
@@ -315,44 +311,32 @@ def _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback)
             record["sense"],
             _tick_lengths(settings.tick_length, parts)[record["line"]],
         )
-        _write_carried(
-            sinks,
-            carried_fields,
-            (rows, record, labels, carried, xy),
-            (ticks, settings.carry.exaggeration),
-            to_map,
-        )
+        geometry = (xy, ticks, to_map)
+        _write_carried(sinks, carried_fields, rows, record, labels, carried, geometry, feedback)
     _log_sections(feedback, parts, labels[carried], record["flags"][carried])
     ledger.close()
 
 
-def _write_carried(sinks, carried_fields, found, drawing, to_map):
-    """The three outputs of the carried attitudes, sharing their fields (the
-    ticks add the exaggeration)."""
-    rows, record, labels, carried, xy = found
-    ticks, exaggeration = drawing
+def _write_carried(sinks, carried_fields, rows, record, labels, carried, geometry, feedback):
+    """The three outputs of the carried attitudes, sharing their fields;
+    ``geometry`` is (working-CRS source positions, tick segments, the
+    transformation to the lines' CRS)."""
+    xy, ticks, to_map = geometry
     # The core's record is keyed by the output's field names.
     computed = {name: record[name][carried] for name in F.CARRIED_ATTITUDES.names if name in record}
     computed.update({F.SECTION: labels[carried], F.SOURCE_FID: np.asarray(rows.fids)[carried]})
-    attributes = carried_fields.rows(
-        carried_fields.columns([rows.attributes[i] for i in carried], computed)
-    )
+    columns = carried_fields.columns([rows.attributes[i] for i in carried], computed)
+    fields = carried_fields.qgs_fields()
     landing = np.column_stack(to_map(*record["landing_xy"][carried].T))
     elevation = record["elev"][carried]
-    add_wkb_features(sinks[OUTPUT][0], points_z(*landing.T, elevation), attributes)
     drawn = np.flatnonzero(~np.isnan(elevation))
-    add_features(
-        sinks[OUTPUT_TICKS][0],
-        shapely.linestrings(ticks[carried][drawn]),
-        [attributes[i] + [exaggeration] for i in drawn],
-    )
+    also = [(sinks[OUTPUT_TICKS][0], line_wkbs(ticks[carried][drawn]), drawn)]
     if sinks[OUTPUT_CONNECTORS][0] is not None:
         source = np.column_stack(to_map(*xy[carried].T))
-        add_features(
-            sinks[OUTPUT_CONNECTORS][0],
-            shapely.linestrings(np.stack((source, landing), axis=1)),
-            attributes,
-        )
+        connectors = line_wkbs(np.stack((source, landing), axis=1))
+        also.append((sinks[OUTPUT_CONNECTORS][0], connectors, np.arange(len(carried))))
+    points = points_z(*landing.T, elevation)
+    write_rows(sinks[OUTPUT][0], fields, points, columns, feedback, also)
 
 
 def _usable_parts(settings, work_crs, context, feedback):

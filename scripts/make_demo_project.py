@@ -142,6 +142,7 @@ def main(demo):
         return layer
 
     for layer_name, name, algorithm_id, output_name in (
+        ("profile_line", "Profile lines (3-D, M = chainage)", "profile", "OUTPUT_LINE"),
         ("attitudes_clean", "Attitudes (strike and dip)", "normalizeattitudes", "OUTPUT"),
         ("attitudes", "Attitudes carried to the sections", "projectattitudes", "OUTPUT"),
         ("attitude_connectors", "Carried from … to", "projectattitudes", "OUTPUT_CONNECTORS"),
@@ -172,6 +173,8 @@ def main(demo):
         ("borehole_intervals", "Borehole intervals", "projectboreholes", "OUTPUT_INTERVALS"),
         ("profile_section", "Ground surface", "profile", "OUTPUT_SECTION"),
         ("geology_strip", "Geology strip", "geologycrossings", "OUTPUT_INTERVALS"),
+        ("form_lines", "Form lines (kink construction)", "formlines", "OUTPUT"),
+        ("axial_surfaces", "Axial surfaces", "formlines", "OUTPUT_AXES"),
     ):
         view[layer_name] = add_result(layer_name, name, view_group, algorithm_id, output_name)
         view[layer_name].setCrs(engineering)

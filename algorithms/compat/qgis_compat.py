@@ -48,6 +48,8 @@ LINE_STRING = _scoped("WkbType", "LineString", "QgsWkbTypes.LineString")
 LINE_STRING_Z = _scoped("WkbType", "LineStringZ", "QgsWkbTypes.LineStringZ")
 NO_GEOMETRY = _scoped("WkbType", "NoGeometry", "QgsWkbTypes.NoGeometry")
 MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", "QgsWkbTypes.MultiLineString")
+LINE_STRING_ZM = _scoped("WkbType", "LineStringZM", "QgsWkbTypes.LineStringZM")
+MULTI_LINE_STRING_ZM = _scoped("WkbType", "MultiLineStringZM", "QgsWkbTypes.MultiLineStringZM")
 
 SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", "QgsProcessing.TypeVectorLine")
 SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", "QgsProcessing.TypeVectorPoint")

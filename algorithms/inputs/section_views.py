@@ -3,6 +3,8 @@ dialog read them: which sections they hold, each section's exaggeration,
 one section's layers filtered out of them, the layers a sheet needs, and
 the check that they share one exaggeration."""
 
+import math
+
 from qgis.core import (
     QgsExpression,
     QgsFeatureRequest,
@@ -163,11 +165,30 @@ def line_feature(lines, label):
 
 
 def exaggerations(layer):
-    """The distinct ``ve`` values a layer holds (empty without the field)."""
+    """The distinct exaggerations a layer is drawn at: its ``ve`` values, or
+    for dip ticks (which carry the attitudes' own fields) the ratio
+    tan(plot_dip) / tan(app_dip) of ticks that are neither flat nor
+    vertical; empty when neither is there."""
     index = layer.fields().lookupField(F.EXAGGERATION)
-    if index < 0:
+    if index >= 0:
+        return {float(v) for v in layer.uniqueValues(index) if _number(v) is not None}
+    names = layer.fields().names()
+    if F.PLOT_DIP not in names or F.APPARENT_DIP not in names:
         return set()
-    return {float(v) for v in layer.uniqueValues(index) if v is not None and str(v) != "NULL"}
+    found = set()
+    for feature in layer.getFeatures():
+        drawn, true = _number(feature[F.PLOT_DIP]), _number(feature[F.APPARENT_DIP])
+        if drawn is not None and true is not None and 0.5 < true < 89.5 and drawn < 89.9:
+            found.add(round(math.tan(math.radians(drawn)) / math.tan(math.radians(true)), 2))
+    return found
+
+
+def _number(value):
+    try:
+        number = float(value)
+    except (TypeError, ValueError):
+        return None
+    return None if number != number else number
 
 
 def check_same_exaggeration(labelled_layers):

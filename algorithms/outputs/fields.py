@@ -70,13 +70,13 @@ PROFILE_POINTS = Schema(
     Field(X, REAL, "map x in the lines' CRS"),
     Field(Y, REAL, "map y in the lines' CRS"),
 )
-PROFILE_SECTIONS = Schema(
+PROFILE_LINES = Schema(
     _SECTION,
     Field(LENGTH, REAL, "length of the section line (its last chainage)"),
     Field(MIN_ELEVATION, REAL, "lowest ground elevation"),
     Field(MAX_ELEVATION, REAL, "highest ground elevation"),
-    _EXAGGERATION,
 )
+PROFILE_SECTIONS = PROFILE_LINES + Schema(_EXAGGERATION)
 
 ORIENTATION = Schema(
     Field(DIP_DIRECTION, REAL, "dip direction, grid azimuth"),
@@ -104,8 +104,6 @@ CARRIED_ATTITUDES = (
         _FLAGS,
     )
 )
-# Ticks are section-space: they carry the exaggeration too.
-ATTITUDE_TICKS = CARRIED_ATTITUDES + Schema(_EXAGGERATION)
 
 CROSSINGS = Schema(
     _SECTION,
@@ -228,6 +226,48 @@ LINES_CHECKED = Schema(
 )
 SKIPPED_TREND_ROWS = Schema(
     Field(TABLE, TEXT, "the layer of the row: attitudes, areas or sections"),
+    _SOURCE_FID,
+    _REASON,
+)
+
+UNIT_ABOVE = "unit_above"
+UNIT_BELOW = "unit_below"
+DIP_LEFT = "dip_left"
+DIP_RIGHT = "dip_right"
+AXIS_DIP = "axis_dip"
+THICKNESS = "thick_m"
+THICKNESS_SD = "thick_sd"
+CHANGE = "change"
+
+# formlines: form lines and axial surfaces in the section view, the
+# thickness table, and the attitudes and crossings not used.
+FORM_LINES = Schema(
+    _SECTION,
+    Field(KIND, TEXT, "contact (through a mapped contact) or form line"),
+    Field(UNIT_ABOVE, TEXT, "unit above a contact's form line"),
+    Field(UNIT_BELOW, TEXT, "unit below a contact's form line"),
+    _EXAGGERATION,
+)
+AXIAL_SURFACES = Schema(
+    _SECTION,
+    Field(DIP_LEFT, REAL, "signed apparent dip of the beds on the start side, + toward the end"),
+    Field(DIP_RIGHT, REAL, "signed apparent dip of the beds on the end side"),
+    Field(AXIS_DIP, REAL, "signed dip of the axial surface (or arc radius) itself"),
+    _EXAGGERATION,
+)
+UNIT_THICKNESS = Schema(
+    _SECTION,
+    Field(UNIT, TEXT, "unit met between two contacts"),
+    Field(FROM_CHAINAGE, REAL, "chainage of the first contact"),
+    Field(TO_CHAINAGE, REAL, "chainage of the second contact"),
+    Field(THICKNESS, REAL, "true stratigraphic thickness, metres"),
+    Field(THICKNESS_SD, REAL, "one standard deviation of the thickness, from the dips' σ"),
+    Field(CHANGE, REAL, "% difference from the mean of the unit's other occurrences"),
+    _FLAGS,
+)
+SKIPPED_FORM_LINE_ROWS = Schema(
+    Field(TABLE, TEXT, "the layer of the feature: attitudes or crossings"),
+    _SECTION,
     _SOURCE_FID,
     _REASON,
 )

@@ -80,6 +80,8 @@ OUTPUT_STYLES = {
     ("structuraltrend", "OUTPUT"): _renderer(styles.suggested_line_renderer),
     ("structuraltrend", "OUTPUT_LINES"): _renderer(lambda: styles.misfit_renderer(F.MISFIT)),
     ("dipdomains", "OUTPUT"): _attitudes,
+    ("formlines", "OUTPUT"): _renderer(lambda: styles.form_line_renderer(F.KIND)),
+    ("formlines", "OUTPUT_AXES"): _renderer(styles.axis_renderer),
     (ANY_ALGORITHM, "SKIPPED"): _skipped,
 }
 

@@ -401,3 +401,26 @@ def misfit_renderer(misfit_field):
         symbol = QgsLineSymbol.createSimple({"line_color": colour, "line_width": "0.9"})
         root.appendChild(QgsRuleBasedRenderer.Rule(symbol, 0, 0, expression, label))
     return QgsRuleBasedRenderer(root)
+
+
+def form_line_renderer(field):
+    """Form lines through contacts drawn firm, the extra ones between them
+    fine and dashed: the eye reads the constructed contacts first."""
+    contact = QgsLineSymbol.createSimple({"line_color": INK, "line_width": "0.4"})
+    extra = QgsLineSymbol.createSimple(
+        {"line_color": "#6b6b6b", "line_width": "0.2", "line_style": "dash"}
+    )
+    categories = [
+        QgsRendererCategory("contact", contact, "contact"),
+        QgsRendererCategory("form line", extra, "form line"),
+    ]
+    return QgsCategorizedSymbolRenderer(field, categories)
+
+
+def axis_renderer():
+    """Axial surfaces (and arc radii) as thin dash-dot lines."""
+    return QgsSingleSymbolRenderer(
+        QgsLineSymbol.createSimple(
+            {"line_color": FAULT, "line_width": "0.25", "line_style": "dash dot"}
+        )
+    )

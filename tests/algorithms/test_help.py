@@ -30,6 +30,7 @@ def algorithms(provider):
         "sectionsheet",
         "structuraltrend",
         "dipdomains",
+        "formlines",
     ],
 )
 def test_help_is_whole_blocks_with_choices_by_label(algorithms, name):
