@@ -158,6 +158,7 @@ def _run_and_load():
             "DEM": dem[0],
             "STEP": 50,
             "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT_LINE": "TEMPORARY_OUTPUT",
             "OUTPUT": "TEMPORARY_OUTPUT",
             "OUTPUT_SECTION": "TEMPORARY_OUTPUT",
         },

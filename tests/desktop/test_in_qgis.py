@@ -126,7 +126,13 @@ def _runs(world):
     out = "TEMPORARY_OUTPUT"
     return {
         "profile": dict(
-            common, DEM=f"{world}/dem.tif", STEP=50, OUTPUT=out, OUTPUT_SECTION=out, SKIPPED=out
+            common,
+            DEM=f"{world}/dem.tif",
+            STEP=50,
+            OUTPUT_LINE=out,
+            OUTPUT=out,
+            OUTPUT_SECTION=out,
+            SKIPPED=out,
         ),
         "projectattitudes": dict(
             common,
@@ -235,7 +241,7 @@ def test_a_geopackage_from_qgis_process_opens_styled(provider, demo_dir, tmp_pat
 
     out = tmp_path / "profile.gpkg"
     run_demo.run_profile(demo_dir, out)
-    for table, output in (("profile_section", "OUTPUT_SECTION"), ("profile_points", "OUTPUT")):
+    for table, output in (("profile_section", "OUTPUT_SECTION"), ("profile_line", "OUTPUT_LINE")):
         layer = QgsVectorLayer(f"{out}|layername={table}", table, "ogr")
         expected = QgsVectorLayer(f"{out}|layername={table}", table, "ogr")
         style_for("profile", output)(expected)
