@@ -18,20 +18,14 @@ from qgis.core import (
     QgsProcessingParameterRasterLayer,
 )
 
-from ..plugin.styles import UnitStripStyler
-from . import fields as F
-from .base import (
-    INPUT,
-    LINE_ID_FIELD,
-    SKIPPED,
-    UNIT_FIELD,
-    UNITS,
-    VERTICAL_EXAGGERATION,
-    SectionwrightAlgorithm,
-    add_skipped_section,
-    skipped_fields,
+from .compat.qgis_compat import (
+    FAST_INSERT,
+    LINE_STRING,
+    NUMBER_DOUBLE,
+    POINT_Z,
+    SOURCE_LINES,
+    SOURCE_POINTS,
 )
-from .carried_fields import computed_fields
 from .core.apparent_dip import apparent_dip
 from .core.crs import transformer
 from .core.geology import (
@@ -44,20 +38,26 @@ from .core.geology import (
 from .core.lines import azimuth_at, positions_at, vertex_chainage
 from .core.profile import profile_samples, section_runs
 from .core.trace_fit import plane_fits, trace_windows
-from .dem import DemSampler, bounded_gdal_cache, sample_ahead
-from .geometry_io import to_qgis
-from .ledger import RunLedger
-from .map_layers import read_features, read_unit_map
-from .qgis_compat import (
-    FAST_INSERT,
-    LINE_STRING,
-    NUMBER_DOUBLE,
-    POINT_Z,
-    SOURCE_LINES,
-    SOURCE_POINTS,
+from .framework.base import (
+    INPUT,
+    LINE_ID_FIELD,
+    SKIPPED,
+    UNIT_FIELD,
+    UNITS,
+    VERTICAL_EXAGGERATION,
+    SectionwrightAlgorithm,
+    add_skipped_section,
+    skipped_fields,
 )
-from .section_lines import crs_wkt, read_section_parts, working_crs
-from .section_space import SECTION_CRS_WKT
+from .framework.ledger import RunLedger
+from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
+from .inputs.map_layers import read_features, read_unit_map
+from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
+from .outputs import fields as F
+from .outputs.carried_fields import computed_fields
+from .outputs.geometry_io import to_qgis
+from .outputs.section_space import SECTION_CRS_WKT
+from .outputs.styles import UnitStripStyler
 
 DEM = "DEM"
 Z_FACTOR = "Z_FACTOR"

@@ -8,14 +8,14 @@ from qgis.core import (
     QgsProcessingParameterFeatureSource,
 )
 
-from . import fields as F
-from .attitude_input import AttitudeSettings, add_attitude_parameters
-from .base import SKIPPED, SectionwrightAlgorithm
-from .carried_fields import CarriedFields
+from .compat.qgis_compat import FAST_INSERT, SOURCE_ANY_VECTOR
 from .core.orientation import strike_from_dip_direction
-from .ledger import RunLedger
-from .qgis_compat import FAST_INSERT, SOURCE_ANY_VECTOR
-from .section_lines import crs_wkt
+from .framework.base import SKIPPED, SectionwrightAlgorithm
+from .framework.ledger import RunLedger
+from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
+from .inputs.section_lines import crs_wkt
+from .outputs import fields as F
+from .outputs.carried_fields import CarriedFields
 
 INPUT = "INPUT"
 OUTPUT = "OUTPUT"

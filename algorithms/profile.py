@@ -15,8 +15,17 @@ from qgis.core import (
     QgsProcessingParameterRasterLayer,
 )
 
-from . import fields as F
-from .base import (
+from .compat.qgis_compat import (
+    FAST_INSERT,
+    MULTI_LINE_STRING,
+    NUMBER_DOUBLE,
+    POINT_Z,
+    SOURCE_LINES,
+    SOURCE_POINTS,
+)
+from .core.crs import transformer
+from .core.profile import profile_samples, section_runs
+from .framework.base import (
     INPUT,
     LINE_ID_FIELD,
     SKIPPED,
@@ -25,22 +34,13 @@ from .base import (
     add_skipped_section,
     skipped_fields,
 )
-from .carried_fields import computed_fields
-from .core.crs import transformer
-from .core.profile import profile_samples, section_runs
-from .dem import DemSampler, bounded_gdal_cache, sample_ahead
-from .geometry_io import to_qgis
-from .ledger import RunLedger
-from .qgis_compat import (
-    FAST_INSERT,
-    MULTI_LINE_STRING,
-    NUMBER_DOUBLE,
-    POINT_Z,
-    SOURCE_LINES,
-    SOURCE_POINTS,
-)
-from .section_lines import crs_wkt, read_section_parts, working_crs
-from .section_space import SECTION_CRS_WKT
+from .framework.ledger import RunLedger
+from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
+from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
+from .outputs import fields as F
+from .outputs.carried_fields import computed_fields
+from .outputs.geometry_io import to_qgis
+from .outputs.section_space import SECTION_CRS_WKT
 
 DEM = "DEM"
 DEM_BAND = "DEM_BAND"

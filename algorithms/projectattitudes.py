@@ -17,9 +17,20 @@ from qgis.core import (
     QgsProcessingParameterRasterLayer,
 )
 
-from . import fields as F
-from .attitude_input import AttitudeSettings, add_attitude_parameters, geometry_reason
-from .base import (
+from .compat.qgis_compat import (
+    FAST_INSERT,
+    LINE_STRING,
+    NUMBER_DOUBLE,
+    POINT_Z,
+    SOURCE_LINES,
+    SOURCE_POINTS,
+)
+from .core.carry import CarryOptions, carry_attitudes
+from .core.crs import transformer
+from .core.lines import vertex_chainage
+from .core.projection import SectionNetwork
+from .core.ticks import tick_segments
+from .framework.base import (
     INPUT,
     LINE_ID_FIELD,
     SKIPPED,
@@ -28,25 +39,14 @@ from .base import (
     VERTICAL_EXAGGERATION,
     SectionwrightAlgorithm,
 )
-from .carried_fields import CarriedFields
-from .core.carry import CarryOptions, carry_attitudes
-from .core.crs import transformer
-from .core.lines import vertex_chainage
-from .core.projection import SectionNetwork
-from .core.ticks import tick_segments
-from .dem import DemSampler, bounded_gdal_cache
-from .ledger import RunLedger
-from .map_layers import read_unit_map
-from .qgis_compat import (
-    FAST_INSERT,
-    LINE_STRING,
-    NUMBER_DOUBLE,
-    POINT_Z,
-    SOURCE_LINES,
-    SOURCE_POINTS,
-)
-from .section_lines import crs_wkt, read_section_parts, working_crs
-from .section_space import SECTION_CRS_WKT
+from .framework.ledger import RunLedger
+from .inputs.attitudes import AttitudeSettings, add_attitude_parameters, geometry_reason
+from .inputs.dem import DemSampler, bounded_gdal_cache
+from .inputs.map_layers import read_unit_map
+from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
+from .outputs import fields as F
+from .outputs.carried_fields import CarriedFields
+from .outputs.section_space import SECTION_CRS_WKT
 
 ATTITUDES = "ATTITUDES"
 MAX_DISTANCE = "MAX_DISTANCE"

@@ -13,20 +13,7 @@ from qgis.core import (
     QgsProcessingParameterRasterLayer,
 )
 
-from . import fields as F
-from .attitude_input import DECLINATION, NORTH_REFERENCE, add_north_parameters
-from .base import INPUT, LINE_ID_FIELD, SKIPPED, VERTICAL_EXAGGERATION, SectionwrightAlgorithm
-from .carried_fields import computed_fields
-from .core.attitudes import as_numbers
-from .core.boreholes import assemble_stations, check_intervals, check_surveys
-from .core.crs import transformer
-from .core.desurvey import positions_at_depths, station_offsets
-from .core.north import GRID, meridian_convergence, to_grid
-from .core.projection import SectionNetwork, nearest_points
-from .dem import DemSampler, bounded_gdal_cache
-from .geometry_io import add_features
-from .ledger import RunLedger
-from .qgis_compat import (
+from .compat.qgis_compat import (
     FAST_INSERT,
     LINE_STRING,
     LINE_STRING_Z,
@@ -35,9 +22,28 @@ from .qgis_compat import (
     SOURCE_LINES,
     SOURCE_POINTS,
 )
-from .section_lines import crs_wkt, read_section_parts, working_crs
-from .section_space import SECTION_CRS_WKT
-from .table_rows import labels, lookup, read_columns
+from .core.attitudes import as_numbers
+from .core.boreholes import assemble_stations, check_intervals, check_surveys
+from .core.crs import transformer
+from .core.desurvey import positions_at_depths, station_offsets
+from .core.north import GRID, meridian_convergence, to_grid
+from .core.projection import SectionNetwork, nearest_points
+from .framework.base import (
+    INPUT,
+    LINE_ID_FIELD,
+    SKIPPED,
+    VERTICAL_EXAGGERATION,
+    SectionwrightAlgorithm,
+)
+from .framework.ledger import RunLedger
+from .inputs.attitudes import DECLINATION, NORTH_REFERENCE, add_north_parameters
+from .inputs.dem import DemSampler, bounded_gdal_cache
+from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
+from .inputs.tables import labels, lookup, read_columns
+from .outputs import fields as F
+from .outputs.carried_fields import computed_fields
+from .outputs.geometry_io import add_features
+from .outputs.section_space import SECTION_CRS_WKT
 
 COLLARS = "COLLARS"
 HOLE_ID_FIELD = "HOLE_ID_FIELD"

@@ -22,11 +22,7 @@ from qgis.core import (
     QgsRectangle,
 )
 
-from ..plugin import styles
-from .base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
-from .core.sheet_scale import end_names, padded
-from .ledger import RunLedger
-from .qgis_compat import (
+from .compat.qgis_compat import (
     EXPORT_SUCCESS,
     FAST_INSERT,
     NO_THREADING,
@@ -34,15 +30,19 @@ from .qgis_compat import (
     SOURCE_LINES,
     TEXT_AS_TEXT,
 )
-from .section_lines import read_section_parts, working_crs
-from .sheet_layers import (
+from .core.sheet_scale import end_names, padded
+from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
+from .framework.ledger import RunLedger
+from .inputs.section_lines import read_section_parts, working_crs
+from .outputs import styles
+from .sheet.layers import (
     collar_points,
     copy_section,
     crossings_in_section,
     line_on_map,
     section_filter,
 )
-from .sheet_page import SheetSection, add_page
+from .sheet.page import SheetSection, add_page
 
 PROFILE = "PROFILE"
 INTERVALS = "INTERVALS"

@@ -26,7 +26,7 @@ import bench_profile  # noqa: E402
 def memory_layer(kind, geometries, fields, rows):
     from qgis.core import QgsFeature, QgsVectorLayer
 
-    from sectionwright.algorithms.geometry_io import to_qgis
+    from sectionwright.algorithms.outputs.geometry_io import to_qgis
 
     spec = "&".join(f"field={name}:string" for name in fields)
     layer = QgsVectorLayer(f"{kind}?crs=EPSG:{bench_data.EPSG}&{spec}", kind, "memory")

@@ -152,7 +152,7 @@ def run_sampling_core(lines, dem):
     from qgis.core import QgsCoordinateReferenceSystem, QgsRasterLayer, QgsVectorLayer
 
     from sectionwright.algorithms.core.profile import profile_samples
-    from sectionwright.algorithms.dem import DemSampler, sample_ahead
+    from sectionwright.algorithms.inputs.dem import DemSampler, sample_ahead
 
     positions = [
         profile_samples(

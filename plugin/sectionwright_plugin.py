@@ -3,7 +3,7 @@ is missing."""
 
 from qgis.core import QgsApplication, QgsMessageLog
 
-from ..algorithms.qgis_compat import CRITICAL
+from ..algorithms.compat.qgis_compat import CRITICAL
 from .dependencies import ensure_proj_data, install_advice, missing_requirements
 
 LOG_TAG = "Sectionwright"

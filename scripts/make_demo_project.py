@@ -61,11 +61,11 @@ def main(demo):
         QgsVectorLayer,
     )
 
-    from sectionwright.algorithms.section_lines import read_section_parts, working_crs
-    from sectionwright.algorithms.section_space import SECTION_CRS_WKT
+    from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
+    from sectionwright.algorithms.outputs import styles
+    from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
     from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
-    from sectionwright.algorithms.sheet_page import add_page
-    from sectionwright.plugin import styles
+    from sectionwright.algorithms.sheet.page import add_page
 
     world, results = demo / "tarrowgill.gpkg", demo / "sections.gpkg"
     section_view_crossings(results)

@@ -271,7 +271,7 @@ def test_bad_geology_input(provider, demo_dir, tmp_path):
 
 
 def test_unit_colours_are_applied_when_loaded(provider, demo_result):
-    from sectionwright.plugin.styles import UNIT_COLOURS, UnitStripStyler
+    from sectionwright.algorithms.outputs.styles import UNIT_COLOURS, UnitStripStyler
 
     layer = demo_result["OUTPUT_INTERVALS"]
     UnitStripStyler(["ASH", "BRS"], "unit").postProcessLayer(layer, None, None)

@@ -120,7 +120,7 @@ def test_axis_labels_are_where_the_true_elevations_are(provider, tmp_path):
     # read true elevation (grid value / VE).
     from qgis.core import QgsRectangle
 
-    from sectionwright.algorithms.sheet_page import grid_expression, section_view_box
+    from sectionwright.algorithms.sheet.page import grid_expression, section_view_box
 
     exaggeration = 2.5
     dem = plane_raster(

@@ -8,8 +8,8 @@ import numpy as np
 from osgeo import gdal
 from qgis.core import QgsProcessingException, QgsRectangle
 
-from .core.crs import cell_size_on_ground, transformer
-from .core.raster_sampling import TiledRaster, bilinear, centre_index
+from ..core.crs import cell_size_on_ground, transformer
+from ..core.raster_sampling import TiledRaster, bilinear, centre_index
 from .section_lines import crs_wkt
 
 READERS = 2  # GDAL handles decoding tiles concurrently

@@ -4,7 +4,7 @@ import numpy as np
 from qgis.core import QgsFeatureRequest, QgsProcessingException
 from qgis.PyQt.QtCore import QVariant
 
-from .qgis_compat import NO_GEOMETRY_REQUEST
+from ..compat.qgis_compat import NO_GEOMETRY_REQUEST
 
 
 def read_columns(source, columns, parameter, with_geometry=False):

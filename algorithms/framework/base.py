@@ -12,10 +12,10 @@ from qgis.core import (
 )
 from qgis.PyQt.QtCore import QCoreApplication
 
-from . import fields as F
-from .carried_fields import computed_fields
+from ..compat.qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES, SOURCE_POLYGONS
+from ..outputs import fields as F
+from ..outputs.carried_fields import computed_fields
 from .help import help_text
-from .qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES, SOURCE_POLYGONS
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"

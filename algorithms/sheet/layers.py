@@ -11,7 +11,7 @@ from qgis.core import (
     QgsVectorLayer,
 )
 
-from .section_space import SECTION_CRS_WKT, is_section_view
+from ..outputs.section_space import SECTION_CRS_WKT, is_section_view
 
 
 def section_filter(label):

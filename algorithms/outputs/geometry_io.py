@@ -3,7 +3,7 @@
 import shapely
 from qgis.core import QgsFeature, QgsGeometry
 
-from .qgis_compat import FAST_INSERT
+from ..compat.qgis_compat import FAST_INSERT
 
 
 def to_qgis(geometry):

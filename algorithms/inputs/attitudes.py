@@ -14,7 +14,8 @@ from qgis.core import (
     QgsProcessingParameterNumber,
 )
 
-from .core.attitudes import (
+from ..compat.qgis_compat import NUMBER_DOUBLE, SKIP_GEOMETRY_CHECKS
+from ..core.attitudes import (
     DIP_DIRECTION,
     STRIKE_QUADRANT,
     STRIKE_RHR,
@@ -23,8 +24,7 @@ from .core.attitudes import (
     as_numbers,
     read_attitudes,
 )
-from .core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
-from .qgis_compat import NUMBER_DOUBLE, SKIP_GEOMETRY_CHECKS
+from ..core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
 
 CONVENTION = "CONVENTION"
 AZIMUTH_FIELD = "AZIMUTH_FIELD"

@@ -22,9 +22,7 @@ from qgis.core import (
 from qgis.PyQt.QtCore import Qt
 from qgis.PyQt.QtGui import QColor, QFont
 
-from ..plugin.styles import GRID, INK
-from .core.sheet_scale import nice_step
-from .qgis_compat import (
+from ..compat.qgis_compat import (
     LABEL_HORIZONTAL,
     LABEL_OVER_POINT,
     LEGEND_GROUP,
@@ -33,6 +31,8 @@ from .qgis_compat import (
     set_label_text,
     set_legend_text,
 )
+from ..core.sheet_scale import nice_step
+from ..outputs.styles import GRID, INK
 
 CAUTION = (
     "Interpretation: to be checked by a qualified geologist under local codes and "

@@ -2,8 +2,8 @@
 
 from qgis.core import QgsField, QgsFields
 
+from ..compat.qgis_compat import DOUBLE, LONG, STRING
 from . import fields as F
-from .qgis_compat import DOUBLE, LONG, STRING
 
 # A GeoPackage key copied as an ordinary field makes QGIS 3.22 write
 # duplicate fids; src_fid carries it instead.

@@ -10,8 +10,8 @@ from qgis.core import (
     QgsProcessingException,
 )
 
-from .core.units import polygon_index_at
-from .qgis_compat import SKIP_GEOMETRY_CHECKS
+from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
+from ..core.units import polygon_index_at
 
 
 def read_features(source, value_field, work_crs, context):

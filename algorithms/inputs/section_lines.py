@@ -15,9 +15,9 @@ from qgis.core import (
     QgsProcessingException,
 )
 
-from .core.crs import utm_epsg
-from .core.lines import drop_repeated_vertices
-from .qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
+from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
+from ..core.crs import utm_epsg
+from ..core.lines import drop_repeated_vertices
 
 WKT2 = getattr(
     QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED

@@ -1,0 +1,1 @@
+"""The only place that knows QGIS/Qt release differences."""

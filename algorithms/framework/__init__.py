@@ -1,0 +1,1 @@
+"""Shared by every algorithm: base class, shared parameters, run ledger, help loader."""

@@ -1,0 +1,1 @@
+"""Reading inputs: section lines, DEMs, attitudes, map layers, tables."""

@@ -1,0 +1,1 @@
+"""Writing outputs: field names, carried fields, geometry, the section-view CRS, styles."""

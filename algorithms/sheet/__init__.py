@@ -1,0 +1,1 @@
+"""The print-layout section sheet: per-section layers and pages."""
