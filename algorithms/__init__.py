@@ -8,6 +8,7 @@ def all_algorithms():
     from .projectattitudes import ProjectAttitudesAlgorithm
     from .projectboreholes import ProjectBoreholesAlgorithm
     from .sectionsheet import SectionSheetAlgorithm
+    from .sectionsin3d import SectionsIn3dAlgorithm
 
     return [
         ProfileAlgorithm(),
@@ -16,4 +17,5 @@ def all_algorithms():
         GeologyCrossingsAlgorithm(),
         ProjectBoreholesAlgorithm(),
         SectionSheetAlgorithm(),
+        SectionsIn3dAlgorithm(),
     ]

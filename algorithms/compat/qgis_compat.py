@@ -38,6 +38,9 @@ SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", QgsProcessing.TypeV
 SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.TypeVectorPoint)
 SOURCE_POLYGONS = _scoped("ProcessingSourceType", "VectorPolygon", QgsProcessing.TypeVectorPolygon)
 SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", QgsProcessing.TypeVector)
+SOURCE_ANY_GEOMETRY = _scoped(
+    "ProcessingSourceType", "VectorAnyGeometry", QgsProcessing.TypeVectorAnyGeometry
+)
 
 NUMBER_DOUBLE = _scoped(
     "ProcessingNumberParameterType", "Double", QgsProcessingParameterNumber.Double
