@@ -9,14 +9,17 @@ from qgis.core import (
     Qgis,
     QgsFeatureRequest,
     QgsFeatureSink,
+    QgsLabelObstacleSettings,
     QgsLayoutExporter,
     QgsLegendStyle,
     QgsPalLayerSettings,
     QgsProcessing,
     QgsProcessingAlgorithm,
     QgsProcessingFeatureSource,
+    QgsProcessingParameterDefinition,
     QgsProcessingParameterNumber,
     QgsRenderContext,
+    QgsSymbolLayer,
     QgsUnitTypes,
     QgsWkbTypes,
 )
@@ -65,6 +68,16 @@ EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
 LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)
 LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", QgsLegendStyle.Style.Subgroup)
 LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", QgsLegendStyle.Style.SymbolLabel)
+FILL_COLOUR_PROPERTY = _scoped(
+    "SymbolLayerProperty", "FillColor", getattr(QgsSymbolLayer, "PropertyFillColor", None)
+)
+LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", QgsPalLayerSettings.AroundPoint)
+OBSTACLE_WHOLE_POLYGON = _scoped(
+    "LabelObstacleType", "PolygonWhole", QgsLabelObstacleSettings.ObstacleType.PolygonWhole
+)
+PARAMETER_ADVANCED = _scoped(
+    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.FlagAdvanced
+)
 CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
@@ -106,3 +119,9 @@ def set_legend_text(legend, style, text_format):
         current.setTextFormat(text_format)
     else:
         legend.setStyleFont(style, text_format.font())
+
+
+def advanced(parameter):
+    """The parameter, marked advanced (shown under "Advanced parameters")."""
+    parameter.setFlags(parameter.flags() | PARAMETER_ADVANCED)
+    return parameter

@@ -89,3 +89,12 @@ HOLE_INTERVAL_FIELDS = (SECTION, HOLE, FROM, TO, CODE, OFFSET_MIN, OFFSET_MAX, E
 TRACE_FIELDS = (SECTION, HOLE, DEPTH)
 HOLE_SKIPPED_FIELDS = (TABLE, HOLE, SOURCE_FID, DEPTH, REASON)
 TEXT_FIELDS = TEXT_FIELDS + (HOLE, CODE, TABLE)
+
+# Fields the section sheet reads from other algorithms' outputs, and the
+# one it writes in its own map layers (the end letters A, A′ of a line).
+REPRESENTATIVE = "represent"
+DOMAIN = "domain"
+DOMAIN_FROM = "from_ch"
+DOMAIN_TO = "to_ch"
+DOMAIN_MEAN_DIP = "mean_dip"
+END_LETTER = "end"

@@ -113,16 +113,12 @@ def test_png_and_svg_give_one_file_per_section(demo_layers, tmp_path):
     assert "Section C–C′" in svg and "Tarrowgill test sheet" in svg
 
 
-def test_axis_labels_are_where_the_true_elevations_are(provider, tmp_path):
-    # A known plane: ground rising from 400 m to 600 m along a 10 km line,
-    # drawn at VE 2.5. The pixel row of the ground in the picture must be
-    # the row of its true elevation on the axis, and the axis labels must
-    # read true elevation (grid value / VE).
+def plane_sheet(tmp_path, exaggeration=2.5, **extra):
+    """A known plane: ground rising from 400 m to 600 m along a 10 km line,
+    drawn at ``exaggeration`` on an A4 sheet. Returns (PNG pixels as grey,
+    frame box in pixels, view extent, stated scale N)."""
     from qgis.core import QgsRectangle
 
-    from sectionwright.algorithms.sheet.page import grid_expression, section_view_box
-
-    exaggeration = 2.5
     dem = plane_raster(
         tmp_path / "plane.tif",
         lambda x, y: 400.0 + 0.02 * (x - X0),
@@ -143,19 +139,38 @@ def test_axis_labels_are_where_the_true_elevations_are(provider, tmp_path):
             "OUTPUT_SECTION": "memory:",
         },
     )["OUTPUT_SECTION"]
+    parameters = {"INPUT": line, "LINE_ID_FIELD": "name", "PROFILE": profile}
     log = LogFeedback()
-    sheet(
-        {"INPUT": line, "LINE_ID_FIELD": "name", "PROFILE": profile},
-        tmp_path / "p.png",
-        feedback=log,
-        PAGE_SIZE=0,
-    )
+    sheet(parameters, tmp_path / "p.png", feedback=log, PAGE_SIZE=0, **extra)
     view = next(line for line in log.lines if line.startswith("Section P: page 1"))
+    scale = float(re.search(r"\(1:(\d+)\)", view).group(1))
     ranges = re.findall(r"(-?\d+(?:\.\d+)?)…(-?\d+(?:\.\d+)?)", view)
     numbers = [float(v) for v in ranges[0] + ranges[1]]
     extent = QgsRectangle(numbers[0], numbers[2], numbers[1], numbers[3])
-    x, y, w, h = (v * DPI / 25.4 for v in section_view_box((297.0, 210.0), extent))
     image = gdal.Open(str(tmp_path / "p_P.png")).ReadAsArray().astype(float)[:3].mean(axis=0)
+    pdf = tmp_path / "p.pdf"
+    sheet(parameters, pdf, PAGE_SIZE=0, **extra)
+    return image, frame_pixels(extent, scale), extent, scale, pdf
+
+
+def frame_pixels(extent, scale):
+    from types import SimpleNamespace
+
+    from sectionwright.algorithms.sheet.page import section_frame_position
+
+    frame = (extent.width() / scale * 1000.0, extent.height() / scale * 1000.0)
+    x, y = section_frame_position((297.0, 210.0), SimpleNamespace(frame=frame))
+    return tuple(v * DPI / 25.4 for v in (x, y, *frame))
+
+
+def test_axis_labels_are_where_the_true_elevations_are(provider, tmp_path):
+    # The pixel row of the ground in the picture must be the row of its true
+    # elevation on the axis, and the axis labels must read true elevation
+    # (grid value / VE).
+    from sectionwright.algorithms.sheet.page import grid_expression
+
+    exaggeration = 2.5
+    image, (x, y, w, h), extent, _, _ = plane_sheet(tmp_path, exaggeration)
     for chainage in (1000.0, 5000.0, 9000.0):
         true_elevation = 400.0 + 0.02 * chainage
         column = int(round(x + (chainage - extent.xMinimum()) / extent.width() * w))
@@ -168,6 +183,40 @@ def test_axis_labels_are_where_the_true_elevations_are(provider, tmp_path):
     scope.setVariable("grid_number", 500.0 * exaggeration)
     context.appendScope(scope)
     assert QgsExpression(grid_expression(exaggeration)).evaluate(context) == "500"
+
+
+def grid_columns(image, row, x0, x1):
+    """Centres (pixels) of the vertical grid lines crossing ``row``."""
+    grey = image[row, int(x0) + 4 : int(x1) - 4]
+    dark = np.flatnonzero((grey < 235) & (grey > 120)) + int(x0) + 4
+    runs = np.split(dark, np.flatnonzero(np.diff(dark) > 2) + 1)
+    return np.array([run.mean() for run in runs if len(run)])
+
+
+def test_the_stated_scale_is_the_scale_on_paper(provider, tmp_path):
+    # The scale printed on the sheet (read from the PDF by poppler's
+    # pdftotext, independent of QGIS) must match the distance between two
+    # chainage grid lines measured on the picture, within 1 %.
+    from sectionwright.algorithms.core.sheet_scale import nice_step
+
+    image, (x, y, w, h), extent, scale, pdf = plane_sheet(tmp_path)
+    text = subprocess.run(["pdftotext", str(pdf), "-"], capture_output=True, text=True).stdout
+    stated = re.search(r"Horizontal 1:([\d\u202f ]+)", text).group(1)
+    stated = float(stated.replace("\u202f", "").replace(" ", ""))
+    assert stated == scale and stated in (10000, 20000, 25000, 50000, 100000)
+    columns = grid_columns(image, int(y + 0.4 * 9.0 * DPI / 25.4), x, x + w)
+    assert len(columns) >= 3
+    measured_mm = np.diff(columns).mean() * 25.4 / DPI
+    ground_metres = nice_step(extent.width())
+    expected_mm = ground_metres / stated * 1000.0
+    assert abs(measured_mm - expected_mm) / expected_mm < 0.01, (measured_mm, expected_mm)
+
+
+def test_a_scale_asked_for_is_used_and_one_too_large_skips_the_page(provider, tmp_path):
+    _, _, _, scale, _ = plane_sheet(tmp_path, SCALE=100000)
+    assert scale == 100000
+    with pytest.raises(QgsProcessingException, match="No section could be drawn"):
+        plane_sheet(tmp_path, SCALE=10000)
 
 
 def test_a_missing_section_and_an_empty_layer_leave_the_other_pages(demo_layers, tmp_path):
@@ -193,7 +242,7 @@ def test_a_missing_section_and_an_empty_layer_leave_the_other_pages(demo_layers,
 
 
 def test_an_unwritable_output_is_a_clear_error(demo_layers):
-    with pytest.raises(QgsProcessingException, match="OUTPUT"):
+    with pytest.raises(QgsProcessingException, match="Section sheets: cannot write"):
         sheet(demo_layers, "/nonexistent-folder/sheets.pdf")
 
 
