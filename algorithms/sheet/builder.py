@@ -292,7 +292,7 @@ class SheetBuilder:
         if layers["keep_out"] is not None:
             layers["keep_out"].setRenderer(sheet_styles.hidden_renderer())
             keep_labels_off(layers["keep_out"], whole_polygons=True)
-        for name in ("holes", "hole_intervals", "form_lines", "axes", "crossings"):
+        for name in ("ticks", "holes", "hole_intervals", "form_lines", "axes", "crossings"):
             if layers.get(name) is not None:
                 keep_labels_off(layers[name])
         if self.label_dips and layers["ticks"] is not None:

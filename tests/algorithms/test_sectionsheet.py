@@ -283,3 +283,250 @@ def test_the_layout_can_be_added_to_the_project(demo_layers, tmp_path):
     assert len(layouts) == before + 1
     assert layouts[-1].pageCollection().pageCount() == 4
     assert any(g.name().startswith("Sheet layers") for g in project.layerTreeRoot().children())
+
+
+def section_view_layer(kind, fields, rows, name):
+    """A memory section-view layer: rows are (wkt, [values])."""
+    from qgis.core import QgsCoordinateReferenceSystem, QgsFeature, QgsGeometry
+
+    from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
+
+    spec = "&".join(f"field={n}:{t}" for n, t in fields)
+    layer = QgsVectorLayer(f"{kind}?{spec}", name, "memory")
+    layer.setCrs(QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT))
+    features = []
+    for wkt, values in rows:
+        feature = QgsFeature(layer.fields())
+        if wkt:
+            feature.setGeometry(QgsGeometry.fromWkt(wkt))
+        feature.setAttributes(values)
+        features.append(feature)
+    layer.dataProvider().addFeatures(features)
+    return layer
+
+
+def interpretation_layers(ve=2.0):
+    """Form lines, axial surfaces and dip domains of section A with the
+    fields of DESIGN.md's formlines and dipdomains outputs, made up here
+    (the algorithms that make them are built elsewhere)."""
+    form_lines = section_view_layer(
+        "LineString",
+        [
+            ("section", "string"),
+            ("kind", "string"),
+            ("unit_above", "string"),
+            ("unit_below", "string"),
+            ("ve", "double"),
+        ],
+        [
+            ("LINESTRING(900 1180, 2500 400, 4200 -300)", ["A", "contact", "BRS", "COL", ve]),
+            ("LINESTRING(1500 1250, 2600 700, 4300 0)", ["A", "form line", None, None, ve]),
+            ("LINESTRING(5500 1400, 6500 600, 8000 -200)", ["A", "contact", "HWM", "DNG", ve]),
+        ],
+        "formlines_out",
+    )
+    axes = section_view_layer(
+        "LineString",
+        [
+            ("section", "string"),
+            ("dip_left", "double"),
+            ("dip_right", "double"),
+            ("axis_dip", "double"),
+            ("ve", "double"),
+        ],
+        [("LINESTRING(2500 1150, 2900 -600)", ["A", 30.0, -12.0, 78.0, ve])],
+        "axes_out",
+    )
+    domains = QgsVectorLayer(
+        "None?field=section:string&field=domain:integer&field=from_ch:double&"
+        "field=to_ch:double&field=count:integer&field=mean_dip:double&field=dip_sd:double&"
+        "field=dips_to:string&field=rep_fid:integer",
+        "domains_out",
+        "memory",
+    )
+    from qgis.core import QgsFeature
+
+    rows = []
+    for number, (start, end, dip) in enumerate(
+        ((0, 2600, 31.0), (2600, 5600, -14.0), (5600, 9265, 22.0)), start=1
+    ):
+        row = QgsFeature(domains.fields())
+        row.setAttributes(["A", number, start, end, 3, dip, 2.0, "end" if dip > 0 else "start", 1])
+        rows.append(row)
+    domains.dataProvider().addFeatures(rows)
+    return {"FORM_LINES": form_lines, "AXES": axes, "DOMAINS": domains}
+
+
+def ticks_with_representatives(ticks):
+    """The demo's ticks with a 'represent' field: every other one chosen."""
+    from qgis.core import QgsFeatureRequest, QgsField
+
+    from sectionwright.algorithms.compat.qgis_compat import LONG
+
+    marked = ticks.materialize(QgsFeatureRequest())
+    marked.dataProvider().addAttributes([QgsField("represent", LONG)])
+    marked.updateFields()
+    index = marked.fields().lookupField("represent")
+    marked.dataProvider().changeAttributeValues(
+        {f.id(): {index: int(n % 2 == 0)} for n, f in enumerate(marked.getFeatures())}
+    )
+    return marked
+
+
+@pytest.fixture(scope="module")
+def full_sheet(demo_layers, tmp_path_factory):
+    """Every input given, the layout kept in the project for inspection."""
+    from qgis.core import QgsProject
+
+    folder = tmp_path_factory.mktemp("full")
+    g = demo_layers["INPUT"].replace("layername=sections", "layername=")
+    holes = processing.run(
+        "sectionwright:projectboreholes",
+        {
+            "INPUT": demo_layers["INPUT"],
+            "LINE_ID_FIELD": "name",
+            "COLLARS": g + "collars",
+            "HOLE_ID_FIELD": "hole_id",
+            "AZIMUTH_FIELD": "azimuth",
+            "INCLINATION_FIELD": "incl",
+            "DEPTH_FIELD": "depth",
+            "INTERVALS": g + "intervals",
+            "INTERVAL_HOLE_FIELD": "hole_id",
+            "INTERVAL_FROM_FIELD": "from_m",
+            "INTERVAL_TO_FIELD": "to_m",
+            "INTERVAL_CODE_FIELD": "unit",
+            "MAX_DISTANCE": 600.0,
+            "VERTICAL_EXAGGERATION": 2.0,
+            "OUTPUT": "memory:",
+            "OUTPUT_INTERVALS": "memory:",
+        },
+    )
+    parameters = dict(
+        demo_layers,
+        BOREHOLES=holes["OUTPUT"],
+        BOREHOLE_INTERVALS=holes["OUTPUT_INTERVALS"],
+        TICKS=ticks_with_representatives(demo_layers["TICKS"]),
+        AUTHOR="R. Example",
+        OVERVIEW=True,
+        TITLE="Tarrowgill full sheet",
+        **interpretation_layers(),
+    )
+    log = LogFeedback()
+    sheet(parameters, folder / "full.pdf", feedback=log, ADD_LAYOUT=True)
+    layout = QgsProject.instance().layoutManager().layoutByName("Tarrowgill full sheet")
+    return parameters, layout, folder / "full.pdf", log
+
+
+def section_page_items(layout, page, kind):
+    return [item for item in layout.items() if isinstance(item, kind) and item.page() == page]
+
+
+def test_every_input_layer_appears_in_the_legend(full_sheet):
+    from qgis.core import QgsLayoutItemLegend
+
+    _, layout, _, _ = full_sheet
+    (legend,) = section_page_items(layout, 1, QgsLayoutItemLegend)  # page 1: section A
+    names = {node.layer().name() for node in legend.model().rootGroup().findLayers()}
+    assert names == {
+        "Ground surface",
+        "Geology strip",
+        "Dip ticks",
+        "Contacts and boundaries",
+        "Form lines",
+        "Axial surfaces",
+        "Dip domains",
+        "Boreholes",
+        "Logged intervals",
+    }
+
+
+def test_the_title_block_says_what_the_sheet_is(full_sheet):
+    # Read back from the PDF by poppler's pdftotext, independent of QGIS.
+    _, _, pdf, _ = full_sheet
+    text = subprocess.run(["pdftotext", str(pdf), "-"], capture_output=True, text=True).stdout
+    text = " ".join(text.split())
+    assert pdf_pages(pdf) == 5
+    for expected in (
+        "Tarrowgill full sheet",
+        "R. Example",
+        "EPSG:32633",
+        "vertical exaggeration ×2",
+        "Index of sections",
+        "formlines_out",
+        "domains_out",
+        "local codes and licensed practice",
+        "Section A–A′",
+    ):
+        assert expected in text, expected
+
+
+@pytest.fixture(scope="module")
+def placed_labels(full_sheet):
+    """The labels QGIS's label engine placed in section A's view
+    (QgsLayoutExporter.labelingResults), and that view's map item."""
+    from qgis.core import QgsLayoutExporter, QgsLayoutItemMap
+
+    from sectionwright.algorithms.compat.qgis_compat import EXPORT_SUCCESS
+
+    _, layout, pdf, _ = full_sheet
+    exporter = QgsLayoutExporter(layout)
+    settings = QgsLayoutExporter.ImageExportSettings()
+    settings.dpi = 72
+    settings.pages = [1]
+    assert exporter.exportToImage(str(pdf.with_suffix(".png")), settings) == EXPORT_SUCCESS
+    (section_map,) = [
+        item for item in section_page_items(layout, 1, QgsLayoutItemMap) if item.grids().size()
+    ]
+    labels = exporter.labelingResults()[section_map.uuid()].allLabels()
+    return [label for label in labels if not label.isUnplaced], section_map
+
+
+def sheet_layer(name, section="A"):
+    """A per-section layer the sheet drew (kept in the project)."""
+    from qgis.core import QgsProject
+
+    return next(
+        layer
+        for layer in QgsProject.instance().mapLayers().values()
+        if layer.name() == name and any(f["section"] == section for f in layer.getFeatures())
+    )
+
+
+def test_no_label_covers_another_or_the_strip(placed_labels):
+    # Every placed label's box, in section-view units, must stay off every
+    # other label and off the geology strip as drawn (its band width).
+    from qgis.core import QgsGeometry
+
+    from sectionwright.algorithms.outputs.styles import STRIP_WIDTH_MM
+
+    placed, section_map = placed_labels
+    assert len(placed) >= 8  # dips of the representatives, hole names, domain captions
+    boxes = [QgsGeometry.fromRect(label.labelRect) for label in placed]
+    for i, box in enumerate(boxes):
+        for other in boxes[i + 1 :]:
+            assert box.intersection(other).area() < 1e-6 * box.area(), placed[i].labelText
+    half_band = (STRIP_WIDTH_MM / 2 + 0.2) * section_map.scale() / 1000.0
+    strip = sheet_layer("Geology strip")
+    band = QgsGeometry.unaryUnion([f.geometry().buffer(half_band, 4) for f in strip.getFeatures()])
+    for label, box in zip(placed, boxes):
+        assert not box.intersects(band), label.labelText
+    texts = {label.labelText for label in placed}
+    assert {"D1  31° →", "D2  14° ←", "D3  22° →", "TG-01"} <= texts
+
+
+def test_only_representatives_get_dip_labels(placed_labels):
+    placed, _ = placed_labels
+    anchors = sheet_layer("Dip labels")
+    dips = [label for label in placed if label.layerID == anchors.id()]
+    assert dips
+    for label in dips:
+        assert anchors.getFeature(label.featureId)["represent"] == 1
+
+
+def test_different_exaggerations_are_an_error_naming_the_layers(demo_layers, tmp_path):
+    with pytest.raises(QgsProcessingException) as error:
+        sheet(dict(demo_layers, **interpretation_layers(ve=3.0)), tmp_path / "mixed.pdf")
+    message = str(error.value)
+    assert "different vertical exaggerations" in message
+    assert "Form lines" in message and "formlines_out" in message and "×3" in message
+    assert "Profile" in message and "×2" in message
