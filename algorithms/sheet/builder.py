@@ -30,6 +30,8 @@ HEADROOM = 9.0
 DOMAIN_BAR = (5.0, 1.0)  # mm: panel height, gap under the frame's top
 FOOTROOM = 4.0
 LABEL_CLEARANCE = 0.9  # mm between a label and the strip's edge
+# Half width (mm) of the band labels keep off: the strip, its outline, the clearance.
+KEEP_OUT_MM = STRIP_WIDTH_MM / 2 + 0.2 + LABEL_CLEARANCE
 
 # Parameter names of the section-view inputs, and their layer names on the sheet.
 PROFILE = "PROFILE"
@@ -244,8 +246,8 @@ class SheetBuilder:
         scale asked for does not fit the page. Scale: the largest standard
         one at which the data and its margins fit; the view is then let
         down below the data to fill the page's height, but not deeper than
-        half the section's length below its lowest ground (as deep as form
-        lines are constructed by default)."""
+        a quarter of the section's length below its lowest ground: room to
+        draw by hand (form lines, when given, are data and count in full)."""
         box_w, box_h = self.view_box
         room_w, room_h = (
             2 * SIDE_ROOM,
@@ -264,7 +266,7 @@ class SheetBuilder:
         if width > box_w + 1e-6 or needed > box_h + 1e-6:
             return None
         lowest_ground = self.inputs[PROFILE].extent().yMinimum()
-        deepest = lowest_ground - 0.5 * data.width() * exaggeration
+        deepest = lowest_ground - 0.25 * data.width() * exaggeration
         extra = max(0.0, (data.yMinimum() - deepest) / metres)
         height = min(box_h, needed + extra)
         top = data.yMaximum() + (room_h - FOOTROOM) * metres
@@ -287,7 +289,7 @@ class SheetBuilder:
         if layers["domains"] is not None:
             label_domains(layers["domains"], DOMAIN_CAPTION)
         drawn_ground = layers["strip"] or layers["ground"]
-        half_band = (STRIP_WIDTH_MM / 2 + 0.2 + LABEL_CLEARANCE) * metres
+        half_band = KEEP_OUT_MM * metres
         layers["keep_out"] = keep_out_zone(drawn_ground, half_band, "Strip keep-out")
         if layers["keep_out"] is not None:
             layers["keep_out"].setRenderer(sheet_styles.hidden_renderer())
@@ -301,10 +303,10 @@ class SheetBuilder:
             label_dips(
                 layers["dip_labels"],
                 self.has_representatives,
-                STRIP_WIDTH_MM / 2 + LABEL_CLEARANCE,
+                KEEP_OUT_MM + 0.3,
             )
         if layers["collars"] is not None:
-            label_collars(layers["collars"], STRIP_WIDTH_MM / 2 + LABEL_CLEARANCE)
+            label_collars(layers["collars"], KEEP_OUT_MM + 0.3)
 
 
 def _data_box(layers, ground):

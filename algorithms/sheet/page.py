@@ -36,13 +36,18 @@ MARGIN = 8.0  # mm round the page
 AXIS_ROOM = 14.0  # mm each side of the view for elevation labels
 HEAD = 12.0  # mm above the view: the end letters and directions
 FOOT = 20.0  # mm under the view: chainage labels, axis title, scale line
-TITLE_BLOCK_WIDTH = 0.3  # of the page's width
+TITLE_BLOCK = (0.3, 105.0)  # width: share of the page's width, at least so many mm
 GAP = 6.0  # mm between the items of the bottom band
 
 
 def band_height(page_size):
     """Height (mm) of the bottom band: location map, legend, title block."""
     return max(66.0, 0.27 * page_size[1])
+
+
+def title_block_width(page_width):
+    share, least = TITLE_BLOCK
+    return max(share * page_width, least)
 
 
 def view_box(page_size):
@@ -142,10 +147,11 @@ def add_section_page(layout, page, page_size, section, block, map_crs):
         7.5,
         align=Qt.AlignmentFlag.AlignHCenter,
     )
-    # A rotated label turns about its upper left corner.
+    # A rotated label turns about its upper left corner; both sit out in
+    # the margin, clear of the longest elevation numbers.
     for corner, rotation in (
-        ((x - AXIS_ROOM + 1.0, y + height / 2 + 15.0), -90.0),
-        ((x + width + AXIS_ROOM - 1.0, y + height / 2 - 15.0), 90.0),
+        ((x - AXIS_ROOM - 2.0, y + height / 2 + 15.0), -90.0),
+        ((x + width + AXIS_ROOM + 2.0, y + height / 2 - 15.0), 90.0),
     ):
         label(
             layout,
@@ -224,7 +230,7 @@ def _band_boxes(page_size):
     width, height = page_size
     band = band_height(page_size)
     top = height - MARGIN - band
-    block_w = TITLE_BLOCK_WIDTH * width
+    block_w = title_block_width(width)
     map_w = 1.15 * (band - 12)
     location = (MARGIN, top + 7, map_w, band - 16)
     block = (width - MARGIN - block_w, top, block_w, band)
@@ -257,7 +263,7 @@ def _add_legend(layout, page, layers, box):
     legend.setSymbolHeight(3.2)
     legend.setSplitLayer(False)
     legend.setEqualColumnWidth(False)
-    legend.setColumnCount(max(1, int(width // 48)))
+    legend.setColumnCount(max(2, int(width // 30)))
     legend.setColumnSpace(4)
     legend.setFrameEnabled(False)
     legend.setResizeToContents(True)
@@ -270,7 +276,7 @@ def _add_legend(layout, page, layers, box):
 def add_overview_page(layout, page, page_size, layers, extent, crs, block, listing):
     """Every section line on one map, the list of sections, the title block."""
     width, height = page_size
-    block_w = TITLE_BLOCK_WIDTH * width
+    block_w = title_block_width(width)
     band = band_height(page_size)
     map_box = (MARGIN, MARGIN + 8, width - 2 * MARGIN - block_w - GAP, height - 2 * MARGIN - 16)
     add_map(layout, page, map_box, layers, _padded(extent), crs, 11.0, "Section lines")

@@ -59,42 +59,31 @@ def add_title_block(layout, page, box, block):
     """The title block in ``box`` = (x, y, width, height) mm."""
     x, y, width, height = box
     unit = height / 15.0
-    header = 2.6 * unit
+    header, row, data = 2.4 * unit, 1.5 * unit, 3.3 * unit
     _cell(layout, page, x, y, width, header, HEADER_FILL)
-    label(
-        layout,
-        page,
-        block.title,
-        (x + PAD, y, width - 2 * PAD, header),
-        min(13.0, 2.1 * unit / 0.353 * 0.8),
-        bold=True,
-    )
-    rows = (
+    label(layout, page, block.title, (x + PAD, y, width - 2 * PAD, header), 12.0, bold=True)
+    top = y + header
+    for caption, text, size, bold in (
         ("Subject", block.subject, 8.0, True),
         ("Scale", block.scale, 7.5, False),
         ("CRS", block.crs, 7.0, False),
-    )
-    top = y + header
-    for caption, text, size, bold in rows:
-        _row(layout, page, x, top, width, 1.6 * unit, caption, text, size, bold)
-        top += 1.6 * unit
-    third = width / 3.0
-    for index, (caption, text) in enumerate(
-        (("Date", block.date), ("Author", block.author or "—"), ("Sheet", block.sheet))
     ):
-        _cell(layout, page, x + index * third, top, third, 1.6 * unit)
-        label(layout, page, caption, (x + index * third + PAD, top, 12, 1.6 * unit), 6, italic=True)
-        label(
-            layout,
-            page,
-            text,
-            (x + index * third + 11, top, third - 11 - PAD, 1.6 * unit),
-            7.5,
-        )
-    top += 1.6 * unit
-    sources_h = 2.6 * unit
-    _row(layout, page, x, top, width, sources_h, "Data", ", ".join(block.sources), 6.3)
-    top += sources_h
+        _row(layout, page, x, top, width, row, caption, text, size, bold)
+        top += row
+    left = x
+    for (caption, text), share in zip(
+        (("Date", block.date), ("Author", block.author or "—"), ("Sheet", block.sheet)),
+        (0.3, 0.45, 0.25),
+    ):
+        cell = share * width
+        _cell(layout, page, left, top, cell, row)
+        label(layout, page, caption, (left + PAD, top, 11, row), 6, italic=True)
+        label(layout, page, text, (left + 11, top, cell - 11 - PAD, row), 7.5)
+        left += cell
+    top += row
+    sources = ", ".join(block.sources)
+    _row(layout, page, x, top, width, data, "Data", sources, 6.3 if len(sources) < 160 else 5.4)
+    top += data
     _cell(layout, page, x, top, width, y + height - top, HEADER_FILL)
     label(
         layout,

@@ -482,13 +482,15 @@ def placed_labels(full_sheet):
 
 
 def sheet_layer(name, section="A"):
-    """A per-section layer the sheet drew (kept in the project)."""
+    """A per-section layer the full sheet drew (kept in the project, in a
+    group of its own)."""
     from qgis.core import QgsProject
 
+    group = QgsProject.instance().layerTreeRoot().findGroup("Sheet layers: Tarrowgill full sheet")
     return next(
-        layer
-        for layer in QgsProject.instance().mapLayers().values()
-        if layer.name() == name and any(f["section"] == section for f in layer.getFeatures())
+        node.layer()
+        for node in group.findGroup(f"Section {section}").findLayers()
+        if node.layer().name() == name
     )
 
 
