@@ -397,6 +397,8 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         if suffix == ".pdf":
             settings = QgsLayoutExporter.PdfExportSettings()
             settings.rasterizeWholeImage = False
+            # Text stays text: searchable, selectable, and crisp at any zoom.
+            settings.textRenderFormat = TEXT_AS_TEXT
             result = exporter.exportToPdf(output, settings)
             _check(result, exporter, output)
             return [output]

@@ -68,7 +68,8 @@ def fence_renderer(colours=None, field=None, default="#2b2b2b", width=3.0):
         material = q3d.QgsPhongMaterialSettings()
         material.setAmbient(QColor(colour))
         material.setDiffuse(QColor(colour))
-        line.setMaterial(material)
+        # setMaterial became setMaterialSettings in QGIS 3.24.
+        (getattr(line, "setMaterialSettings", None) or line.setMaterial)(material)
         return line
 
     if not colours:
