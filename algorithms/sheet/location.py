@@ -40,7 +40,7 @@ def add_map(layout, page, box, layers, extent, crs, letter_size=9.0, caption="Lo
     if extent is not None:
         item.zoomToExtent(extent)
     _north_arrow(layout, page, x + width - 9.5, y + 1.5, height)
-    _scale_bar(layout, page, item, x, y + height + 1.5, width)
+    scale_bar(layout, page, item, x, y + height + 1.5, 2, nice_step(0.4 * item.extent().width(), 2))
     return item
 
 
@@ -54,17 +54,17 @@ def _north_arrow(layout, page, x, y, map_height):
     place(arrow, page, x + 8 - 0.4 * size, y, 0.4 * size, size)
 
 
-def _scale_bar(layout, page, linked_map, x, y, map_width):
+def scale_bar(layout, page, linked_map, x, y, segments, metres_per_segment, height=1.5):
+    """A scale bar of ``segments`` boxes under ``linked_map``, at (x, y) mm."""
     bar = QgsLayoutItemScaleBar(layout)
     bar.setStyle("Single Box")
     bar.setLinkedMap(linked_map)
     bar.setUnits(UNIT_METERS)
     bar.setUnitLabel("m")
     bar.setNumberOfSegmentsLeft(0)
-    bar.setNumberOfSegments(2)
-    ground_width = linked_map.extent().width()
-    bar.setUnitsPerSegment(nice_step(0.4 * ground_width, 2))
-    bar.setHeight(1.5)
+    bar.setNumberOfSegments(segments)
+    bar.setUnitsPerSegment(metres_per_segment)
+    bar.setHeight(height)
     bar.setTextFormat(text_format(6.5))
     layout.addLayoutItem(bar)
     bar.attemptMove(QgsLayoutPoint(x, y), page=page)

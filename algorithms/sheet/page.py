@@ -11,7 +11,6 @@ from qgis.core import (
     QgsLayoutItemLegend,
     QgsLayoutItemMap,
     QgsLayoutItemMapGrid,
-    QgsLayoutItemScaleBar,
     QgsLayoutPoint,
     QgsLayoutSize,
     QgsRectangle,
@@ -23,12 +22,11 @@ from ..compat.qgis_compat import (
     LEGEND_GROUP,
     LEGEND_ITEM,
     LEGEND_TITLE,
-    UNIT_METERS,
     set_legend_text,
 )
 from ..core.sheet_scale import format_scale, nice_step
 from ..outputs.styles import GRID
-from .location import add_map
+from .location import add_map, scale_bar
 from .text import label, text_format
 from .title_block import add_title_block
 
@@ -202,19 +200,9 @@ def _add_ends(layout, page, section, x, y, width):
 
 
 def _section_scale_line(layout, page, section_map, section, x, y):
-    bar = QgsLayoutItemScaleBar(layout)
-    bar.setStyle("Single Box")
-    bar.setLinkedMap(section_map)
-    bar.setUnits(UNIT_METERS)
-    bar.setUnitLabel("m")
-    bar.setNumberOfSegmentsLeft(0)
-    bar.setNumberOfSegments(4)
-    bar.setUnitsPerSegment(nice_step(section.extent.width() / 4.0, 4))
-    bar.setHeight(1.6)
-    bar.setTextFormat(text_format(6.5))
-    layout.addLayoutItem(bar)
-    bar.attemptMove(QgsLayoutPoint(x, y), page=page)
-    bar.refresh()
+    bar = scale_bar(
+        layout, page, section_map, x, y, 4, nice_step(section.extent.width() / 4.0, 4), 1.6
+    )
     label(
         layout,
         page,
