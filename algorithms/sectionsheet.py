@@ -3,10 +3,10 @@
 import os
 import shutil
 import tempfile
+from dataclasses import dataclass
 from pathlib import Path
 
 from qgis.core import (
-    QgsFeature,
     QgsLayoutExporter,
     QgsLayoutItemPage,
     QgsLayoutSize,
@@ -27,7 +27,6 @@ from qgis.PyQt.QtCore import QDate, Qt
 
 from .compat.qgis_compat import (
     EXPORT_SUCCESS,
-    FAST_INSERT,
     NO_THREADING,
     NUMBER_DOUBLE,
     SOURCE_ANY_VECTOR,
@@ -36,11 +35,13 @@ from .compat.qgis_compat import (
     advanced,
 )
 from .core.sheet_scale import format_scale
-from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
+from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
 from .inputs.section_lines import read_section_parts, working_crs
+from .outputs import fields as F
 from .outputs import styles
 from .outputs.section_space import is_section_view
+from .outputs.skipped import skip_sections
 from .sheet.builder import (
     AXES,
     BOREHOLE_INTERVALS,
@@ -86,10 +87,120 @@ SECTION_VIEW_INPUTS = (
 )
 
 
+@dataclass
+class SheetSettings:
+    """Every parameter of a run, read and checked once, before any work."""
+
+    lines: object
+    id_field: str
+    inputs: dict  # PROFILE and the optional section-view inputs: layer or None
+    exaggeration: float
+    map_layers: list
+    title: str
+    title_block: dict  # the title block's entries common to every page
+    label_dips: bool
+    page_size: tuple  # mm
+    scale: float  # 0: automatic
+    overview: bool
+    add_layout: bool
+    output: str
+    suffix: str
+
+    @classmethod
+    def read(cls, algorithm, parameters, context, feedback):
+        def label(name):
+            return algorithm.parameterDefinition(name).description()
+
+        lines = algorithm.source(parameters, INPUT, context)
+        profile = algorithm.parameterAsVectorLayer(parameters, PROFILE, context)
+        if profile is None or profile.fields().lookupField(F.SECTION) < 0:
+            raise QgsProcessingException(
+                f"{label(PROFILE)}: give the section-view profile made by Topographic "
+                f"profile (it needs a '{F.SECTION}' field)."
+            )
+        output = algorithm.parameterAsFileOutput(parameters, OUTPUT, context)
+        inputs = {PROFILE: profile}
+        for name, _, _ in SECTION_VIEW_INPUTS:
+            inputs[name] = algorithm.parameterAsVectorLayer(parameters, name, context)
+        map_layers = algorithm.parameterAsLayerList(parameters, MAP_LAYERS, context)
+        title = algorithm.parameterAsString(parameters, TITLE, context)
+        return cls(
+            lines=lines,
+            id_field=algorithm.parameterAsString(parameters, LINE_ID_FIELD, context),
+            inputs=inputs,
+            exaggeration=_exaggeration(inputs, label, feedback),
+            map_layers=map_layers,
+            title=title,
+            title_block=dict(
+                title=title,
+                crs=_crs_text(lines.sourceCrs()),
+                date=QDate.currentDate().toString(Qt.DateFormat.ISODate),
+                author=algorithm.parameterAsString(parameters, AUTHOR, context).strip(),
+                sources=_sources(
+                    algorithm.parameterAsVectorLayer(parameters, INPUT, context),
+                    inputs,
+                    map_layers,
+                ),
+            ),
+            label_dips=algorithm.parameterAsBoolean(parameters, LABEL_DIPS, context),
+            page_size=PAGE_SIZES[algorithm.parameterAsEnum(parameters, PAGE_SIZE, context)][1],
+            scale=algorithm.parameterAsDouble(parameters, SCALE, context),
+            overview=algorithm.parameterAsBoolean(parameters, OVERVIEW, context),
+            add_layout=algorithm.parameterAsBoolean(parameters, ADD_LAYOUT, context),
+            output=output,
+            suffix=_checked_suffix(output, label(OUTPUT)),
+        )
+
+
+def _checked_suffix(output, label):
+    suffix = Path(output).suffix.lower()
+    if suffix not in (".pdf", ".png", ".svg"):
+        raise QgsProcessingException(f"{label}: the file must end in .pdf, .png or .svg.")
+    folder = Path(output).parent
+    if not folder.is_dir() or not os.access(folder, os.W_OK):
+        raise QgsProcessingException(f"{label}: cannot write into {folder}.")
+    return suffix
+
+
+def _exaggeration(inputs, label, feedback):
+    """The one VE of the section-view inputs (1 when none says)."""
+    named = {
+        label(name): layer
+        for name, layer in inputs.items()
+        if layer is not None and is_section_view(layer.crs())
+    }
+    exaggeration = common_exaggeration(named)
+    if exaggeration is None:
+        feedback.pushInfo(
+            f"No section-view input has a '{F.EXAGGERATION}' field: drawn at exaggeration 1."
+        )
+        return 1.0
+    return exaggeration
+
+
+def _report_empty(label, inputs, section, feedback):
+    """A log line for each input given that shows nothing on this section."""
+    shown = {layer.name(): layer for layer in section.section_layers}
+    for given, name in (
+        (TICKS, "Dip ticks"),
+        (CROSSINGS, "Contacts and boundaries"),
+        (BOREHOLES, "Boreholes"),
+        (INTERVALS, "Geology strip"),
+        (BOREHOLE_INTERVALS, "Logged intervals"),
+        (FORM_LINES, "Form lines"),
+        (AXES, "Axial surfaces"),
+        (DOMAINS, "Dip domains"),
+    ):
+        layer = shown.get(name)
+        if inputs.get(given) is not None and (layer is None or not layer.featureCount()):
+            feedback.pushInfo(f"Section {label}: nothing in {given} for this section.")
+
+
 class SectionSheetAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "sectionsheet"
     DISPLAY_NAME = "Section sheet"
     GROUP_ID = "sectiondrawing"
+    OUTPUT_SCHEMAS = {SKIPPED: F.SKIPPED_SECTIONS}
 
     def flags(self):
         # Print layouts are built and rendered on the main thread.
@@ -167,103 +278,89 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         )
         self.add_skipped_output()
 
-    def _label(self, name):
-        return self.parameterDefinition(name).description()
-
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.source(parameters, INPUT, context)
-        profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
-        if profile is None or profile.fields().lookupField("section") < 0:
-            raise QgsProcessingException(
-                f"{self._label(PROFILE)}: give the section-view profile made by Topographic "
-                "profile (it needs a 'section' field)."
-            )
-        output = self.parameterAsFileOutput(parameters, OUTPUT, context)
-        suffix = Path(output).suffix.lower()
-        if suffix not in (".pdf", ".png", ".svg"):
-            raise QgsProcessingException(
-                f"{self._label(OUTPUT)}: the file must end in .pdf, .png or .svg."
-            )
-        folder = Path(output).parent
-        if not folder.is_dir() or not os.access(folder, os.W_OK):
-            raise QgsProcessingException(f"{self._label(OUTPUT)}: cannot write into {folder}.")
-        inputs = {PROFILE: profile}
-        for name, _, _ in SECTION_VIEW_INPUTS:
-            inputs[name] = self.parameterAsVectorLayer(parameters, name, context)
-        exaggeration = self._exaggeration(inputs, feedback)
-        map_layers = self.parameterAsLayerList(parameters, MAP_LAYERS, context)
-        page_size = PAGE_SIZES[self.parameterAsEnum(parameters, PAGE_SIZE, context)][1]
+        settings = SheetSettings.read(self, parameters, context, feedback)
+        lines = settings.lines
         skipped, skipped_id = self.parameterAsSink(
-            parameters, SKIPPED, context, skipped_fields(), lines.wkbType(), lines.sourceCrs()
-        )
-
-        work_crs = working_crs(lines, context, feedback)
-        parts = read_section_parts(
-            lines,
-            self.parameterAsString(parameters, LINE_ID_FIELD, context),
-            work_crs,
+            parameters,
+            SKIPPED,
             context,
-            feedback,
-        )
-        builder = SheetBuilder(
-            inputs,
-            map_layers,
+            F.SKIPPED_SECTIONS.qgs_fields(),
+            lines.wkbType(),
             lines.sourceCrs(),
-            view_box(page_size),
-            self.parameterAsDouble(parameters, SCALE, context),
-            self.parameterAsBoolean(parameters, LABEL_DIPS, context),
+        )
+        work_crs = working_crs(lines, context, feedback)
+        parts = read_section_parts(lines, settings.id_field, work_crs, context, feedback)
+        builder = SheetBuilder(
+            settings.inputs,
+            settings.map_layers,
+            lines.sourceCrs(),
+            view_box(settings.page_size),
+            settings.scale,
+            settings.label_dips,
         )
         ledger = RunLedger(feedback)
+        sections = self._sections(builder, parts, settings, ledger, skipped, feedback)
+        if not sections:
+            raise QgsProcessingException("No section could be drawn: see the log.")
+        project = context.project() if settings.add_layout and context.project() else QgsProject()
+        layout = QgsPrintLayout(project)
+        layout.initializeDefaults()
+        layout.setName(settings.title)
+        pages, layer_sets = self._layout(layout, builder, parts, sections, settings, feedback)
+        files = self._export(layout, pages, settings.output, settings.suffix)
+        feedback.pushInfo(f"Written: {', '.join(files)}")
+        if settings.add_layout and project is context.project():
+            self._add_to_project(project, layout, layer_sets, feedback)
+        feedback.setProgress(100.0)
+        ledger.close()
+        results = {OUTPUT: settings.output}
+        if skipped is not None:
+            results[SKIPPED] = skipped_id
+        return results
+
+    @staticmethod
+    def _sections(builder, parts, settings, ledger, skipped, feedback):
+        """What each page shows; parts that get no page go to SKIPPED."""
         sections = []
         for part in parts:
             if feedback.isCanceled():
                 break
             ledger.read += 1
-            section = builder.section(part, exaggeration)
+            section = builder.section(part, settings.exaggeration)
             if section is None:
                 part.reason = builder.reason
                 ledger.skip(part.reason)
-                self._skip(skipped, part)
+                skip_sections(skipped, [part])
                 feedback.pushInfo(f"Section {part.label}: no page ({part.reason}).")
                 continue
-            self._report_empty(part.label, builder, inputs, section, feedback)
+            _report_empty(part.label, settings.inputs, section, feedback)
             sections.append(section)
             ledger.written += 1
             feedback.setProgress(40.0 * len(sections) / max(len(parts), 1))
-        if not sections:
-            raise QgsProcessingException("No section could be drawn: see the log.")
+        return sections
 
-        add_layout = self.parameterAsBoolean(parameters, ADD_LAYOUT, context)
-        project = context.project() if add_layout and context.project() else QgsProject()
-        title = self.parameterAsString(parameters, TITLE, context)
-        layout = QgsPrintLayout(project)
-        layout.initializeDefaults()
-        layout.setName(title)
-        block = dict(
-            title=title,
-            crs=_crs_text(lines.sourceCrs()),
-            date=QDate.currentDate().toString(Qt.DateFormat.ISODate),
-            author=self.parameterAsString(parameters, AUTHOR, context).strip(),
-            sources=_sources(self, parameters, context, inputs, map_layers),
-        )
-        overview = self.parameterAsBoolean(parameters, OVERVIEW, context)
-        count = len(sections) + overview
-        pages = []
-        if overview:
-            self._overview(layout, page_size, builder, parts, lines, map_layers, sections, block)
+    def _layout(self, layout, builder, parts, sections, settings, feedback):
+        """The pages (overview first when asked for); returns their labels and
+        the layers each page draws, as (group name, layers)."""
+        block = settings.title_block
+        count = len(sections) + settings.overview
+        pages, layer_sets = [], []
+        if settings.overview:
+            layers = self._overview(layout, builder, parts, sections, settings)
             pages.append("overview")
+            layer_sets.append(("Overview", layers))
         for section in sections:
             if feedback.isCanceled():
                 break
-            page = _page(layout, len(pages), page_size)
             subject = (
                 f"Section {section.label}–{section.label}′ · {section.start_name} "
                 f"{section.start_azimuth:03.0f}° to {section.end_name} {section.end_azimuth:03.0f}°"
             )
             add_section_page(
                 layout,
-                page,
-                page_size,
+                _page(layout, len(pages), settings.page_size),
+                settings.page_size,
                 section,
                 TitleBlock(
                     subject=subject,
@@ -271,9 +368,12 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
                     sheet=f"{len(pages) + 1} of {count}",
                     **block,
                 ),
-                lines.sourceCrs(),
+                settings.lines.sourceCrs(),
             )
             pages.append(section.label)
+            layer_sets.append(
+                (f"Section {section.label}", section.section_layers + section.location_layers[:2])
+            )
             box = section.extent
             feedback.pushInfo(
                 f"Section {section.label}: page {len(pages)}, scale {format_scale(section.scale)} "
@@ -282,51 +382,13 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
                 f"{box.yMinimum():.1f}…{box.yMaximum():.1f}."
             )
             feedback.setProgress(40.0 + 40.0 * len(pages) / count)
-        files = self._export(layout, pages, output, suffix)
-        feedback.pushInfo(f"Written: {', '.join(files)}")
-        if add_layout and project is context.project():
-            layer_sets = [("Overview", self._overview_layers[: len(parts) + 1])] if overview else []
-            layer_sets += [
-                (f"Section {s.label}", s.section_layers + s.location_layers[:2]) for s in sections
-            ]
-            self._add_to_project(project, layout, layer_sets, feedback)
-        feedback.setProgress(100.0)
-        ledger.close()
-        results = {OUTPUT: output}
-        if skipped is not None:
-            results[SKIPPED] = skipped_id
-        return results
-
-    def _exaggeration(self, inputs, feedback):
-        named = {
-            self._label(name): layer
-            for name, layer in inputs.items()
-            if layer is not None and is_section_view(layer.crs())
-        }
-        exaggeration = common_exaggeration(named)
-        if exaggeration is None:
-            feedback.pushInfo("No section-view input has a 've' field: drawn at exaggeration 1.")
-            return 1.0
-        return exaggeration
+        return pages, layer_sets
 
     @staticmethod
-    def _report_empty(label, builder, inputs, section, feedback):
-        names = {layer.name(): layer for layer in section.section_layers}
-        for given, shown in (
-            (TICKS, "Dip ticks"),
-            (CROSSINGS, "Contacts and boundaries"),
-            (BOREHOLES, "Boreholes"),
-            (INTERVALS, "Geology strip"),
-            (BOREHOLE_INTERVALS, "Logged intervals"),
-            (FORM_LINES, "Form lines"),
-            (AXES, "Axial surfaces"),
-            (DOMAINS, "Dip domains"),
-        ):
-            layer = names.get(shown)
-            if inputs.get(given) is not None and (layer is None or not layer.featureCount()):
-                feedback.pushInfo(f"Section {label}: nothing in {given} for this section.")
-
-    def _overview(self, layout, page_size, builder, parts, lines, map_layers, sections, block):
+    def _overview(layout, builder, parts, sections, settings):
+        """The first page: every section line on the map; returns the layers
+        made for it."""
+        crs = settings.lines.sourceCrs()
         drawn = [part for part in parts if part.coords is not None]
         extent = QgsRectangle()
         line_layers = []
@@ -334,10 +396,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             extent.combineExtentWith(part.geometry.boundingBox())
             line_layers.append(
                 line_on_map(
-                    part.geometry,
-                    lines.sourceCrs(),
-                    f"Section line {part.label}",
-                    styles.section_line_renderer(),
+                    part.geometry, crs, f"Section line {part.label}", styles.section_line_renderer()
                 )
             )
         page_numbers = {section.label: index + 2 for index, section in enumerate(sections)}
@@ -346,22 +405,23 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             f"page {page_numbers[s.label]}"
             for s in sections
         ]
-        self._overview_layers = [builder.ends(drawn)] + line_layers + list(map_layers)
+        made = [builder.ends(drawn)] + line_layers
         add_overview_page(
             layout,
-            _page(layout, 0, page_size),
-            page_size,
-            self._overview_layers,
+            _page(layout, 0, settings.page_size),
+            settings.page_size,
+            made + list(settings.map_layers),
             extent,
-            lines.sourceCrs(),
+            crs,
             TitleBlock(
                 subject="Index of sections",
                 scale="Each section's scale on its own page",
                 sheet=f"1 of {len(sections) + 1}",
-                **block,
+                **settings.title_block,
             ),
             listing,
         )
+        return made
 
     @staticmethod
     def _add_to_project(project, layout, layer_sets, feedback):
@@ -381,15 +441,6 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
                 subgroup.addLayer(layer)
         manager.addLayout(layout)
         feedback.pushInfo(f"Layout '{layout.name()}' added to the project.")
-
-    @staticmethod
-    def _skip(sink, part):
-        if sink is None:
-            return
-        feature = QgsFeature()
-        feature.setGeometry(part.geometry)
-        feature.setAttributes([part.label, part.fid, part.reason])
-        sink.addFeature(feature, FAST_INSERT)
 
     @staticmethod
     def _export(layout, pages, output, suffix):
@@ -454,9 +505,8 @@ def _crs_text(crs):
     return f"{crs.authid()} · {crs.description()}" if crs.authid() else crs.description()
 
 
-def _sources(algorithm, parameters, context, inputs, map_layers):
+def _sources(lines, inputs, map_layers):
     """Names of the layers the sheet was drawn from, lines first."""
-    lines = algorithm.parameterAsVectorLayer(parameters, INPUT, context)
     layers = [lines] + list(inputs.values()) + list(map_layers)
     return list(dict.fromkeys(_source_name(layer) for layer in layers if layer is not None))
 

@@ -5,7 +5,6 @@ from collections import defaultdict
 import numpy as np
 import shapely
 from qgis.core import (
-    NULL,
     QgsCoordinateTransform,
     QgsFeature,
     QgsGeometry,
@@ -15,13 +14,16 @@ from qgis.core import (
     QgsWkbTypes,
 )
 
+from .compat.null import plain
 from .compat.qgis_compat import FAST_INSERT, NO_GEOMETRY, SOURCE_ANY_GEOMETRY
 from .core.section_to_map import place_on_map
-from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
+from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
 from .inputs.section_lines import read_section_parts, working_crs
 from .outputs import fields as F
+from .outputs.schema import Schema
 from .outputs.section_space import is_section_view
+from .outputs.skipped import write_skipped
 
 SECTION_LAYER = "SECTION_LAYER"
 OUTPUT = "OUTPUT"
@@ -36,6 +38,8 @@ class SectionsIn3dAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "sectionsin3d"
     DISPLAY_NAME = "Sections in 3-D"
     GROUP_ID = "sectiondrawing"
+    # The output carries the section view's own fields; it computes none.
+    OUTPUT_SCHEMAS = {OUTPUT: Schema(), SKIPPED: F.SKIPPED_SECTIONS}
 
     def initAlgorithm(self, config=None):
         tr = self.tr
@@ -47,9 +51,7 @@ class SectionsIn3dAlgorithm(SectionwrightAlgorithm):
                 [SOURCE_ANY_GEOMETRY],
             )
         )
-        self.addParameter(
-            QgsProcessingParameterFeatureSink(OUTPUT, tr("Sections in 3-D (map, with Z)"))
-        )
+        self.addParameter(QgsProcessingParameterFeatureSink(OUTPUT, tr("Sections in 3-D")))
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
@@ -72,17 +74,25 @@ class SectionsIn3dAlgorithm(SectionwrightAlgorithm):
         if sink is None:
             raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
         skipped, skipped_id = self.parameterAsSink(
-            parameters, SKIPPED, context, skipped_fields(), NO_GEOMETRY, lines.sourceCrs()
+            parameters,
+            SKIPPED,
+            context,
+            F.SKIPPED_SECTIONS.qgs_fields(),
+            NO_GEOMETRY,
+            lines.sourceCrs(),
         )
         to_lines = QgsCoordinateTransform(work_crs, lines.sourceCrs(), context.transformContext())
         ledger = RunLedger(feedback)
 
         def skip(feature, label, reason):
             ledger.skip(reason)
-            if skipped is not None:
-                row = QgsFeature(skipped_fields())
-                row.setAttributes([label, feature.id(), reason])
-                skipped.addFeature(row, FAST_INSERT)
+            write_skipped(
+                skipped,
+                [None],
+                F.SKIPPED_SECTIONS.rows(
+                    {F.SECTION: [label], F.SOURCE_FID: [feature.id()], F.REASON: [reason]}
+                ),
+            )
 
         groups = defaultdict(list)
         total = max(view.featureCount(), 1)
@@ -158,10 +168,11 @@ def _layer_name(algorithm, parameters, context):
 
 
 def _section_and_exaggeration(feature):
-    label = feature[F.SECTION]
-    label = "" if label is None or label == NULL else str(label)
+    label = plain(feature[F.SECTION])
+    label = "" if label is None else str(label)
+    exaggeration = plain(feature[F.EXAGGERATION])
     try:
-        exaggeration = float(feature[F.EXAGGERATION])
+        exaggeration = float(exaggeration)
     except (TypeError, ValueError):
         return label, None
     if not np.isfinite(exaggeration) or exaggeration <= 0:

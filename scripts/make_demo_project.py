@@ -126,7 +126,7 @@ def main(demo):
     )
 
     from sectionwright.algorithms.outputs import sheet_styles, styles
-    from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
+    from sectionwright.algorithms.outputs.section_space import section_crs
 
     world, results = demo / "tarrowgill.gpkg", demo / "sections.gpkg"
     section_view_crossings(results)
@@ -181,7 +181,7 @@ def main(demo):
         terrain = QgsRasterDemTerrainProvider()
         terrain.setLayer(dem)
         project.elevationProperties().setTerrainProvider(terrain)
-    engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+    engineering = section_crs()
     view = {}
     for layer_name, name, renderer in (
         ("profile_section", "Ground surface", styles.profile_renderer()),

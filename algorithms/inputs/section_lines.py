@@ -6,7 +6,6 @@ from typing import Optional
 import numpy as np
 import shapely
 from qgis.core import (
-    NULL,
     QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
     QgsCsException,
@@ -15,7 +14,13 @@ from qgis.core import (
     QgsProcessingException,
 )
 
-from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
+from ..compat.null import plain
+from ..compat.qgis_compat import (
+    SKIP_GEOMETRY_CHECKS,
+    UNIT_METERS,
+    is_curved,
+    unit_name,
+)
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
 
@@ -70,8 +75,8 @@ def working_crs(source, context, feedback):
 def section_label(feature, id_field):
     """The section's label: the LINE_ID_FIELD value, else the feature id."""
     if id_field:
-        value = feature[id_field]
-        if value is not None and value != NULL and str(value).strip():
+        value = plain(feature[id_field])
+        if value is not None and str(value).strip():
             return str(value).strip()
     return str(feature.id())
 

@@ -20,6 +20,7 @@ from qgis.core import (
 )
 
 from ..compat.qgis_compat import FILL_COLOUR_PROPERTY
+from . import fields as F
 from .styles import HOLE, INK, NO_UNIT_COLOUR, unit_colour
 
 AXIS = "#6c4f8c"  # axial surfaces: the one line colour that is not a unit's
@@ -77,7 +78,7 @@ def form_line_renderer():
         }
     )
     return QgsCategorizedSymbolRenderer(
-        "CASE WHEN \"kind\" = 'contact' THEN 'contact' ELSE 'form line' END",
+        f"CASE WHEN \"{F.KIND}\" = 'contact' THEN 'contact' ELSE 'form line' END",
         [
             QgsRendererCategory("contact", contact, "contact (constructed)"),
             QgsRendererCategory("form line", form, "form line"),
@@ -120,7 +121,8 @@ def domain_bar_renderer():
     symbol.symbolLayer(0).setDataDefinedProperty(
         FILL_COLOUR_PROPERTY,
         QgsProperty.fromExpression(
-            f"CASE WHEN \"domain\" % 2 = 0 THEN '{DOMAIN_FILLS[1]}' ELSE '{DOMAIN_FILLS[0]}' END"
+            f"CASE WHEN \"{F.DOMAIN}\" % 2 = 0 THEN '{DOMAIN_FILLS[1]}' "
+            f"ELSE '{DOMAIN_FILLS[0]}' END"
         ),
     )
     return QgsSingleSymbolRenderer(symbol)

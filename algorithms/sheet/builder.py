@@ -7,7 +7,9 @@ from typing import List
 
 from qgis.core import QgsRectangle
 
+from ..compat.null import plain
 from ..core.sheet_scale import end_azimuths, end_names, standard_scale
+from ..outputs import fields as F
 from ..outputs import sheet_styles, styles
 from ..outputs.styles import STRIP_WIDTH_MM
 from .labels import keep_labels_off, label_collars, label_dips, label_domains
@@ -47,8 +49,9 @@ DOMAINS = "DOMAINS"
 # Domain number, mean apparent dip, and an arrow toward the side it dips to
 # (+ toward the section's end, drawn on the right).
 DOMAIN_CAPTION = (
-    "'D' || \"domain\" || '  ' || format_number(abs(\"mean_dip\"), 0) || '°' || "
-    "CASE WHEN \"mean_dip\" > 0 THEN ' →' WHEN \"mean_dip\" < 0 THEN ' ←' ELSE '' END"
+    f"'D' || \"{F.DOMAIN}\" || '  ' || format_number(abs(\"{F.DOMAIN_MEAN_DIP}\"), 0) || '°' || "
+    f"CASE WHEN \"{F.DOMAIN_MEAN_DIP}\" > 0 THEN ' →' "
+    f"WHEN \"{F.DOMAIN_MEAN_DIP}\" < 0 THEN ' ←' ELSE '' END"
 )
 NO_PROFILE = "no profile for this section in PROFILE"
 DOES_NOT_FIT = "does not fit the page at the scale asked for"
@@ -79,7 +82,7 @@ def _unit_names(*layers_and_fields):
     for layer, name in layers_and_fields:
         if layer is not None and layer.fields().lookupField(name) >= 0:
             values = layer.uniqueValues(layer.fields().lookupField(name))
-            names |= {str(v) for v in values if v is not None and str(v) not in ("", "NULL")}
+            names |= {str(v) for v in map(plain, values) if v is not None and str(v) != ""}
     return names
 
 
@@ -95,14 +98,14 @@ class SheetBuilder:
         self.view_box = view_box  # (width, height) mm the view may take
         self.asked_scale = scale
         self.label_dips = label_dips
-        strip_units = _unit_names((inputs.get(INTERVALS), "unit"))
+        strip_units = _unit_names((inputs.get(INTERVALS), F.UNIT))
         self.strip_units = sorted(strip_units)
         self.colours = sheet_styles.palette(
-            strip_units, _unit_names((inputs.get(BOREHOLE_INTERVALS), "code"))
+            strip_units, _unit_names((inputs.get(BOREHOLE_INTERVALS), F.CODE))
         )
         ticks = inputs.get(TICKS)
         self.has_representatives = (
-            ticks is not None and ticks.fields().lookupField("represent") >= 0
+            ticks is not None and ticks.fields().lookupField(F.REPRESENTATIVE) >= 0
         )
         self.reason = ""
 
@@ -165,8 +168,8 @@ class SheetBuilder:
             end_name=end,
             start_azimuth=start_az,
             end_azimuth=end_az,
-            length=float(ground["length"])
-            if ground.fields().lookupField("length") >= 0
+            length=float(ground[F.LENGTH])
+            if ground.fields().lookupField(F.LENGTH) >= 0
             else data.width(),
             section_layers=present,
             legend_layers=legend,
@@ -187,7 +190,7 @@ class SheetBuilder:
             sheet_styles.hole_trace_renderer(),
         )
         ticks_renderer = (
-            sheet_styles.representative_tick_renderer("represent")
+            sheet_styles.representative_tick_renderer(F.REPRESENTATIVE)
             if self.has_representatives
             else styles.tick_renderer()
         )
@@ -209,14 +212,14 @@ class SheetBuilder:
                 label,
                 "Logged intervals",
                 "LineString",
-                sheet_styles.hole_interval_renderer(self.colours, "code"),
+                sheet_styles.hole_interval_renderer(self.colours, F.CODE),
             ),
             "strip": copy_section(
                 inputs.get(INTERVALS),
                 label,
                 "Geology strip",
                 "LineString",
-                styles.unit_strip_renderer(self.strip_units, "unit"),
+                styles.unit_strip_renderer(self.strip_units, F.UNIT),
             ),
             "ground": copy_section(
                 inputs[PROFILE],

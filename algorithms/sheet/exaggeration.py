@@ -2,6 +2,7 @@
 
 from qgis.core import QgsProcessingException
 
+from ..compat.null import plain
 from ..outputs import fields as F
 
 
@@ -11,7 +12,7 @@ def exaggerations(layer):
     if index < 0:
         return set()
     values = set()
-    for value in layer.uniqueValues(index):
+    for value in map(plain, layer.uniqueValues(index)):
         try:
             values.add(round(float(value), 9))
         except (TypeError, ValueError):

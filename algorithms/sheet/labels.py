@@ -42,15 +42,15 @@ def _apply(layer, settings):
 def label_dips(anchors, only_representatives, clearance_mm):
     """Apparent dip beside each tick's centre, clear of the strip (only the
     representatives when the layer says which they are)."""
-    text = "format_number(\"app_dip\", 0) || '°'"
+    text = f"format_number(\"{F.APPARENT_DIP}\", 0) || '°'"
     if only_representatives:
-        text = f'CASE WHEN "represent" = 1 THEN {text} END'
+        text = f'CASE WHEN "{F.REPRESENTATIVE}" = 1 THEN {text} END'
     _apply(anchors, _settings(text, 6.5, LABEL_AROUND_POINT, clearance_mm))
 
 
 def label_collars(collars, clearance_mm):
     """Hole names around their collars, clear of the strip."""
-    settings = _settings('"hole"', 7, LABEL_AROUND_POINT, clearance_mm, bold=True)
+    settings = _settings(f'"{F.HOLE}"', 7, LABEL_AROUND_POINT, clearance_mm, bold=True)
     settings.priority = 8
     _apply(collars, settings)
 
