@@ -2,6 +2,7 @@
 
 
 def all_algorithms():
+    from .dipdomains import DipDomainsAlgorithm
     from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
@@ -9,6 +10,7 @@ def all_algorithms():
     from .projectboreholes import ProjectBoreholesAlgorithm
     from .sectionsheet import SectionSheetAlgorithm
     from .sectionsin3d import SectionsIn3dAlgorithm
+    from .structuraltrend import StructuralTrendAlgorithm
 
     return [
         ProfileAlgorithm(),
@@ -18,4 +20,6 @@ def all_algorithms():
         ProjectBoreholesAlgorithm(),
         SectionSheetAlgorithm(),
         SectionsIn3dAlgorithm(),
+        StructuralTrendAlgorithm(),
+        DipDomainsAlgorithm(),
     ]

@@ -181,6 +181,17 @@ def main(demo):
         terrain = QgsRasterDemTerrainProvider()
         terrain.setLayer(dem)
         project.elevationProperties().setTerrainProvider(terrain)
+    trend_group = root.addGroup("Structural trend and dip domains")
+    add(
+        results,
+        "trend",
+        "Suggested section line (structural trend)",
+        trend_group,
+        renderer=styles.section_line_renderer(),
+    )
+    add(results, "trend_lines", "Section lines checked against the trend", trend_group)
+    add(results, "attitude_domains", "Attitudes with dip domains", trend_group)
+    domains = add(results, "domains", "Dip domains", trend_group)
     engineering = section_crs()
     view = {}
     for layer_name, name, renderer in (
@@ -211,6 +222,7 @@ def main(demo):
             "CROSSINGS": view["crossings_view"],
             "BOREHOLES": view["boreholes"],
             "BOREHOLE_INTERVALS": view["borehole_intervals"],
+            "DOMAINS": domains,
             "MAP_LAYERS": [contacts, units],
             "TITLE": "Tarrowgill — demo sections",
             "AUTHOR": "Sectionwright demo",

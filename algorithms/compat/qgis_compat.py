@@ -64,6 +64,9 @@ NO_GEOMETRY_REQUEST = _scoped("FeatureRequestFlag", "NoGeometry", QgsFeatureRequ
 NO_THREADING = _scoped(
     "ProcessingAlgorithmFlag", "NoThreading", QgsProcessingAlgorithm.Flag.FlagNoThreading
 )
+ADVANCED = _scoped(
+    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.Flag.FlagAdvanced
+)
 EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
 LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)
 LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", QgsLegendStyle.Style.Subgroup)
@@ -74,9 +77,6 @@ FILL_COLOUR_PROPERTY = _scoped(
 LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", QgsPalLayerSettings.AroundPoint)
 OBSTACLE_WHOLE_POLYGON = _scoped(
     "LabelObstacleType", "PolygonWhole", QgsLabelObstacleSettings.ObstacleType.PolygonWhole
-)
-PARAMETER_ADVANCED = _scoped(
-    "ProcessingParameterFlag", "Advanced", QgsProcessingParameterDefinition.FlagAdvanced
 )
 CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
 
@@ -122,6 +122,6 @@ def set_legend_text(legend, style, text_format):
 
 
 def advanced(parameter):
-    """The parameter, marked advanced (shown under "Advanced parameters")."""
-    parameter.setFlags(parameter.flags() | PARAMETER_ADVANCED)
+    """The parameter, marked as rarely changed (under Advanced parameters)."""
+    parameter.setFlags(parameter.flags() | ADVANCED)
     return parameter

@@ -64,9 +64,11 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     def shortHelpString(self):
         return self.tr(help_text(self.ALGORITHM_ID))
 
-    def add_section_line_parameters(self):
+    def add_section_line_parameters(self, label="Section lines", optional=False):
         self.addParameter(
-            QgsProcessingParameterFeatureSource(INPUT, self.tr("Section lines"), [SOURCE_LINES])
+            QgsProcessingParameterFeatureSource(
+                INPUT, self.tr(label), [SOURCE_LINES], optional=optional
+            )
         )
         self.addParameter(
             QgsProcessingParameterField(

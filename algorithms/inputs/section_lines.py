@@ -45,13 +45,16 @@ def crs_wkt(crs):
     return crs.toWkt(WKT2)
 
 
-def working_crs(source, context, feedback):
+def working_crs(source, context, feedback, layer=("Section lines", "the section lines")):
     """The section lines' CRS when projected, else the UTM zone of the centre
-    of their extent (one CRS per run); the log says which and in what unit."""
+    of their extent (one CRS per run); the log says which and in what unit.
+    ``layer``: the parameter's label and the layer's name in messages, when
+    the layer that sets the CRS is another one."""
+    label, name = layer
     crs = source.sourceCrs()
     if not crs.isValid():
         raise QgsProcessingException(
-            "INPUT: the section lines have no coordinate reference system. "
+            f"{label}: {name} have no coordinate reference system. "
             "Set one in the layer's properties (Source) and run again."
         )
     if not crs.isGeographic():
@@ -66,7 +69,7 @@ def working_crs(source, context, feedback):
     )
     work = QgsCoordinateReferenceSystem(f"EPSG:{utm_epsg(centre.x(), centre.y())}")
     feedback.pushInfo(
-        f"The section lines are in a geographic CRS ({crs.authid()}); "
+        f"{name[0].upper() + name[1:]} are in a geographic CRS ({crs.authid()}); "
         f"working CRS: {work.authid()} {work.description()}, in metres."
     )
     return work

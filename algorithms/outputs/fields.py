@@ -149,12 +149,87 @@ SKIPPED_BOREHOLE_ROWS = Schema(
     _REASON,
 )
 
-# Fields the section sheet reads from other algorithms' outputs, and the
-# one it writes in its own map layers (the end letters A, A′ of a line).
-REPRESENTATIVE = "represent"
+# dipdomains: the carried attitudes with their domain, and the domain table.
 DOMAIN = "domain"
-DOMAIN_FROM = "from_ch"
-DOMAIN_TO = "to_ch"
-DOMAIN_MEAN_DIP = "mean_dip"
+DOMAIN_DIP = "dom_dip"
+REPRESENT = "represent"
+WHY = "why"
+FROM_CHAINAGE = "from_ch"
+TO_CHAINAGE = "to_ch"
+COUNT = "count"
+MEAN_DIP = "mean_dip"
+DIP_SPREAD = "dip_sd"
+REPRESENTATIVE_FID = "rep_fid"
+
+_DOMAIN = Field(DOMAIN, INTEGER, "dip domain, 1, 2 … along the section's chainage")
+_DIPS_TO = Field(DIPS_TO, TEXT, "end of the line the apparent dip goes down to: start or end")
+DOMAIN_POINTS = Schema(
+    _DOMAIN,
+    Field(DOMAIN_DIP, REAL, "the domain's mean signed apparent dip (+ toward the end)"),
+    Field(REPRESENT, INTEGER, "1 for the attitude chosen to stand for its domain, else 0"),
+    Field(WHY, TEXT, "what made it the choice, or why not"),
+)
+DIP_DOMAINS = Schema(
+    _SECTION,
+    _DOMAIN,
+    Field(FROM_CHAINAGE, REAL, "chainage of the domain's first attitude"),
+    Field(TO_CHAINAGE, REAL, "chainage of the domain's last attitude"),
+    Field(COUNT, INTEGER, "attitudes in the domain"),
+    Field(MEAN_DIP, REAL, "mean signed apparent dip (+ toward the end)"),
+    Field(DIP_SPREAD, REAL, "standard deviation of the signed apparent dips"),
+    _DIPS_TO,
+    Field(REPRESENTATIVE_FID, INTEGER, "src_fid of the domain's representative attitude"),
+)
+
+# structuraltrend: one row per area, and the existing lines checked.
+AREA = "area"
+COUNT_N = "n"
+MEAN_DIP_DIRECTION = "mean_dd"
+AXIS_TREND = "axis_tr"
+AXIS_PLUNGE = "axis_pl"
+EIGENVALUE_1 = "e1"
+EIGENVALUE_2 = "e2"
+EIGENVALUE_3 = "e3"
+SHAPE = "shape"
+BEST_AZIMUTH = "best_az"
+PATTERN = "pattern"
+MISFIT = "misfit"
+NEAR_COUNT = "n_near"
+OBLIQUE_COUNT = "n_oblique"
+ADVICE = "advice"
+
+_AREA = Field(AREA, TEXT, "area name (the area field, else the feature id; all: the whole layer)")
+_BEST_AZIMUTH = Field(BEST_AZIMUTH, REAL, "recommended section azimuth")
+STRUCTURAL_TREND = Schema(
+    _AREA,
+    Field(COUNT_N, INTEGER, "attitudes used"),
+    Field(MEAN_DIP_DIRECTION, REAL, "dip direction of the mean plane, grid azimuth"),
+    Field(MEAN_DIP, REAL, "dip of the mean plane"),
+    Field(AXIS_TREND, REAL, "trend of the best-fit cylindrical fold axis"),
+    Field(AXIS_PLUNGE, REAL, "plunge of the fold axis"),
+    Field(EIGENVALUE_1, REAL, "largest normalised eigenvalue of the orientation tensor"),
+    Field(EIGENVALUE_2, REAL, "middle normalised eigenvalue"),
+    Field(EIGENVALUE_3, REAL, "smallest normalised eigenvalue"),
+    Field(SHAPE, REAL, "Woodcock's shape K = ln(e1/e2) / ln(e2/e3)"),
+    _BEST_AZIMUTH,
+    Field(PATTERN, TEXT, "girdle, cluster or scattered"),
+)
+LINES_CHECKED = Schema(
+    _SECTION,
+    _AREA,
+    Field(LINE_AZIMUTH, REAL, "azimuth from the line's first vertex to its last"),
+    _BEST_AZIMUTH,
+    Field(MISFIT, REAL, "acute angle between line_az and best_az"),
+    Field(NEAR_COUNT, INTEGER, "attitudes the line would carry"),
+    Field(OBLIQUE_COUNT, INTEGER, "of those, the ones whose strike is close to the line"),
+    Field(ADVICE, TEXT, "one line of advice"),
+)
+SKIPPED_TREND_ROWS = Schema(
+    Field(TABLE, TEXT, "the layer of the row: attitudes, areas or sections"),
+    _SOURCE_FID,
+    _REASON,
+)
+
+# The section sheet's own map layers: the end letters A, A′ of a line.
 END_LETTER = "end"
 SHEET_ENDS = Schema(Field(END_LETTER, TEXT, "end letter of a section line: A, or A′ at its end"))

@@ -49,9 +49,9 @@ DOMAINS = "DOMAINS"
 # Domain number, mean apparent dip, and an arrow toward the side it dips to
 # (+ toward the section's end, drawn on the right).
 DOMAIN_CAPTION = (
-    f"'D' || \"{F.DOMAIN}\" || '  ' || format_number(abs(\"{F.DOMAIN_MEAN_DIP}\"), 0) || '°' || "
-    f"CASE WHEN \"{F.DOMAIN_MEAN_DIP}\" > 0 THEN ' →' "
-    f"WHEN \"{F.DOMAIN_MEAN_DIP}\" < 0 THEN ' ←' ELSE '' END"
+    f"'D' || \"{F.DOMAIN}\" || '  ' || format_number(abs(\"{F.MEAN_DIP}\"), 0) || '°' || "
+    f"CASE WHEN \"{F.MEAN_DIP}\" > 0 THEN ' →' "
+    f"WHEN \"{F.MEAN_DIP}\" < 0 THEN ' ←' ELSE '' END"
 )
 NO_PROFILE = "no profile for this section in PROFILE"
 DOES_NOT_FIT = "does not fit the page at the scale asked for"
@@ -105,7 +105,7 @@ class SheetBuilder:
         )
         ticks = inputs.get(TICKS)
         self.has_representatives = (
-            ticks is not None and ticks.fields().lookupField(F.REPRESENTATIVE) >= 0
+            ticks is not None and ticks.fields().lookupField(F.REPRESENT) >= 0
         )
         self.reason = ""
 
@@ -190,7 +190,7 @@ class SheetBuilder:
             sheet_styles.hole_trace_renderer(),
         )
         ticks_renderer = (
-            sheet_styles.representative_tick_renderer(F.REPRESENTATIVE)
+            sheet_styles.representative_tick_renderer(F.REPRESENT)
             if self.has_representatives
             else styles.tick_renderer()
         )

@@ -44,7 +44,7 @@ def label_dips(anchors, only_representatives, clearance_mm):
     representatives when the layer says which they are)."""
     text = f"format_number(\"{F.APPARENT_DIP}\", 0) || '°'"
     if only_representatives:
-        text = f'CASE WHEN "{F.REPRESENTATIVE}" = 1 THEN {text} END'
+        text = f'CASE WHEN "{F.REPRESENT}" = 1 THEN {text} END'
     _apply(anchors, _settings(text, 6.5, LABEL_AROUND_POINT, clearance_mm))
 
 

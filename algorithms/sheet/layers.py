@@ -121,13 +121,13 @@ def domain_bar(domains, label, top, height, name, renderer):
     """The dip domains of section ``label`` (rows of the domains table) as
     panels from ``from_ch`` to ``to_ch`` hanging ``height`` below ``top``
     (section-view units); None without a usable table."""
-    needed = (F.SECTION, F.DOMAIN, F.DOMAIN_FROM, F.DOMAIN_TO)
+    needed = (F.SECTION, F.DOMAIN, F.FROM_CHAINAGE, F.TO_CHAINAGE)
     if domains is None or any(domains.fields().lookupField(n) < 0 for n in needed):
         return None
     layer = _memory_layer("Polygon", name, domains.fields(), section_crs())
     panels = []
     for row in domains.getFeatures(section_filter(label)):
-        start, end = plain(row[F.DOMAIN_FROM]), plain(row[F.DOMAIN_TO])
+        start, end = plain(row[F.FROM_CHAINAGE]), plain(row[F.TO_CHAINAGE])
         if start is None or end is None:
             continue
         start, end = float(start), float(end)

@@ -49,6 +49,7 @@ def test_zip_installs_and_registers_the_provider(profile):
     assert report["available"] and report["started"]
     assert report["provider"] == "Sectionwright"
     assert report["algorithms"] == [
+        "sectionwright:dipdomains",
         "sectionwright:geologycrossings",
         "sectionwright:normalizeattitudes",
         "sectionwright:profile",
@@ -56,6 +57,7 @@ def test_zip_installs_and_registers_the_provider(profile):
         "sectionwright:projectboreholes",
         "sectionwright:sectionsheet",
         "sectionwright:sectionsin3d",
+        "sectionwright:structuraltrend",
     ]
     assert report["unloaded"]
 
