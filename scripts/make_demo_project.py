@@ -98,11 +98,13 @@ def keep_memory_layers(project, gpkg):
         options.driverName = "GPKG"
         options.layerName = table
         if gpkg.exists():
-            options.actionOnExistingFile = QgsVectorFileWriter.CreateOrOverwriteLayer
+            options.actionOnExistingFile = (
+                QgsVectorFileWriter.ActionOnExistingFile.CreateOrOverwriteLayer
+            )
         error = QgsVectorFileWriter.writeAsVectorFormatV3(
             layer, str(gpkg), project.transformContext(), options
         )[0]
-        if error != QgsVectorFileWriter.NoError:
+        if error != QgsVectorFileWriter.WriterError.NoError:
             raise RuntimeError(f"could not keep {layer.name()} in {gpkg}")
         renderer, labeling = layer.renderer().clone(), layer.labeling()
         labeling = labeling.clone() if labeling is not None else None
@@ -116,6 +118,7 @@ def keep_memory_layers(project, gpkg):
 def main(demo):
     app, provider = start_qgis()  # keep both alive
     import processing
+    import qgis.core
     from qgis.core import (
         QgsCoordinateReferenceSystem,
         QgsProcessingContext,
@@ -175,10 +178,10 @@ def main(demo):
     ):
         fence = add(results, layer_name, name, fence_group)
         fence.setRenderer3D(renderer)
-    if hasattr(project, "elevationProperties"):  # QGIS 3.26+: the 3-D view's terrain
-        from qgis.core import QgsRasterDemTerrainProvider
-
-        terrain = QgsRasterDemTerrainProvider()
+    # QGIS 3.26+ keeps the 3-D view's terrain in the project; 3.22 in the view.
+    terrain_provider = getattr(qgis.core, "QgsRasterDemTerrainProvider", None)
+    if terrain_provider is not None:
+        terrain = terrain_provider()
         terrain.setLayer(dem)
         project.elevationProperties().setTerrainProvider(terrain)
     trend_group = root.addGroup("Structural trend and dip domains")

@@ -18,15 +18,13 @@ from ..compat.null import plain
 from ..compat.qgis_compat import (
     SKIP_GEOMETRY_CHECKS,
     UNIT_METERS,
+    WKT2_2019,
     is_curved,
     unit_name,
 )
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
 
-WKT2 = getattr(
-    QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED
-)
 WGS84 = QgsCoordinateReferenceSystem("EPSG:4326")
 
 
@@ -42,7 +40,7 @@ class SectionPart:
 
 
 def crs_wkt(crs):
-    return crs.toWkt(WKT2)
+    return crs.toWkt(WKT2_2019)
 
 
 def working_crs(source, context, feedback, layer=("Section lines", "the section lines")):

@@ -77,13 +77,12 @@ class SheetSection:
     location_extent: QgsRectangle = None
 
 
-def _unit_names(*layers_and_fields):
-    names = set()
-    for layer, name in layers_and_fields:
-        if layer is not None and layer.fields().lookupField(name) >= 0:
-            values = layer.uniqueValues(layer.fields().lookupField(name))
-            names |= {str(v) for v in map(plain, values) if v is not None and str(v) != ""}
-    return names
+def unit_names(layer, field_name):
+    """The distinct non-empty values of a field, sorted (none: no layer or field)."""
+    if layer is None or layer.fields().lookupField(field_name) < 0:
+        return []
+    values = layer.uniqueValues(layer.fields().lookupField(field_name))
+    return sorted({str(v) for v in map(plain, values) if v is not None and str(v) != ""})
 
 
 class SheetBuilder:
@@ -98,10 +97,10 @@ class SheetBuilder:
         self.view_box = view_box  # (width, height) mm the view may take
         self.asked_scale = scale
         self.label_dips = label_dips
-        strip_units = _unit_names((inputs.get(INTERVALS), F.UNIT))
-        self.strip_units = sorted(strip_units)
+        strip_units = unit_names(inputs.get(INTERVALS), F.UNIT)
+        self.strip_units = strip_units
         self.colours = sheet_styles.palette(
-            strip_units, _unit_names((inputs.get(BOREHOLE_INTERVALS), F.CODE))
+            strip_units, unit_names(inputs.get(BOREHOLE_INTERVALS), F.CODE)
         )
         ticks = inputs.get(TICKS)
         self.has_representatives = (
