@@ -86,7 +86,10 @@ LEGEND_TITLE = _scoped("LegendComponent", "Title", "QgsLegendStyle.Style.Title")
 LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", "QgsLegendStyle.Style.Subgroup")
 LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", "QgsLegendStyle.Style.SymbolLabel")
 FILL_COLOUR_PROPERTY = _scoped(
-    "SymbolLayerProperty", "FillColor", "QgsSymbolLayer.PropertyFillColor"
+    "Property",
+    "FillColor",
+    "QgsSymbolLayer.PropertyFillColor",
+    qgis_namespace=qgis.core.QgsSymbolLayer,
 )
 LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", "QgsPalLayerSettings.AroundPoint")
 OBSTACLE_WHOLE_POLYGON = _scoped(
