@@ -114,3 +114,31 @@ def end_azimuths(coords):
     dx, dy = np.asarray(coords[-1], float)[:2] - np.asarray(coords[0], float)[:2]
     ahead = float(np.degrees(np.arctan2(dx, dy)) % 360.0)
     return (ahead + 180.0) % 360.0, ahead
+
+
+def domain_panels(from_ch, to_ch, min_width):
+    """(left, right) chainages of the dip-domain panels along the top of a
+    section: neighbouring domains meet half-way between the last attitude
+    of one and the first of the next, so the bar runs without gaps; the
+    outer ends stay at the first and last attitudes but are widened
+    outward to ``min_width`` so a caption fits. Domains in chainage order.
+
+    >>> panels = domain_panels(np.array([100.0, 700.0, 900.0]),
+    ...                        np.array([500.0, 700.0, 1500.0]), 200.0)
+    >>> [p.tolist() for p in panels]
+    [[100.0, 600.0, 800.0], [600.0, 800.0, 1500.0]]
+    >>> [p.tolist() for p in domain_panels(np.array([50.0]), np.array([50.0]), 200.0)]
+    [[-50.0], [150.0]]
+    """
+    start = np.minimum(from_ch, to_ch).astype(float)
+    end = np.maximum(from_ch, to_ch).astype(float)
+    meet = (end[:-1] + start[1:]) / 2.0
+    left = np.concatenate((start[:1], meet))
+    right = np.concatenate((meet, end[-1:]))
+    left[0] = min(left[0], right[0] - min_width)
+    right[-1] = max(right[-1], left[-1] + min_width)
+    if len(left) == 1:
+        centre = (start[0] + end[0]) / 2.0
+        half = max(end[0] - start[0], min_width) / 2.0
+        left[0], right[0] = centre - half, centre + half
+    return left, right

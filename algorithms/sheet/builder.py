@@ -30,6 +30,7 @@ from .layers import (
 SIDE_ROOM = 2.0
 HEADROOM = 9.0
 DOMAIN_BAR = (5.0, 1.0)  # mm: panel height, gap under the frame's top
+DOMAIN_MIN_WIDTH = 14.0  # mm: room for a domain's caption
 FOOTROOM = 4.0
 LABEL_CLEARANCE = 0.9  # mm between a label and the strip's edge
 # Half width (mm) of the band labels keep off: the strip, its outline, the clearance.
@@ -285,6 +286,7 @@ class SheetBuilder:
             label,
             extent.yMaximum() - gap * metres,
             bar_height * metres,
+            DOMAIN_MIN_WIDTH * metres,
             "Dip domains",
             sheet_styles.domain_bar_renderer(),
         )

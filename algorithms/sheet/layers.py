@@ -1,6 +1,7 @@
 """The features of one section, copied out of the section-view layers into
 small styled layers for its sheet."""
 
+import numpy as np
 from qgis.core import (
     QgsExpression,
     QgsFeature,
@@ -13,6 +14,7 @@ from qgis.core import (
 )
 
 from ..compat.null import plain
+from ..core.sheet_scale import domain_panels
 from ..outputs import fields as F
 from ..outputs.section_space import is_section_view, section_crs
 
@@ -117,25 +119,30 @@ def keep_out_zone(source, half_width, name):
     return layer
 
 
-def domain_bar(domains, label, top, height, name, renderer):
+def domain_bar(domains, label, top, height, min_width, name, renderer):
     """The dip domains of section ``label`` (rows of the domains table) as
-    panels from ``from_ch`` to ``to_ch`` hanging ``height`` below ``top``
-    (section-view units); None without a usable table."""
+    panels along the top of the view, hanging ``height`` below ``top``
+    (section-view units), meeting half-way between neighbours
+    (``core.sheet_scale.domain_panels``); None without a usable table."""
     needed = (F.SECTION, F.DOMAIN, F.FROM_CHAINAGE, F.TO_CHAINAGE)
     if domains is None or any(domains.fields().lookupField(n) < 0 for n in needed):
         return None
     layer = _memory_layer("Polygon", name, domains.fields(), section_crs())
-    panels = []
+    rows = []
     for row in domains.getFeatures(section_filter(label)):
         start, end = plain(row[F.FROM_CHAINAGE]), plain(row[F.TO_CHAINAGE])
-        if start is None or end is None:
-            continue
-        start, end = float(start), float(end)
-        if end < start:
-            start, end = end, start
-        panel = QgsFeature(row)
-        panel.setGeometry(QgsGeometry.fromRect(QgsRectangle(start, top - height, end, top)))
-        panels.append(panel)
+        if start is not None and end is not None:
+            rows.append((min(float(start), float(end)), float(end), row))
+    rows.sort(key=lambda r: r[0])
+    panels = []
+    if rows:
+        lefts, rights = domain_panels(
+            np.array([r[0] for r in rows]), np.array([r[1] for r in rows]), min_width
+        )
+        for (_, _, row), left, right in zip(rows, lefts, rights):
+            panel = QgsFeature(row)
+            panel.setGeometry(QgsGeometry.fromRect(QgsRectangle(left, top - height, right, top)))
+            panels.append(panel)
     layer.dataProvider().addFeatures(panels)
     layer.setRenderer(renderer)
     return layer
