@@ -175,6 +175,8 @@ def main(demo):
         ("fence_strip", "Geology strip (3-D)", fence_renderer(colours, "unit", width=6.0)),
         ("fence_boreholes", "Boreholes (3-D)", fence_renderer(width=2.0)),
         ("fence_intervals", "Logged intervals (3-D)", fence_renderer(colours, "code", width=5.0)),
+        ("fence_form_lines", "Form lines (3-D)", fence_renderer(default="#5e5e5e", width=1.5)),
+        ("fence_axes", "Axial surfaces (3-D)", fence_renderer(default="#8e2b1f", width=1.5)),
     ):
         fence = add(results, layer_name, name, fence_group)
         fence.setRenderer3D(renderer)
@@ -204,6 +206,8 @@ def main(demo):
         ("crossings_view", "Contacts and boundaries", styles.crossing_renderer()),
         ("boreholes", "Boreholes", styles.hole_renderer()),
         ("borehole_intervals", "Logged intervals", None),
+        ("form_lines", "Form lines (kink construction)", styles.form_line_renderer("kind")),
+        ("axial_surfaces", "Axial surfaces", styles.axis_renderer()),
     ):
         view[layer_name] = add(results, layer_name, name, view_group, renderer=renderer)
         view[layer_name].setCrs(engineering)
@@ -225,6 +229,8 @@ def main(demo):
             "CROSSINGS": view["crossings_view"],
             "BOREHOLES": view["boreholes"],
             "BOREHOLE_INTERVALS": view["borehole_intervals"],
+            "FORM_LINES": view["form_lines"],
+            "AXES": view["axial_surfaces"],
             "DOMAINS": domains,
             "MAP_LAYERS": [contacts, units],
             "TITLE": "Tarrowgill — demo sections",

@@ -13,6 +13,7 @@ ROOT = Path(__file__).resolve().parent.parent
 
 
 def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
+    outputs = []
     for script in ("run_demo.py", "make_demo_project.py"):
         done = subprocess.run(
             [sys.executable, str(ROOT / "scripts" / script), str(tmp_path)],
@@ -21,6 +22,8 @@ def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
             timeout=600,
         )
         assert done.returncode == 0, done.stderr[-3000:]
+        outputs.append(done.stdout)
+    assert "Form lines below the ground: Summary:" in outputs[0]
     summary = done.stdout
     assert "Project with 1 layout of 5 pages" in summary
     info = subprocess.run(
@@ -39,7 +42,9 @@ def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
     assert not [x for x in project.mapLayers().values() if x.providerType() == "memory"]
     fences = {x.name(): x for x in project.mapLayers().values() if x.name().endswith("(3-D)")}
     assert sorted(fences) == [
+        "Axial surfaces (3-D)",
         "Boreholes (3-D)",
+        "Form lines (3-D)",
         "Geology strip (3-D)",
         "Ground (3-D)",
         "Logged intervals (3-D)",
@@ -47,6 +52,8 @@ def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
     assert all(
         QgsWkbTypes.hasZ(x.wkbType()) and x.renderer3D() is not None for x in fences.values()
     )
+    names = {layer.name() for layer in project.mapLayers().values()}
+    assert {"Form lines (kink construction)", "Axial surfaces"} <= names
     picture = tmp_path / "reopened.png"
     settings = QgsLayoutExporter.ImageExportSettings()
     settings.dpi = 60

@@ -1,10 +1,11 @@
 """Symbols of the section sheet beyond the ground and the strip: logged
-borehole intervals, form lines and axial surfaces, dip domains,
-representative ticks, the section's ends on the map.
+borehole intervals, dip domains, representative ticks, the section's ends
+on the map (form lines and axial surfaces draw as everywhere, from
+``styles``).
 
 Black and grey carry the geometry; colour is kept for the units (the same
-colours on the strip, in the holes and on the map) and for the axial
-surfaces, so the sheet still reads on a monochrome print.
+colours on the strip, in the holes and on the map), so the sheet still
+reads on a monochrome print.
 """
 
 from qgis.core import (
@@ -23,8 +24,6 @@ from ..compat.qgis_compat import FILL_COLOUR_PROPERTY
 from . import fields as F
 from .styles import HOLE, INK, NO_UNIT_COLOUR, unit_colour
 
-AXIS = "#6c4f8c"  # axial surfaces: the one line colour that is not a unit's
-FORM_LINE = "#5e5e5e"
 MINOR_TICK = "#a3a3a3"
 DOMAIN_FILLS = ("#f1ece1", "#ddd3c0")
 HOLE_BAND_MM = 1.7
@@ -63,39 +62,6 @@ def hole_trace_renderer():
     """The hole's own line: thin, so that its logged intervals show round it."""
     return QgsSingleSymbolRenderer(
         QgsLineSymbol.createSimple({"line_color": HOLE, "line_width": "0.3"})
-    )
-
-
-def form_line_renderer():
-    """Contacts carried to depth solid, form lines dashed and grey."""
-    contact = QgsLineSymbol.createSimple({"line_color": INK, "line_width": "0.45"})
-    form = QgsLineSymbol.createSimple(
-        {
-            "line_color": FORM_LINE,
-            "line_width": "0.25",
-            "use_custom_dash": "1",
-            "customdash": "2.5;1.2",
-        }
-    )
-    return QgsCategorizedSymbolRenderer(
-        f"CASE WHEN \"{F.KIND}\" = 'contact' THEN 'contact' ELSE 'form line' END",
-        [
-            QgsRendererCategory("contact", contact, "contact (constructed)"),
-            QgsRendererCategory("form line", form, "form line"),
-        ],
-    )
-
-
-def axis_renderer():
-    return QgsSingleSymbolRenderer(
-        QgsLineSymbol.createSimple(
-            {
-                "line_color": AXIS,
-                "line_width": "0.35",
-                "use_custom_dash": "1",
-                "customdash": "4;1;0.6;1",
-            }
-        )
     )
 
 

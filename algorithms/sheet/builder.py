@@ -54,6 +54,8 @@ DOMAIN_CAPTION = (
     f"CASE WHEN \"{F.MEAN_DIP}\" > 0 THEN ' →' "
     f"WHEN \"{F.MEAN_DIP}\" < 0 THEN ' ←' ELSE '' END"
 )
+# Form lines through a contact are 'contact', all others 'form line'.
+FORM_LINE_KIND = f"CASE WHEN \"{F.KIND}\" = 'contact' THEN 'contact' ELSE 'form line' END"
 NO_PROFILE = "no profile for this section in PROFILE"
 DOES_NOT_FIT = "does not fit the page at the scale asked for"
 
@@ -233,14 +235,14 @@ class SheetBuilder:
                 label,
                 "Axial surfaces",
                 "LineString",
-                sheet_styles.axis_renderer(),
+                styles.axis_renderer(),
             ),
             "form_lines": copy_section(
                 inputs.get(FORM_LINES),
                 label,
                 "Form lines",
                 "LineString",
-                sheet_styles.form_line_renderer(),
+                styles.form_line_renderer(FORM_LINE_KIND),
             ),
         }
 
