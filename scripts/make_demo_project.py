@@ -2,9 +2,11 @@
 
     python scripts/make_demo_project.py [DEMO_DIR]     (default: demo/)
 
-Writes ``tarrowgill.qgz`` — the demo map styled with Sectionwright's unit
-colours, the section-view layers, and one print layout per section, ready
-to edit — and ``sections.pdf`` with one page per section.
+Writes ``sections.pdf`` — an overview page and one sheet per section — and
+``tarrowgill.qgz``: the demo map styled with Sectionwright's unit colours,
+the section-view layers, the sections standing as a 3-D fence over the DEM
+(layers with 3-D symbols, for View ▸ New 3D Map View), and the sheets'
+print layout with the layers it draws, ready to edit.
 """
 
 import gc
@@ -27,11 +29,7 @@ def section_view_crossings(gpkg):
     ve = {f.GetField("section"): f.GetField("ve") for f in data.GetLayerByName("profile_section")}
     if data.GetLayerByName("crossings_view") is not None:
         data.DeleteLayer("crossings_view")
-    # The section view's own CRS, as the algorithms write it: a layer
-    # without one reads back as an unnamed custom CRS that nothing transforms to.
-    target = data.CreateLayer(
-        "crossings_view", data.GetLayerByName("profile_section").GetSpatialRef(), ogr.wkbPoint
-    )
+    target = data.CreateLayer("crossings_view", None, ogr.wkbPoint)
     for name in ("section", "kind", "unit_prev", "unit_next"):
         target.CreateField(ogr.FieldDefn(name, ogr.OFTString))
     for name in ("chainage", "elev"):
@@ -51,14 +49,94 @@ def section_view_crossings(gpkg):
     data = None
 
 
+def fence_renderer(colours=None, field=None, default="#2b2b2b", width=3.0):
+    """A 3-D renderer for a fence layer: lines drawn at their own Z
+    (altitude clamping absolute), one colour, or one per value of ``field``."""
+    import qgis._3d as q3d
+    from qgis.core import Qgis
+    from qgis.PyQt.QtGui import QColor
+
+    absolute = getattr(getattr(Qgis, "AltitudeClamping", None), "Absolute", None)
+    if absolute is None:
+        absolute = q3d.Qgs3DTypes.AltClampAbsolute
+
+    def symbol(colour):
+        line = q3d.QgsLine3DSymbol()
+        line.setRenderAsSimpleLines(True)
+        line.setWidth(width)
+        line.setAltitudeClamping(absolute)
+        material = q3d.QgsPhongMaterialSettings()
+        material.setAmbient(QColor(colour))
+        material.setDiffuse(QColor(colour))
+        # setMaterial became setMaterialSettings in QGIS 3.24.
+        (getattr(line, "setMaterialSettings", None) or line.setMaterial)(material)
+        return line
+
+    if not colours:
+        return q3d.QgsVectorLayer3DRenderer(symbol(default))
+    root = q3d.QgsRuleBased3DRenderer.Rule(None)
+    for value, colour in colours.items():
+        root.appendChild(
+            q3d.QgsRuleBased3DRenderer.Rule(symbol(colour.name()), f"\"{field}\" = '{value}'")
+        )
+    return q3d.QgsRuleBased3DRenderer(root)
+
+
+def keep_memory_layers(project, gpkg):
+    """The sheet's helper layers (hole names, dip labels, end letters …)
+    live in memory; written to a GeoPackage and pointed at it, the saved
+    project keeps them."""
+    from qgis.core import QgsVectorFileWriter
+
+    if gpkg.exists():
+        gpkg.unlink()
+    for index, layer in enumerate(
+        [layer for layer in project.mapLayers().values() if layer.providerType() == "memory"]
+    ):
+        table = f"sheet_{index:03d}"
+        options = QgsVectorFileWriter.SaveVectorOptions()
+        options.driverName = "GPKG"
+        options.layerName = table
+        if gpkg.exists():
+            options.actionOnExistingFile = (
+                QgsVectorFileWriter.ActionOnExistingFile.CreateOrOverwriteLayer
+            )
+        error = QgsVectorFileWriter.writeAsVectorFormatV3(
+            layer, str(gpkg), project.transformContext(), options
+        )[0]
+        if error != QgsVectorFileWriter.WriterError.NoError:
+            raise RuntimeError(f"could not keep {layer.name()} in {gpkg}")
+        renderer, labeling = layer.renderer().clone(), layer.labeling()
+        labeling = labeling.clone() if labeling is not None else None
+        layer.setDataSource(f"{gpkg}|layername={table}", layer.name(), "ogr")
+        layer.setRenderer(renderer)
+        if labeling is not None:
+            layer.setLabeling(labeling)
+            layer.setLabelsEnabled(True)
+
+
+def name_sheet_layers_by_section(project):
+    """The sheet's per-section copies named after their section ("Boreholes,
+    section B"): the dialogs' layer lists show every layer of the project.
+    The sheet's legends keep the names they were drawn with."""
+    import re
+
+    for layer in project.mapLayers().values():
+        found = re.search(
+            r"\"section\" = '([^']*)'",
+            layer.subsetString() if hasattr(layer, "subsetString") else "",
+        )
+        if found and not layer.name().endswith(f"section {found.group(1)}"):
+            layer.setName(f"{layer.name()}, section {found.group(1)}")
+
+
 def main(demo):
     app, provider = start_qgis()  # keep both alive
     import processing
+    import qgis.core
     from qgis.core import (
         QgsCoordinateReferenceSystem,
-        QgsPrintLayout,
         QgsProcessingContext,
-        QgsProcessingFeatureSource,
         QgsProcessingFeedback,
         QgsProject,
         QgsRasterLayer,
@@ -66,12 +144,9 @@ def main(demo):
         QgsVectorLayer,
     )
 
-    from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
-    from sectionwright.algorithms.outputs import styles
+    from sectionwright.algorithms.outputs import sheet_styles, styles
     from sectionwright.algorithms.outputs.output_styles import SECTION_VIEW_GROUP, apply_style
     from sectionwright.algorithms.outputs.section_space import section_crs
-    from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
-    from sectionwright.algorithms.sheet.page import add_page
 
     world, results = demo / "tarrowgill.gpkg", demo / "sections.gpkg"
     section_view_crossings(results)
@@ -103,10 +178,19 @@ def main(demo):
         group.addLayer(layer)
         return layer
 
+    def values(layer, field):
+        return [str(v) for v in layer.uniqueValues(layer.fields().lookupField(field))]
+
+    def add_result(layer_name, name, group, algorithm_id, output_name):
+        layer = add(results, layer_name, name, group)
+        apply_style(layer, algorithm_id, output_name)
+        return layer
+
     root = project.layerTreeRoot()
     map_group = root.addGroup("Tarrowgill map")
     results_group = root.addGroup("Results on the map")
     data_group = root.addGroup("Field and drilling data")
+    fence_group = root.addGroup("Sections in 3-D (fence, for the 3-D map view)")
     # Section-view layers are drawn by the section viewer, not by the map
     # canvas (whose CRS is the map's): their group is left unticked.
     view_group = root.addGroup(SECTION_VIEW_GROUP)
@@ -122,12 +206,8 @@ def main(demo):
         renderer=styles.contact_renderer("type"),
     )
     units = add(world, "units", "Units", map_group)
-    units.setRenderer(
-        styles.unit_fill_renderer(
-            [str(v) for v in units.uniqueValues(units.fields().lookupField("unit"))], "unit"
-        )
-    )
-    add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
+    units.setRenderer(styles.unit_fill_renderer(values(units, "unit"), "unit"))
+    dem = add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
 
     # Every demo input, so that each step can be rerun from its dialog.
     attitudes = add(world, "attitudes", "Attitudes (field notebook)", data_group)
@@ -135,12 +215,6 @@ def main(demo):
     add(world, "collars", "Collars", data_group, renderer=styles.collar_renderer())
     add(world, "surveys", "Downhole surveys", data_group)
     add(world, "intervals", "Logged intervals", data_group)
-
-    def add_result(layer_name, name, group, algorithm_id, output_name):
-        layer = add(results, layer_name, name, group)
-        apply_style(layer, algorithm_id, output_name)
-        return layer
-
     for layer_name, name, algorithm_id, output_name in (
         ("profile_line", "Profile lines (3-D, M = chainage)", "profile", "OUTPUT_LINE"),
         ("attitudes_clean", "Attitudes (strike and dip)", "normalizeattitudes", "OUTPUT"),
@@ -150,42 +224,50 @@ def main(demo):
         ("borehole_traces", "Borehole traces", "projectboreholes", "OUTPUT_TRACES"),
     ):
         add_result(layer_name, name, results_group, algorithm_id, output_name)
-
+    colours = sheet_styles.palette(values(units, "unit"))
+    for layer_name, name, renderer in (
+        ("fence_ground", "Ground (3-D)", fence_renderer(width=2.0)),
+        ("fence_strip", "Geology strip (3-D)", fence_renderer(colours, "unit", width=6.0)),
+        ("fence_boreholes", "Boreholes (3-D)", fence_renderer(width=2.0)),
+        ("fence_intervals", "Logged intervals (3-D)", fence_renderer(colours, "code", width=5.0)),
+        ("fence_form_lines", "Form lines (3-D)", fence_renderer(default="#5e5e5e", width=1.5)),
+        ("fence_axes", "Axial surfaces (3-D)", fence_renderer(default="#8e2b1f", width=1.5)),
+    ):
+        fence = add(results, layer_name, name, fence_group)
+        fence.setRenderer3D(renderer)
+    # QGIS 3.26+ keeps the 3-D view's terrain in the project; 3.22 in the view.
+    terrain_provider = getattr(qgis.core, "QgsRasterDemTerrainProvider", None)
+    if terrain_provider is not None:
+        terrain = terrain_provider()
+        terrain.setLayer(dem)
+        project.elevationProperties().setTerrainProvider(terrain)
     trend_group = root.addGroup("Structural trend and dip domains")
     for layer_name, name, algorithm_id, output_name in (
         ("trend", "Suggested section line (structural trend)", "structuraltrend", "OUTPUT"),
-        (
-            "trend_lines",
-            "Section lines checked against the trend",
-            "structuraltrend",
-            "OUTPUT_LINES",
-        ),
+        ("trend_lines", "Lines checked against the trend", "structuraltrend", "OUTPUT_LINES"),
         ("attitude_domains", "Attitudes with dip domains", "dipdomains", "OUTPUT"),
-        ("domains", "Dip domains", "dipdomains", "OUTPUT_DOMAINS"),
     ):
         add_result(layer_name, name, trend_group, algorithm_id, output_name)
+    domains = add(results, "domains", "Dip domains", trend_group)
     engineering = section_crs()
     view = {}
     for layer_name, name, algorithm_id, output_name in (
         ("attitude_ticks", "Dip ticks", "projectattitudes", "OUTPUT_TICKS"),
         ("crossings_view", "Contacts and boundaries", "geologycrossings", "OUTPUT"),
         ("boreholes", "Boreholes", "projectboreholes", "OUTPUT"),
-        ("borehole_intervals", "Borehole intervals", "projectboreholes", "OUTPUT_INTERVALS"),
-        ("profile_section", "Ground surface", "profile", "OUTPUT_SECTION"),
-        ("geology_strip", "Geology strip", "geologycrossings", "OUTPUT_INTERVALS"),
+        ("borehole_intervals", "Logged intervals", "projectboreholes", "OUTPUT_INTERVALS"),
         ("form_lines", "Form lines (kink construction)", "formlines", "OUTPUT"),
         ("axial_surfaces", "Axial surfaces", "formlines", "OUTPUT_AXES"),
+        ("profile_section", "Ground surface", "profile", "OUTPUT_SECTION"),
+        ("geology_strip", "Geology strip", "geologycrossings", "OUTPUT_INTERVALS"),
     ):
         view[layer_name] = add_result(layer_name, name, view_group, algorithm_id, output_name)
         view[layer_name].setCrs(engineering)
     strip = view["geology_strip"]
-    inputs = {
-        "INTERVALS": strip,
-        "TICKS": view["attitude_ticks"],
-        "CROSSINGS": view["crossings_view"],
-        "BOREHOLES": view["boreholes"],
-    }
+    view["borehole_intervals"].setRenderer(sheet_styles.hole_interval_renderer(colours, "code"))
 
+    context = QgsProcessingContext()
+    context.setProject(project)
     pdf = demo / "sections.pdf"
     processing.run(
         "sectionwright:sectionsheet",
@@ -193,66 +275,47 @@ def main(demo):
             "INPUT": sections,
             "LINE_ID_FIELD": "name",
             "PROFILE": view["profile_section"],
+            "INTERVALS": strip,
+            "TICKS": view["attitude_ticks"],
+            "CROSSINGS": view["crossings_view"],
+            "BOREHOLES": view["boreholes"],
+            "BOREHOLE_INTERVALS": view["borehole_intervals"],
+            "FORM_LINES": view["form_lines"],
+            "AXES": view["axial_surfaces"],
+            "DOMAINS": domains,
             "MAP_LAYERS": [contacts, units],
             "TITLE": "Tarrowgill — demo sections",
+            "AUTHOR": "Sectionwright demo",
+            "OVERVIEW": True,
+            "ADD_LAYOUT": True,
             "OUTPUT": str(pdf),
-            **inputs,
         },
+        context=context,
+        feedback=QgsProcessingFeedback(),
     )
-
-    feedback = QgsProcessingFeedback()
-    context = QgsProcessingContext()
-    context.setProject(project)
-    source = QgsProcessingFeatureSource(sections, context)
-    parts = read_section_parts(
-        source, "name", working_crs(source, context, feedback), context, feedback
-    )
-    builder = SheetBuilder(
-        view["profile_section"],
-        inputs,
-        [contacts, units],
-        sections.crs(),
-        "Tarrowgill — demo sections",
-        True,
-        feedback,
-    )
-    sheet_group = root.addGroup("Sheet layers (one set per section)")
-    sheet_group.setItemVisibilityChecked(False)
-    page_size = PAGE_SIZES[1][1]
-    for part in parts:
-        section = builder.section(part)
-        # The location map's line as a filtered view of the section lines, so
-        # that the saved project keeps it.
-        line = sections.clone()
-        line.setSubsetString(f"\"name\" = '{part.label}'")
-        line.setName(f"Section line {part.label}")
-        section.location_layers[0] = line
-        group = sheet_group.addGroup(f"Section {part.label}")
-        for layer in section.section_layers + [line]:
-            project.addMapLayer(layer, False)
-            group.addLayer(layer)
-        layout = QgsPrintLayout(project)
-        layout.initializeDefaults()
-        layout.setName(f"Section {part.label}")
-        layout.pageCollection().page(0).setPageSize("A3", 1)  # landscape
-        add_page(layout, 0, page_size, section)
-        for layer in section.section_layers:
-            # Distinct names, as the dialogs' layer lists show every layer
-            # (the sheet's legend keeps the plain ones).
-            layer.setName(f"{layer.name()}, section {part.label}")
-        project.layoutManager().addLayout(layout)
+    keep_memory_layers(project, demo / "sheet_layers.gpkg")
+    name_sheet_layers_by_section(project)
     # Opened, the project shows the map around the section lines.
     around = sections.extent()
     around.grow(0.08 * max(around.width(), around.height()))
     project.viewSettings().setDefaultViewExtent(QgsReferencedRectangle(around, sections.crs()))
     project.write()
-    print(f"Project with {len(parts)} layouts: {project.fileName()}")
+    layouts = project.layoutManager().layouts()
+    print(
+        f"Project with {len(layouts)} layout of "
+        f"{layouts[0].pageCollection().pageCount()} pages: {project.fileName()}"
+    )
     print(f"Section sheets: {pdf}", flush=True)
+    print(
+        "3-D: View ▸ New 3D Map View shows the fence layers at their true elevations; "
+        "on QGIS 3.22 choose the DEM as terrain in the view's configuration.",
+        flush=True,
+    )
     # Close every data source (GeoPackages checkpoint their journals), then
     # leave without QGIS's own teardown, which crashes in some releases
     # (3.40) when layouts and layers are destroyed at interpreter exit.
     project.clear()
-    del view, inputs, builder, sections, contacts, units, strip, source, context
+    del view, sections, contacts, units, strip, context
     gc.collect()
     os._exit(0)
 

@@ -57,6 +57,9 @@ SOURCE_POLYGONS = _scoped(
     "ProcessingSourceType", "VectorPolygon", "QgsProcessing.TypeVectorPolygon"
 )
 SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", "QgsProcessing.TypeVector")
+SOURCE_ANY_GEOMETRY = _scoped(
+    "ProcessingSourceType", "VectorAnyGeometry", "QgsProcessing.TypeVectorAnyGeometry"
+)
 
 NUMBER_DOUBLE = _scoped(
     "ProcessingNumberParameterType", "Double", "QgsProcessingParameterNumber.Double"
@@ -85,6 +88,16 @@ EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
 LEGEND_TITLE = _scoped("LegendComponent", "Title", "QgsLegendStyle.Style.Title")
 LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", "QgsLegendStyle.Style.Subgroup")
 LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", "QgsLegendStyle.Style.SymbolLabel")
+FILL_COLOUR_PROPERTY = _scoped(
+    "Property",
+    "FillColor",
+    "QgsSymbolLayer.PropertyFillColor",
+    qgis_namespace=qgis.core.QgsSymbolLayer,
+)
+LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", "QgsPalLayerSettings.AroundPoint")
+OBSTACLE_WHOLE_POLYGON = _scoped(
+    "LabelObstacleType", "PolygonWhole", "QgsLabelObstacleSettings.ObstacleType.PolygonWhole"
+)
 CRITICAL = _scoped("MessageLevel", "Critical", "Qgis.Critical")
 INFO = _scoped("MessageLevel", "Info", "Qgis.Info")
 

@@ -1,15 +1,11 @@
 """The project's section-view layers, as the section viewer and the sheet's
 dialog read them: which sections they hold, each section's exaggeration,
-one section's layers filtered out of them, the layers a sheet needs, and
-the check that they share one exaggeration."""
-
-import math
+one section's layers filtered out of them, and the layers a sheet needs."""
 
 from qgis.core import (
     QgsExpression,
     QgsFeatureRequest,
     QgsMemoryProviderUtils,
-    QgsProcessingException,
     QgsProject,
     QgsRectangle,
     QgsVectorLayer,
@@ -28,6 +24,8 @@ SHEET_INPUTS = (
     ("TICKS", "line", (F.APPARENT_DIP, F.PLOT_DIP)),
     ("BOREHOLE_INTERVALS", "line", (F.HOLE, F.FROM, F.CODE)),
     ("BOREHOLES", "line", (F.HOLE, F.DEPTH)),
+    ("FORM_LINES", "line", (F.KIND, F.UNIT_ABOVE)),
+    ("AXES", "line", (F.AXIS_DIP, F.DIP_LEFT)),
     ("CROSSINGS", "point", (F.KIND,)),
 )
 
@@ -162,51 +160,3 @@ def line_feature(lines, label):
         if feature is not None:
             return layer, field, feature
     return None
-
-
-def exaggerations(layer):
-    """The distinct exaggerations a layer is drawn at: its ``ve`` values, or
-    for dip ticks (which carry the attitudes' own fields) the ratio
-    tan(plot_dip) / tan(app_dip) of ticks that are neither flat nor
-    vertical; empty when neither is there."""
-    index = layer.fields().lookupField(F.EXAGGERATION)
-    if index >= 0:
-        return {float(v) for v in layer.uniqueValues(index) if _number(v) is not None}
-    names = layer.fields().names()
-    if F.PLOT_DIP not in names or F.APPARENT_DIP not in names:
-        return set()
-    found = set()
-    for feature in layer.getFeatures():
-        drawn, true = _number(feature[F.PLOT_DIP]), _number(feature[F.APPARENT_DIP])
-        if drawn is not None and true is not None and 0.5 < true < 89.5 and drawn < 89.9:
-            found.add(round(math.tan(math.radians(drawn)) / math.tan(math.radians(true)), 2))
-    return found
-
-
-def _number(value):
-    try:
-        number = float(value)
-    except (TypeError, ValueError):
-        return None
-    return None if number != number else number
-
-
-def check_same_exaggeration(labelled_layers):
-    """Refuses section-view inputs drawn at different exaggerations:
-    ``labelled_layers`` is [(parameter label, layer)], layers may be None."""
-    found = [
-        (label, layer, exaggerations(layer))
-        for label, layer in labelled_layers
-        if layer is not None and exaggerations(layer)
-    ]
-    values = set().union(*(ve for _, _, ve in found)) if found else set()
-    if len(values) > 1:
-        listed = "; ".join(
-            f"{label} '{layer.name()}' at {', '.join(f'{v:g}' for v in sorted(ve))}"
-            for label, layer, ve in found
-        )
-        raise QgsProcessingException(
-            f"The section-view inputs are drawn at different vertical exaggerations ({listed}). "
-            "Run them again with one exaggeration."
-        )
-    return values.pop() if values else None

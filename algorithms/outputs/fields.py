@@ -271,3 +271,7 @@ SKIPPED_FORM_LINE_ROWS = Schema(
     _SOURCE_FID,
     _REASON,
 )
+
+# The section sheet's own map layers: the end letters A, A′ of a line.
+END_LETTER = "end"
+SHEET_ENDS = Schema(Field(END_LETTER, TEXT, "end letter of a section line: A, or A′ at its end"))

@@ -31,6 +31,7 @@ def algorithms(provider):
         "structuraltrend",
         "dipdomains",
         "formlines",
+        "sectionsin3d",
     ],
 )
 def test_help_is_whole_blocks_with_choices_by_label(algorithms, name):
