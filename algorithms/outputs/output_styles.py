@@ -12,7 +12,11 @@ map canvas does not draw them (its CRS is the map's), the section viewer
 panel does. A new output joins with one line in ``OUTPUT_STYLES``.
 """
 
-from qgis.core import QgsProcessingLayerPostProcessorInterface, QgsProviderRegistry
+from qgis.core import (
+    QgsProcessingLayerPostProcessorInterface,
+    QgsProviderRegistry,
+    QgsSingleSymbolRenderer,
+)
 
 from ..compat.qgis_compat import geometry_kind
 from ..compat.qgis_compat import save_default_style as save_style_inside
@@ -60,6 +64,18 @@ def _skipped(layer):
         layer.setRenderer(styles.skipped_renderer(kind))
 
 
+def _fence(layer):
+    """A section-view layer stood up on the map: ink lines, small dots or
+    outlined faces, as its geometry is."""
+    kind = geometry_kind(layer)
+    if kind == "line":
+        layer.setRenderer(styles.profile_line_renderer())
+    elif kind == "point":
+        layer.setRenderer(styles.profile_point_renderer())
+    elif kind == "polygon":
+        layer.setRenderer(QgsSingleSymbolRenderer(styles.fence_face_symbol()))
+
+
 def _crossings(layer):
     layer.setRenderer(styles.crossing_renderer())
 
@@ -82,6 +98,7 @@ OUTPUT_STYLES = {
     ("dipdomains", "OUTPUT"): _attitudes,
     ("formlines", "OUTPUT"): _renderer(lambda: styles.form_line_renderer(F.KIND)),
     ("formlines", "OUTPUT_AXES"): _renderer(styles.axis_renderer),
+    ("sectionsin3d", "OUTPUT"): _fence,
     (ANY_ALGORITHM, "SKIPPED"): _skipped,
 }
 

@@ -424,3 +424,12 @@ def axis_renderer():
             {"line_color": FAULT, "line_width": "0.25", "line_style": "dash dot"}
         )
     )
+
+
+def fence_face_symbol():
+    """Faces of a section stood up in 3-D: light grey, outlined in ink."""
+    from qgis.core import QgsFillSymbol
+
+    return QgsFillSymbol.createSimple(
+        {"color": "#d9d9d9", "outline_color": INK, "outline_width": "0.2"}
+    )
