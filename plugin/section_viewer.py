@@ -25,7 +25,7 @@ from qgis.PyQt.QtWidgets import (
 from ..algorithms.compat.qgis_compat import INFO
 from ..algorithms.core.sheet_scale import end_names
 from ..algorithms.inputs import section_views as views
-from ..algorithms.outputs.section_space import SECTION_CRS_WKT
+from ..algorithms.outputs.section_space import SECTION_CRS_WKT, add_measuring_operations
 
 TITLE = "Sectionwright section viewer"
 
@@ -119,6 +119,9 @@ class SectionViewerPanel(QgsDockWidget):
             self.chooser.blockSignals(True)
             self.chooser.setCurrentText(label)
             self.chooser.blockSignals(False)
+        # The project may be new since the last section: the canvas measures
+        # in the section view with the project's transform context.
+        add_measuring_operations(QgsProject.instance())
         self.shown = views.one_section(self.layers, label)
         self.canvas.setLayers(self.shown)
         extent = views.extent_of(self.shown)

@@ -162,8 +162,8 @@ def main(demo):
     project = QgsProject()
     project.setFileName(str(demo / "tarrowgill.qgz"))
     project.setCrs(QgsCoordinateReferenceSystem("EPSG:32633"))
-    # Planar measures: an ellipsoid would make QGIS look for a transform from
-    # the section view to geographic coordinates, and there is none.
+    # Planar measures on the map, as chainage is grid distance. The section
+    # view measures through the operations the sheet adds to the project.
     project.setEllipsoid("NONE")
 
     def add(path, layer_name, name, group, provider_name="ogr", renderer=None):
