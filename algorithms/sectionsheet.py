@@ -323,7 +323,9 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             raise QgsProcessingException("No section could be drawn: see the log.")
         project = context.project() if settings.add_layout and context.project() else QgsProject()
         # Before the first map item: its render context measures in the section view.
-        add_measuring_operations(project)
+        add_measuring_operations(
+            project, [*project.mapLayers().values(), *settings.inputs.values()]
+        )
         layout = QgsPrintLayout(project)
         layout.initializeDefaults()
         layout.setName(settings.title)

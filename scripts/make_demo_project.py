@@ -108,7 +108,11 @@ def keep_memory_layers(project, gpkg):
             raise RuntimeError(f"could not keep {layer.name()} in {gpkg}")
         renderer, labeling = layer.renderer().clone(), layer.labeling()
         labeling = labeling.clone() if labeling is not None else None
+        crs = layer.crs()
         layer.setDataSource(f"{gpkg}|layername={table}", layer.name(), "ogr")
+        # The GeoPackage hands back its own spelling of the CRS; the section
+        # view's is kept, so that its canvas draws the layer untransformed.
+        layer.setCrs(crs)
         layer.setRenderer(renderer)
         if labeling is not None:
             layer.setLabeling(labeling)

@@ -56,22 +56,26 @@ def test_outputs_run_from_the_desktop_load_styled_and_section_views_hidden(repor
     assert added and all(row["visible"] for row in added.values()), added
 
 
-def test_no_error_from_the_plugin_or_python(report):
+# What is left on QGIS 3.22 (3.40 and 3.44 do not do it): its map canvas
+# renders the project's main annotation layer, in the map's CRS, into every
+# canvas, the section viewer's too, and no map CRS has a transform to the
+# section view (nor should it).
+ANNOTATION_LAYER_IN_THE_VIEWER = "No transform available between EPSG:32633 and Section view"
+
+
+def test_no_error_from_the_plugin_python_or_qgis(report):
     errors = [
-        m
+        m["message"]
         for m in report["messages"]
-        if m["level"] >= CRITICAL and "transform" not in m["message"].lower()
+        if m["level"] >= CRITICAL and m["message"] != ANNOTATION_LAYER_IN_THE_VIEWER
     ]
     assert errors == []
 
 
 @pytest.mark.xfail(
-    reason="open: QGIS logs 'No transform available between Section view and …' whenever "
-    "a map in the section view is given a render context (QgsRenderContext::fromMapSettings "
-    "sets its QgsDistanceArea's source CRS, which needs a transform to geographic "
-    "coordinates; an engineering CRS has none): the sheets' scale bars while the project "
-    "loads, and the viewer's canvas",
-    strict=False,
+    reason="open on QGIS 3.22: its canvas draws the main annotation layer (project CRS) "
+    "into the section viewer's canvas",
+    strict=True,
 )
 def test_no_error_message_at_all(report):
     assert [m["message"] for m in report["messages"] if m["level"] >= CRITICAL] == []

@@ -2,6 +2,8 @@
 every render context of a section-view map finds a transform, and lengths
 measured through it are the section's own metres."""
 
+import math
+
 import pytest
 from qgis.core import (
     QgsCoordinateReferenceSystem,
@@ -68,3 +70,26 @@ def test_lengths_measured_in_the_section_view_are_section_metres(qgis_app, ellip
     ):
         measured = calculator.measureLine(QgsPointXY(*start), QgsPointXY(*end))
         assert measured == pytest.approx(length, rel=2e-6), (start, end)
+
+
+def test_a_section_view_layer_has_an_extent_in_wgs84_near_the_origin(qgis_app):
+    """QGIS works out every layer's extent in WGS 84 as it changes: in the
+    section view that extent lies at 0° N 0° E, its size in degrees the
+    section's metres over the equator's metres per degree."""
+    project = _project("NONE")
+    to_wgs84 = QgsCoordinateTransform(
+        section_crs(), QgsCoordinateReferenceSystem("EPSG:4326"), project.transformContext()
+    )
+    assert not to_wgs84.isValid()
+    add_measuring_operations(project)
+    to_wgs84 = QgsCoordinateTransform(
+        section_crs(), QgsCoordinateReferenceSystem("EPSG:4326"), project.transformContext()
+    )
+    corner = to_wgs84.transform(QgsPointXY(10_000, 1_000))
+    # WGS 84 (NIMA TR8350.2, 2000): a = 6,378,137 m, e² = 0.00669437999014.
+    # Along the equator a degree of longitude is 2πa/360 metres; along the
+    # meridian there a degree of latitude is 2πM/360, M = a(1 − e²) the
+    # meridian's radius of curvature at the equator.
+    a, e2 = 6_378_137.0, 0.00669437999014
+    assert corner.x() == pytest.approx(10_000 / (2 * math.pi * a / 360), rel=1e-9)
+    assert corner.y() == pytest.approx(1_000 / (2 * math.pi * a * (1 - e2) / 360), rel=1e-6)
