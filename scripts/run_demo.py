@@ -33,7 +33,6 @@ def run_profile(world, out):
             "OUTPUT_SECTION": headless.gpkg_layer(out, "profile_section"),
             "SKIPPED": headless.gpkg_layer(out, "profile_skipped"),
         },
-        world / ".headless-qgis",
     )
 
 
@@ -56,7 +55,6 @@ def run_attitudes(world, out):
             "OUTPUT_CONNECTORS": headless.gpkg_layer(out, "attitude_connectors"),
             "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped"),
         },
-        world / ".headless-qgis",
     )
 
 
@@ -77,7 +75,6 @@ def run_geology(world, out):
             "OUTPUT_INTERVALS": headless.gpkg_layer(out, "geology_strip"),
             "SKIPPED": headless.gpkg_layer(out, "geology_skipped"),
         },
-        world / ".headless-qgis",
     )
 
 
@@ -110,7 +107,6 @@ def run_boreholes(world, out):
             "OUTPUT_TRACES": headless.gpkg_layer(out, "borehole_traces"),
             "SKIPPED": headless.gpkg_layer(out, "boreholes_skipped"),
         },
-        world / ".headless-qgis",
     )
 
 

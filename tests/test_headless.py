@@ -4,10 +4,13 @@ as the demo command runs them."""
 import sys
 from pathlib import Path
 
+import pytest
 from osgeo import ogr
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "scripts"))
 import run_demo  # noqa: E402
+
+pytestmark = pytest.mark.headless
 
 
 def summary(report):

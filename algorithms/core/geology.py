@@ -120,6 +120,11 @@ def contact_crossings(coords, contacts, tree=None):
     >>> ch, which, along = contact_crossings(np.array([[0.0, 0], [10, 0]]), contacts)
     >>> ch.tolist(), which.tolist(), along.tolist()
     ([1.0, 3.5, 4.5], [0, 1, 1], [False, False, False])
+
+    A line that meets no contact has no crossings:
+
+    >>> [a.tolist() for a in contact_crossings(np.array([[0.0, 5], [10, 5]]), contacts)]
+    [[], [], []]
     """
     line = shapely.LineString(np.asarray(coords, dtype=float))
     contacts = np.asarray(contacts, dtype=object)
@@ -130,6 +135,8 @@ def contact_crossings(coords, contacts, tree=None):
     along = shapely.get_type_id(parts) != 0
     first_points = shapely.get_point(parts, 0)
     points = np.where(along, first_points, parts)
+    if len(points) == 0:
+        return np.empty(0), np.empty(0, dtype=int), np.empty(0, dtype=bool)
     chainage = shapely.line_locate_point(line, points)
     contact = near[owner]
     order = np.lexsort((chainage, contact))

@@ -12,6 +12,7 @@ from qgis.core import (
 
 from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
 from ..core.units import polygon_index_at
+from ..core.wkb import from_wkb
 
 
 def read_features(source, value_field, work_crs, context):
@@ -38,7 +39,7 @@ def read_features(source, value_field, work_crs, context):
         values.append(
             None if value is None or value == NULL or not str(value).strip() else str(value)
         )
-    geometries = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
+    geometries = shapely.force_2d(from_wkb(np.array(wkbs, dtype=object)))
     return geometries, values, unusable
 
 

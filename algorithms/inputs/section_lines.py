@@ -18,6 +18,7 @@ from qgis.core import (
 from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
+from ..core.wkb import from_wkb
 
 WKT2 = getattr(
     QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED
@@ -89,7 +90,7 @@ def _single_parts(geometry, to_working):
         working.transform(to_working)
     except QgsCsException:
         return None, "cannot be transformed to the working CRS"
-    parts = shapely.get_parts(shapely.force_2d(shapely.from_wkb(bytes(working.asWkb()))))
+    parts = shapely.get_parts(shapely.force_2d(from_wkb(bytes(working.asWkb()))))
     return [drop_repeated_vertices(shapely.get_coordinates(p)) for p in parts], ""
 
 

@@ -197,6 +197,7 @@ def test_an_unwritable_output_is_a_clear_error(demo_layers):
         sheet(demo_layers, "/nonexistent-folder/sheets.pdf")
 
 
+@pytest.mark.headless
 def test_sheets_are_made_headless(provider, demo_dir, tmp_path):
     profile = tmp_path / "profile.gpkg"
     processing.run(
@@ -219,7 +220,6 @@ def test_sheets_are_made_headless(provider, demo_dir, tmp_path):
             "PROFILE": str(profile),
             "OUTPUT": str(out),
         },
-        tmp_path / "qgis",
     )
     assert pdf_pages(out) == 4
 
