@@ -9,7 +9,6 @@ from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsFeature,
     QgsPoint,
-    QgsProcessingException,
     QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
@@ -50,7 +49,9 @@ from .framework.base import (
     skipped_fields,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
+from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_features, read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
@@ -140,7 +141,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         lines = self.source(parameters, INPUT, context)
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         if dem is None:
-            raise QgsProcessingException("DEM: the layer given is not a raster that can be read.")
+            raise ParameterProblem(DEM, "the layer given is not a raster that can be read.")
         exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
         window = self.parameterAsDouble(parameters, TRACE_WINDOW, context)
         work_crs = working_crs(lines, context, feedback)
@@ -178,10 +179,10 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
             jobs = self._sample_jobs(usable, intervals, crossings, step)
             sampled = {}
             for index, ((chainage, xy), elevation) in enumerate(sample_ahead(jobs, sampler)):
-                if feedback.isCanceled():
-                    break
+                stop_if_cancelled(feedback)
                 sampled[index] = (chainage, xy, elevation)
-                feedback.setProgress(70.0 * (index + 1) / max(len(usable), 1))
+                feedback.setProgress(60.0 * (index + 1) / max(len(usable), 1))
+            stop_if_cancelled(feedback)
             estimates = (
                 self._trace_attitudes(usable, crossings, contacts, window, step, sampler)
                 if window > 0
@@ -192,8 +193,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         for number, crossing in enumerate(crossings):
             by_section.setdefault(crossing.section, []).append((number, crossing))
         for index, part in enumerate(usable):
-            if index not in sampled:
-                break
+            stop_if_cancelled(feedback)
             chainage, xy, elevation = sampled[index]
             self._write_crossings(
                 sinks[OUTPUT][0],
@@ -219,6 +219,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 f"Section {part.label}: {len(intervals[index].unit)} interval(s), "
                 f"{len(by_section.get(index, []))} crossing(s)."
             )
+            feedback.setProgress(70.0 + 30.0 * (index + 1) / len(usable))
         ledger.close()
         self._style(context, sinks[OUTPUT_INTERVALS][1], units)
         return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
@@ -226,7 +227,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
     def _sinks(self, parameters, context, lines):
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
         sinks = {
-            OUTPUT: self.parameterAsSink(
+            OUTPUT: self.required_sink(
                 parameters,
                 OUTPUT,
                 context,
@@ -234,7 +235,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 POINT_Z,
                 lines.sourceCrs(),
             ),
-            OUTPUT_INTERVALS: self.parameterAsSink(
+            OUTPUT_INTERVALS: self.required_sink(
                 parameters,
                 OUTPUT_INTERVALS,
                 context,
@@ -246,9 +247,6 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 parameters, SKIPPED, context, skipped_fields(), lines.wkbType(), lines.sourceCrs()
             ),
         }
-        for name in (OUTPUT, OUTPUT_INTERVALS):
-            if sinks[name][0] is None:
-                raise QgsProcessingException(self.invalidSinkError(parameters, name))
         return sinks
 
     def _units(self, parameters, context, work_crs, feedback):
@@ -279,12 +277,13 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         source = self.parameterAsSource(parameters, CONTACTS, context)
         if source is None:
             return np.empty(0, dtype=object), []
-        contacts, kinds, unusable = read_features(
-            source,
-            self.parameterAsString(parameters, CONTACT_TYPE_FIELD, context),
-            work_crs,
-            context,
-        )
+        require_map_crs(source.sourceCrs(), CONTACTS, "the contacts", "the map's contact lines")
+        kind_field = self.parameterAsString(parameters, CONTACT_TYPE_FIELD, context)
+        if kind_field and source.fields().lookupField(kind_field) < 0:
+            raise ParameterProblem(
+                CONTACT_TYPE_FIELD, f"the contacts layer has no field {kind_field!r}."
+            )
+        contacts, kinds, unusable = read_features(source, kind_field, work_crs, context)
         if unusable:
             feedback.pushInfo(f"{unusable} contact feature(s) without usable geometry left out.")
         return contacts, [kind or DEFAULT_CONTACT_KIND for kind in kinds]

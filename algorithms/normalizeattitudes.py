@@ -3,7 +3,6 @@
 import numpy as np
 from qgis.core import (
     QgsFeature,
-    QgsProcessingException,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
 )
@@ -12,6 +11,7 @@ from .compat.qgis_compat import FAST_INSERT, SOURCE_ANY_VECTOR
 from .core.orientation import strike_from_dip_direction
 from .framework.base import SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.section_lines import crs_wkt
 from .outputs import fields as F
@@ -43,14 +43,14 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
         settings = AttitudeSettings(self, parameters, context)
         rows = settings.read(source, feedback, progress_share=50.0)
         dip_direction, reasons = self._grid(settings, source, rows, feedback)
+        feedback.setProgress(50)
+        stop_if_cancelled(feedback)
 
         output_fields = CarriedFields(source.fields(), F.ORIENTATION_FIELDS)
         skipped_fields = CarriedFields(source.fields(), (F.SOURCE_FID, F.REASON))
-        output, output_id = self.parameterAsSink(
+        output, output_id = self.required_sink(
             parameters, OUTPUT, context, output_fields.fields, source.wkbType(), source.sourceCrs()
         )
-        if output is None:
-            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
         skipped, skipped_id = self.parameterAsSink(
             parameters,
             SKIPPED,
@@ -62,8 +62,7 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
         strike = strike_from_dip_direction(dip_direction)
         ledger = RunLedger(feedback)
         for i in range(len(rows)):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             ledger.read += 1
             feature = QgsFeature()
             feature.setGeometry(rows.geometries[i])

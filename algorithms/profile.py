@@ -7,7 +7,6 @@ from qgis.core import (
     QgsCoordinateTransform,
     QgsFeature,
     QgsPoint,
-    QgsProcessingException,
     QgsProcessingParameterBand,
     QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
@@ -35,6 +34,7 @@ from .framework.base import (
     skipped_fields,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
@@ -112,8 +112,8 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         id_field = self.parameterAsString(parameters, LINE_ID_FIELD, context)
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         if dem is None:
-            raise QgsProcessingException(
-                self.tr("DEM: the layer given is not a raster that can be read.")
+            raise ParameterProblem(
+                DEM, self.tr("the layer given is not a raster that can be read.")
             )
         band = self.parameterAsInt(parameters, DEM_BAND, context)
         z_factor = self.parameterAsDouble(parameters, Z_FACTOR, context)
@@ -126,11 +126,11 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             step = self._cell_step(sampler, source, work_crs, context)
             feedback.pushInfo(f"Sampling step: {step:.3f} (the DEM's cell size).")
 
-        (points, points_id) = self.parameterAsSink(
+        (points, points_id) = self.required_sink(
             parameters, OUTPUT, context, computed_fields(SAMPLE_FIELDS), POINT_Z, source.sourceCrs()
         )
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-        (sections, sections_id) = self.parameterAsSink(
+        (sections, sections_id) = self.required_sink(
             parameters,
             OUTPUT_SECTION,
             context,
@@ -141,10 +141,6 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         (skipped, skipped_id) = self.parameterAsSink(
             parameters, SKIPPED, context, skipped_fields(), source.wkbType(), source.sourceCrs()
         )
-        if points is None:
-            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
-        if sections is None:
-            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT_SECTION))
 
         parts = read_section_parts(source, id_field, work_crs, context, feedback)
         to_map = transformer(crs_wkt(work_crs), crs_wkt(source.sourceCrs()))
@@ -152,8 +148,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         with bounded_gdal_cache():
             sampled = sample_ahead(self._sample_jobs(parts, step), sampler)
             for index, ((part, chainage, xy), elevation) in enumerate(sampled):
-                if feedback.isCanceled():
-                    break
+                stop_if_cancelled(feedback)
                 ledger.read += 1
                 if elevation is not None and np.isnan(elevation).all():
                     part.reason = "no DEM coverage"

@@ -8,7 +8,6 @@ from qgis.core import (
     QgsFeature,
     QgsLineString,
     QgsPoint,
-    QgsProcessingException,
     QgsProcessingParameterDistance,
     QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
@@ -40,8 +39,10 @@ from .framework.base import (
     SectionwrightAlgorithm,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.attitudes import AttitudeSettings, add_attitude_parameters, geometry_reason
 from .inputs.dem import DemSampler, bounded_gdal_cache
+from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
@@ -171,10 +172,9 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     def processAlgorithm(self, parameters, context, feedback):
         lines = self.source(parameters, INPUT, context)
         points = self.source(parameters, ATTITUDES, context)
-        if not points.sourceCrs().isValid():
-            raise QgsProcessingException(
-                "ATTITUDES: the attitude layer has no coordinate reference system; set one."
-            )
+        require_map_crs(
+            points.sourceCrs(), ATTITUDES, "the attitudes", "the attitude points on the map"
+        )
         settings = AttitudeSettings(self, parameters, context)
         options = self._options(parameters, context)
         work_crs = working_crs(lines, context, feedback)
@@ -200,6 +200,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             rows.declination,
         )
         feedback.setProgress(40)
+        stop_if_cancelled(feedback)
 
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
         units = self.parameterAsSource(parameters, UNITS, context)
@@ -229,6 +230,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             )
         record["reason"] = np.where(reasons != "", reasons, record["reason"])
         feedback.setProgress(60)
+        stop_if_cancelled(feedback)
         return self._write(
             parameters, context, feedback, points, lines, parts, rows, record, xy, work_wkt
         )
@@ -254,7 +256,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 feedback.pushInfo(f"Section line {part.label} ignored: {part.reason}.")
         usable = [p for p in parts if p.coords is not None]
         if not usable:
-            raise QgsProcessingException("INPUT: none of the section lines can be used.")
+            raise ParameterProblem(INPUT, "none of the section lines can be used (see the log).")
         return usable
 
     def _write(
@@ -262,19 +264,22 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     ):
         carried_fields = CarriedFields(points.fields(), F.ATTITUDE_FIELDS)
         carried_fields.log_replaced(feedback, "the attitude layer")
+        # Section-space layers carry their exaggeration (DESIGN.md).
+        tick_fields = CarriedFields(points.fields(), F.ATTITUDE_FIELDS + (F.EXAGGERATION,))
         skipped_fields = CarriedFields(points.fields(), (F.SOURCE_FID, F.REASON))
         section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
         sinks = {}
         for name, kind, crs, fields in (
             (OUTPUT, POINT_Z, lines.sourceCrs(), carried_fields.fields),
-            (OUTPUT_TICKS, LINE_STRING, section_crs, carried_fields.fields),
+            (OUTPUT_TICKS, LINE_STRING, section_crs, tick_fields.fields),
             (OUTPUT_CONNECTORS, LINE_STRING, lines.sourceCrs(), carried_fields.fields),
             (SKIPPED, points.wkbType(), points.sourceCrs(), skipped_fields.fields),
         ):
             sinks[name] = self.parameterAsSink(parameters, name, context, fields, kind, crs)
         for name in (OUTPUT, OUTPUT_TICKS):
             if sinks[name][0] is None:
-                raise QgsProcessingException(self.invalidSinkError(parameters, name))
+                raise ParameterProblem(name, "choose where to write this output.")
+        exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
 
         to_map = transformer(work_wkt, crs_wkt(lines.sourceCrs()))
         landing_map = np.column_stack(to_map(*record["landing_xy"].T))
@@ -283,7 +288,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         ticks = tick_segments(
             record["chainage"],
             record["elev"],
-            self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context),
+            exaggeration,
             record["plot_dip"],
             record["sense"],
             self._tick_lengths(parameters, context, parts)[record["line"]],
@@ -293,8 +298,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         per_section = Counter()
         flagged = Counter()
         for i, values in enumerate(columns):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             ledger.read += 1
             reason = record["reason"][i]
             if reason:
@@ -303,7 +307,11 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 continue
             attributes = carried_fields.row(rows.attributes[i], values)
             self._add_outputs(
-                sinks, attributes, record["elev"][i], landing_map[i], source_map[i], ticks[i]
+                sinks,
+                attributes,
+                exaggeration,
+                record["elev"][i],
+                (landing_map[i], source_map[i], ticks[i]),
             )
             ledger.written += 1
             per_section[labels[i]] += 1
@@ -340,17 +348,19 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         return np.full(len(lengths), fixed) if fixed > 0 else lengths * AUTOMATIC_TICK_FRACTION
 
     @staticmethod
-    def _add_outputs(sinks, attributes, z, landing, source, tick):
+    def _add_outputs(sinks, attributes, exaggeration, z, places):
+        landing, source, tick = places
         feature = QgsFeature()
         feature.setAttributes(attributes)
         feature.setGeometry(QgsPoint(landing[0], landing[1], z))
         sinks[OUTPUT][0].addFeature(feature, FAST_INSERT)
-        if not np.isnan(z):
-            feature.setGeometry(QgsLineString([QgsPoint(*tick[0]), QgsPoint(*tick[1])]))
-            sinks[OUTPUT_TICKS][0].addFeature(feature, FAST_INSERT)
         if sinks[OUTPUT_CONNECTORS][0] is not None:
             feature.setGeometry(QgsLineString([QgsPoint(*source), QgsPoint(*landing)]))
             sinks[OUTPUT_CONNECTORS][0].addFeature(feature, FAST_INSERT)
+        if not np.isnan(z):
+            feature.setAttributes(attributes + [exaggeration])
+            feature.setGeometry(QgsLineString([QgsPoint(*tick[0]), QgsPoint(*tick[1])]))
+            sinks[OUTPUT_TICKS][0].addFeature(feature, FAST_INSERT)
 
     @staticmethod
     def _add_skipped(sink, skipped_fields, rows, i, reason):

@@ -5,7 +5,6 @@ import shapely
 from qgis.core import (
     QgsCoordinateReferenceSystem,
     QgsFeature,
-    QgsProcessingException,
     QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
@@ -36,8 +35,10 @@ from .framework.base import (
     SectionwrightAlgorithm,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.attitudes import DECLINATION, NORTH_REFERENCE, add_north_parameters
 from .inputs.dem import DemSampler, bounded_gdal_cache
+from .inputs.map_crs import require_map_crs
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .inputs.tables import labels, lookup, read_columns
 from .outputs import fields as F
@@ -177,9 +178,10 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
     def processAlgorithm(self, parameters, context, feedback):
         lines = self.source(parameters, INPUT, context)
         collars = self.source(parameters, COLLARS, context)
+        require_map_crs(collars.sourceCrs(), COLLARS, "the collars", "the collar points on the map")
         for name in (HOLE_ID_FIELD, DEPTH_FIELD):
             if not self.parameterAsString(parameters, name, context):
-                raise QgsProcessingException(f"{name}: choose the collar layer's field.")
+                raise ParameterProblem(name, "choose the field of the collar layer.")
         work_crs = working_crs(lines, context, feedback)
         work_wkt = crs_wkt(work_crs)
         parts = [
@@ -194,23 +196,33 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             if p.coords is not None
         ]
         if not parts:
-            raise QgsProcessingException("INPUT: none of the section lines can be used.")
+            raise ParameterProblem(INPUT, "none of the section lines can be used (see the log).")
         max_distance = self.parameterAsDouble(parameters, MAX_DISTANCE, context)
         network = SectionNetwork([p.coords for p in parts], 2 * max(max_distance, 1e-9))
         ledger = RunLedger(feedback)
         skipped = []  # (table, hole, fid, depth, reason)
 
+        feedback.setProgress(5)
         holes = self._read_collars(
             parameters, context, collars, work_crs, work_wkt, network, max_distance, skipped
         )
+        feedback.setProgress(15)
+        stop_if_cancelled(feedback)
         surveys = self._read_table(parameters, context, SURVEYS, SURVEY_FIELDS, holes)
+        feedback.setProgress(25)
+        stop_if_cancelled(feedback)
         intervals = self._read_table(parameters, context, INTERVALS, INTERVAL_FIELDS, holes)
+        feedback.setProgress(35)
+        stop_if_cancelled(feedback)
         stations = self._stations(holes, surveys, skipped)
         valid_intervals = self._intervals(holes, intervals, skipped)
-        feedback.setProgress(40)
+        feedback.setProgress(45)
+        stop_if_cancelled(feedback)
 
         drawn = np.flatnonzero(holes["reason"] == "")
         samples = self._samples(holes, stations, valid_intervals, drawn)
+        feedback.setProgress(60)
+        stop_if_cancelled(feedback)
         sinks = self._sinks(parameters, context, lines)
         labels_of = np.array([p.label for p in parts], dtype=object)
         exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
@@ -227,6 +239,8 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             max_distance,
             feedback,
         )
+        feedback.setProgress(90)
+        stop_if_cancelled(feedback)
         for table, hole, fid, depth, reason in skipped:
             ledger.skip(reason)
             if sinks[SKIPPED][0] is not None:
@@ -254,7 +268,9 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         self, parameters, context, collars, work_crs, work_wkt, network, max_distance, skipped
     ):
         names = self._fields(parameters, context, COLLAR_FIELDS)
-        values, fids, geometries = read_columns(collars, names, "collar", with_geometry=True)
+        values, fids, geometries = read_columns(
+            collars, names, _parameters_of(COLLAR_FIELDS), "collar", with_geometry=True
+        )
         ids = labels(values["hole"])
         depth, depth_why = as_numbers(values["depth"], "depth")
         inclination, incl_why = (
@@ -343,8 +359,8 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         names = self._fields(parameters, context, mapping)
         missing = [p for p, key in mapping.items() if not names[key] and key != "code"]
         if missing:
-            raise QgsProcessingException(f"{missing[0]}: choose the {name.lower()} table's field.")
-        values, fids, _ = read_columns(source, names, name.lower())
+            raise ParameterProblem(missing[0], f"choose the field of the {name.lower()} table.")
+        values, fids, _ = read_columns(source, names, _parameters_of(mapping), name.lower())
         values["hole"] = labels(values["hole"])
         values["fid"] = fids
         values["collar"] = lookup(values["hole"], holes["index"])
@@ -530,8 +546,13 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             for name, names, kind, crs in specs
         }
         if sinks[OUTPUT][0] is None:
-            raise QgsProcessingException(self.invalidSinkError(parameters, OUTPUT))
+            raise ParameterProblem(OUTPUT, "choose where to write this output.")
         return sinks
+
+
+def _parameters_of(mapping):
+    """{column: the parameter choosing its field} of a {parameter: column} mapping."""
+    return {key: name for name, key in mapping.items()}
 
 
 def _point(geometry):

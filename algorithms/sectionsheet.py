@@ -33,6 +33,7 @@ from .compat.qgis_compat import (
 from .core.sheet_scale import end_names, padded
 from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.section_lines import read_section_parts, working_crs
 from .outputs import styles
 from .sheet.layers import (
@@ -131,17 +132,18 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         lines = self.source(parameters, INPUT, context)
         profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
         if profile is None or profile.fields().lookupField("section") < 0:
-            raise QgsProcessingException(
-                "PROFILE: give the section-view profile made by Topographic profile (it needs "
-                "a 'section' field)."
+            raise ParameterProblem(
+                PROFILE,
+                "give the section-view profile made by Topographic profile (it needs "
+                "a 'section' field).",
             )
         output = self.parameterAsFileOutput(parameters, OUTPUT, context)
         suffix = Path(output).suffix.lower()
         if suffix not in (".pdf", ".png", ".svg"):
-            raise QgsProcessingException("OUTPUT: the file must end in .pdf, .png or .svg.")
+            raise ParameterProblem(OUTPUT, "the file must end in .pdf, .png or .svg.")
         folder = Path(output).parent
         if not folder.is_dir() or not os.access(folder, os.W_OK):
-            raise QgsProcessingException(f"OUTPUT: cannot write into {folder}.")
+            raise ParameterProblem(OUTPUT, f"cannot write into {folder}.")
         inputs = {
             name: self.parameterAsVectorLayer(parameters, name, context)
             for name in (INTERVALS, TICKS, CROSSINGS, BOREHOLES)
@@ -177,8 +179,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         ledger = RunLedger(feedback)
         keep_alive, pages = [], []
         for part in parts:
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             ledger.read += 1
             section = builder.section(part)
             if section is None:
@@ -201,6 +202,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             feedback.setProgress(80.0 * len(pages) / max(len(parts), 1))
         if not pages:
             raise QgsProcessingException("No section could be drawn: see the log.")
+        stop_if_cancelled(feedback)
         files = self._export(layout, pages, output, suffix)
         feedback.pushInfo(f"Written: {', '.join(files)}")
         if add_layout and project is context.project():
@@ -401,9 +403,10 @@ def _around(box):
 
 def _check(result, exporter, target):
     if result != EXPORT_SUCCESS:
-        raise QgsProcessingException(
-            f"OUTPUT: the sheet could not be written to {target} "
-            f"({exporter.errorFile() or 'export error'})."
+        raise ParameterProblem(
+            OUTPUT,
+            f"the sheet could not be written to {target} "
+            f"({exporter.errorFile() or 'export error'}).",
         )
 
 

@@ -43,7 +43,9 @@ def defaulted_calls(path):
                 wanted = EXPLICIT.get(node.func.attr, set())
                 missing = wanted - {k.arg for k in node.keywords}
                 if missing:
-                    found.append((node.lineno, f"shapely.{node.func.attr} without {sorted(missing)}"))
+                    found.append(
+                        (node.lineno, f"shapely.{node.func.attr} without {sorted(missing)}")
+                    )
             elif isinstance(owner, ast.Attribute) and owner.attr in ("wkb", "wkt"):
                 found.append((node.lineno, f"shapely.{owner.attr}.{node.func.attr}"))
         elif isinstance(node, ast.Attribute) and node.attr in DEFAULTED_PROPERTIES:

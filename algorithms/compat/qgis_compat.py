@@ -66,6 +66,21 @@ CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
 
+POINT_GEOMETRY = _scoped("GeometryType", "Point", QgsWkbTypes.PointGeometry)
+LINE_GEOMETRY = _scoped("GeometryType", "Line", QgsWkbTypes.LineGeometry)
+POLYGON_GEOMETRY = _scoped("GeometryType", "Polygon", QgsWkbTypes.PolygonGeometry)
+NULL_GEOMETRY = _scoped("GeometryType", "Null", QgsWkbTypes.NullGeometry)
+
+
+def geometry_type(wkb_type):
+    return QgsWkbTypes.geometryType(wkb_type)
+
+
+def enum_number(value):
+    """The number of an enum member, plain int or scoped enum alike."""
+    return int(getattr(value, "value", value))
+
+
 if Qgis.QGIS_VERSION_INT >= 33800:
     from qgis.PyQt.QtCore import QMetaType
 

@@ -1,5 +1,8 @@
 """What every Sectionwright algorithm shares: naming, help, the section-line
-parameters and the SKIPPED output."""
+parameters, the SKIPPED output, and a run that stops early leaving nothing
+behind (run_guard)."""
+
+import functools
 
 from qgis.core import (
     QgsFeature,
@@ -12,10 +15,23 @@ from qgis.core import (
 )
 from qgis.PyQt.QtCore import QCoreApplication
 
-from ..compat.qgis_compat import FAST_INSERT, NUMBER_DOUBLE, SOURCE_LINES, SOURCE_POLYGONS
+from ..compat.qgis_compat import (
+    FAST_INSERT,
+    LINE_GEOMETRY,
+    NULL_GEOMETRY,
+    NUMBER_DOUBLE,
+    POINT_GEOMETRY,
+    POLYGON_GEOMETRY,
+    SOURCE_LINES,
+    SOURCE_POINTS,
+    SOURCE_POLYGONS,
+    enum_number,
+    geometry_type,
+)
 from ..outputs import fields as F
 from ..outputs.carried_fields import computed_fields
 from .help import help_text
+from .run_guard import OutputRecord, ParameterProblem
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"
@@ -23,6 +39,19 @@ SKIPPED = "SKIPPED"
 VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
 UNITS = "UNITS"
 UNIT_FIELD = "UNIT_FIELD"
+
+# What a source parameter filtered to one geometry accepts, in words.
+GEOMETRY_NEEDED = {
+    enum_number(SOURCE_POINTS): (POINT_GEOMETRY, "points"),
+    enum_number(SOURCE_LINES): (LINE_GEOMETRY, "lines"),
+    enum_number(SOURCE_POLYGONS): (POLYGON_GEOMETRY, "polygons"),
+}
+GEOMETRY_NAMES = {
+    POINT_GEOMETRY: "points",
+    LINE_GEOMETRY: "lines",
+    POLYGON_GEOMETRY: "polygons",
+    NULL_GEOMETRY: "no geometry (a plain table)",
+}
 
 
 class SectionwrightAlgorithm(QgsProcessingAlgorithm):
@@ -34,8 +63,38 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     DISPLAY_NAME = ""
     GROUP_ID = "sectiondata"
 
+    def __init_subclass__(cls, **kwargs):
+        super().__init_subclass__(**kwargs)
+        if "processAlgorithm" in cls.__dict__:
+            cls.processAlgorithm = _guarded(cls.__dict__["processAlgorithm"])
+
     def tr(self, text):
         return QCoreApplication.translate(type(self).__name__, text)
+
+    def label(self, name):
+        """A parameter's label, as the dialog shows it."""
+        definition = self.parameterDefinition(name)
+        return definition.description() if definition is not None else name
+
+    def parameterAsSink(self, parameters, name, context, *args, **kwargs):
+        """Processing's sink, recorded so that a run that stops early can
+        take its output back; a destination that cannot be written is an
+        error naming the output by its label."""
+        record = self.__dict__.setdefault("output_record", OutputRecord())
+        record.before_sink(self.parameterAsOutputLayer(parameters, name, context))
+        try:
+            sink, sink_id = super().parameterAsSink(parameters, name, context, *args, **kwargs)
+        except QgsProcessingException as error:
+            raise ParameterProblem(name, f"the output cannot be written there ({error}).")
+        record.add(sink)
+        return sink, sink_id
+
+    def required_sink(self, parameters, name, context, *args, **kwargs):
+        """parameterAsSink for an output that must be written."""
+        sink, sink_id = self.parameterAsSink(parameters, name, context, *args, **kwargs)
+        if sink is None:
+            raise ParameterProblem(name, "choose where to write this output.")
+        return sink, sink_id
 
     def createInstance(self):
         return type(self)()
@@ -72,8 +131,37 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         """A feature source parameter, or an error naming it."""
         source = self.parameterAsSource(parameters, name, context)
         if source is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, name))
+            raise ParameterProblem(name, "the layer given cannot be read.")
+        self._check_geometry(name, source)
         return source
+
+    def _check_geometry(self, name, source):
+        """The dialog filters layers by geometry; a script or qgis_process
+        does not, so a layer of the wrong kind is refused here."""
+        needed = [
+            GEOMETRY_NEEDED[number]
+            for number in map(enum_number, self.parameterDefinition(name).dataTypes())
+            if number in GEOMETRY_NEEDED
+        ]
+        held = geometry_type(source.wkbType())
+        if needed and held not in [kind for kind, _ in needed]:
+            wanted = " or ".join(words for _, words in needed)
+            raise ParameterProblem(
+                name,
+                f"this layer holds {GEOMETRY_NAMES.get(held, 'unknown geometry')}; "
+                f"choose a layer of {wanted}.",
+            )
+
+    def checkParameterValues(self, parameters, context):
+        """Processing's own check, its message naming the parameter by its label."""
+        ok, message = super().checkParameterValues(parameters, context)
+        if ok:
+            return ok, message
+        for definition in self.parameterDefinitions():
+            value = parameters.get(definition.name())
+            if not definition.checkValueIsAcceptable(value, context):
+                return False, f"{definition.description()}: {_unacceptable(definition, value)}"
+        return ok, message
 
     def add_unit_parameters(self):
         self.addParameter(
@@ -119,3 +207,36 @@ def add_skipped_section(sink, section):
         feature.setGeometry(section.geometry)
     feature.setAttributes([section.label, section.fid, section.reason])
     sink.addFeature(feature, FAST_INSERT)
+
+
+def _unacceptable(definition, value):
+    """Why Processing refuses a parameter's value, in words."""
+    if value is None or value == "":
+        return "a value is needed."
+    low = getattr(definition, "minimum", None)
+    high = getattr(definition, "maximum", None)
+    if low is not None and high is not None:
+        bounds = [f"at least {low():g}" if low() > -1e300 else ""]
+        bounds.append(f"at most {high():g}" if high() < 1e300 else "")
+        return f"{value} is not allowed; the value must be {' and '.join(b for b in bounds if b)}."
+    return f"{value!r} cannot be used here."
+
+
+def _guarded(process_algorithm):
+    """processAlgorithm that, when the run stops early (Cancel, an error),
+    takes back what it wrote, and names a parameter in trouble by its label."""
+
+    @functools.wraps(process_algorithm)
+    def processAlgorithm(self, parameters, context, feedback):
+        self.output_record = OutputRecord()
+        try:
+            return process_algorithm(self, parameters, context, feedback)
+        except BaseException as error:
+            self.output_record.withdraw()
+            if isinstance(error, ParameterProblem):
+                raise QgsProcessingException(
+                    f"{self.label(error.parameter)}: {error.message}"
+                ) from None
+            raise
+
+    return processAlgorithm

@@ -8,7 +8,6 @@ import numpy as np
 from qgis.core import (
     NULL,
     QgsFeatureRequest,
-    QgsProcessingException,
     QgsProcessingParameterEnum,
     QgsProcessingParameterField,
     QgsProcessingParameterNumber,
@@ -25,6 +24,7 @@ from ..core.attitudes import (
     read_attitudes,
 )
 from ..core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
+from ..framework.run_guard import ParameterProblem, stop_if_cancelled
 
 CONVENTION = "CONVENTION"
 AZIMUTH_FIELD = "AZIMUTH_FIELD"
@@ -142,9 +142,10 @@ class AttitudeSettings:
         }
         for name in NEEDS[self.convention]:
             if not self.fields[name]:
-                raise QgsProcessingException(
-                    f"{name}: attitudes written as '{CONVENTIONS[self.convention]}' need "
-                    f"this field; choose it."
+                raise ParameterProblem(
+                    name,
+                    f"attitudes written as '{CONVENTIONS[self.convention]}' need this field; "
+                    "choose it.",
                 )
         self.north = algorithm.parameterAsEnum(parameters, NORTH_REFERENCE, context)
         self.declination = algorithm.parameterAsDouble(parameters, DECLINATION, context)
@@ -153,19 +154,19 @@ class AttitudeSettings:
     def read(self, source, feedback, progress_share=30.0):
         """Every feature's attributes, geometry, point and plane."""
         rows = AttitudeRows()
-        wanted = [self.fields[n] for n in NEEDS[self.convention]]
+        chosen = {n: self.fields[n] for n in NEEDS[self.convention]}
         if self.declination_field:
-            wanted.append(self.declination_field)
-        missing = [n for n in wanted if source.fields().lookupField(n) < 0]
-        if missing:
-            raise QgsProcessingException(f"The attitude layer has no field {missing[0]!r}.")
+            chosen[DECLINATION_FIELD] = self.declination_field
+        for parameter, name in chosen.items():
+            if source.fields().lookupField(name) < 0:
+                raise ParameterProblem(parameter, f"the attitude layer has no field {name!r}.")
+        wanted = list(dict.fromkeys(chosen.values()))  # one field may serve twice
         raw = {name: [] for name in wanted}
         xyz = []
         total = max(source.featureCount(), 1)
         features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
         for number, feature in enumerate(features):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             rows.fids.append(feature.id())
             rows.attributes.append(feature.attributes())
             geometry = feature.geometry()

@@ -12,13 +12,14 @@ from qgis.core import (
     QgsCsException,
     QgsFeatureRequest,
     QgsGeometry,
-    QgsProcessingException,
 )
 
 from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
 from ..core.wkb import from_wkb
+from ..framework.run_guard import stop_if_cancelled
+from .map_crs import require_map_crs
 
 WKT2 = getattr(
     QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED
@@ -44,12 +45,12 @@ def crs_wkt(crs):
 def working_crs(source, context, feedback):
     """The section lines' CRS when projected, else the UTM zone of the centre
     of their extent (one CRS per run); the log says which and in what unit."""
-    crs = source.sourceCrs()
-    if not crs.isValid():
-        raise QgsProcessingException(
-            "INPUT: the section lines have no coordinate reference system. "
-            "Set one in the layer's properties (Source) and run again."
-        )
+    crs = require_map_crs(
+        source.sourceCrs(),
+        "INPUT",
+        "the section lines",
+        "the section lines drawn on the map (the layer Topographic profile was run on)",
+    )
     if not crs.isGeographic():
         if crs.mapUnits() != UNIT_METERS:
             feedback.pushInfo(
@@ -105,8 +106,7 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
     # Degenerate lines are ours to report in SKIPPED, not Processing's to refuse.
     features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
     for feature in features:
-        if feedback.isCanceled():
-            break
+        stop_if_cancelled(feedback)
         label = section_label(feature, id_field)
         geometry = feature.geometry()
         parts, reason = _single_parts(geometry, to_working)

@@ -170,7 +170,9 @@ def test_trace_window_recovers_a_known_plane(provider, tmp_path):
         (shapely.from_wkt(f.GetGeometryRef().ExportToWkt()) for f in layer), key=lambda g: g.length
     )
     contacts = point_layer(
-        [(shapely.to_wkt(trace, rounding_precision=-1, trim=True, output_dimension=2), ["fault"])], [("type", "string")], geometry_type="LineString"
+        [(shapely.to_wkt(trace, rounding_precision=-1, trim=True, output_dimension=2), ["fault"])],
+        [("type", "string")],
+        geometry_type="LineString",
     )
     middle = trace.interpolate(0.5, normalized=True)
     section = line_layer(

@@ -7,7 +7,7 @@ from feedback import LogFeedback
 from layers import by_section, is_null, line_layer, plane_raster, write_raster
 from osgeo import gdal
 from pyproj import Transformer
-from qgis.core import QgsProcessingException, QgsProcessingFeedback, QgsVectorLayer, QgsWkbTypes
+from qgis.core import QgsProcessingException, QgsVectorLayer, QgsWkbTypes
 from scipy import ndimage
 
 ORIGIN_X, ORIGIN_Y = 431000.0, 5127000.0
@@ -235,21 +235,23 @@ def test_bad_lines_go_to_skipped_with_reasons(provider, plane_dem):
 
 
 def test_missing_band_and_non_raster_are_clear_errors(provider, plane_dem, demo_dir):
-    with pytest.raises(QgsProcessingException, match="DEM_BAND"):
+    with pytest.raises(QgsProcessingException, match="DEM band: "):
         run_profile(line_layer([KINKED]), plane_dem, DEM_BAND=5)
     with pytest.raises(QgsProcessingException, match="DEM"):
         run_profile(line_layer([KINKED]), f"{demo_dir}/tarrowgill.gpkg|layername=units")
 
 
 def test_cancel_stops_between_sections(provider, plane_dem):
-    class CancelAfterFirst(QgsProcessingFeedback):
+    class CancelAfterFirst(LogFeedback):
         def setProgress(self, progress):
             super().setProgress(progress)
             self.cancel()
 
     lines = line_layer([KINKED] * 5)
-    result = run_profile(lines, plane_dem, feedback=CancelAfterFirst())
-    assert result["OUTPUT_SECTION"].featureCount() == 1
+    feedback = CancelAfterFirst()
+    with pytest.raises(QgsProcessingException, match="Cancelled"):
+        run_profile(lines, plane_dem, feedback=feedback)
+    assert not any(line.startswith("Section 1:") for line in feedback.lines)
 
 
 def test_the_input_layer_is_not_modified(provider, demo_dir):

@@ -193,7 +193,7 @@ def test_a_missing_section_and_an_empty_layer_leave_the_other_pages(demo_layers,
 
 
 def test_an_unwritable_output_is_a_clear_error(demo_layers):
-    with pytest.raises(QgsProcessingException, match="OUTPUT"):
+    with pytest.raises(QgsProcessingException, match="Section sheets: cannot write"):
         sheet(demo_layers, "/nonexistent-folder/sheets.pdf")
 
 
