@@ -354,7 +354,8 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         feature.setAttributes(attributes)
         feature.setGeometry(QgsPoint(landing[0], landing[1], z))
         sinks[OUTPUT][0].addFeature(feature, FAST_INSERT)
-        if sinks[OUTPUT_CONNECTORS][0] is not None:
+        # A point already on its line travels nowhere: a line of no length is no geometry.
+        if sinks[OUTPUT_CONNECTORS][0] is not None and np.any(source != landing):
             feature.setGeometry(QgsLineString([QgsPoint(*source), QgsPoint(*landing)]))
             sinks[OUTPUT_CONNECTORS][0].addFeature(feature, FAST_INSERT)
         if not np.isnan(z):

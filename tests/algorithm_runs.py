@@ -55,7 +55,7 @@ register(
     ("sections", "dem"),
     lambda m, out, scratch: {
         **lines(m),
-        "DEM": str(m.dem),
+        "DEM": m.dem_layer(),
         "STEP": 40.0,
         "VERTICAL_EXAGGERATION": 2.0,
         "OUTPUT": out("OUTPUT"),
@@ -74,7 +74,7 @@ register(
         "AZIMUTH_FIELD": "dipdir",
         "DIP_FIELD": "dip",
         "MAX_DISTANCE": 400.0,
-        **({"DEM": str(m.dem)} if m.dem else {}),
+        **({"DEM": m.dem_layer()} if m.dem else {}),
         **optional_layer(m, "UNITS", "units", UNIT_FIELD="unit"),
         "VERTICAL_EXAGGERATION": 2.0,
         "OUTPUT": out("OUTPUT"),
@@ -102,7 +102,7 @@ register(
     ("sections", "dem"),
     lambda m, out, scratch: {
         **lines(m),
-        "DEM": str(m.dem),
+        "DEM": m.dem_layer(),
         **optional_layer(m, "UNITS", "units", UNIT_FIELD="unit"),
         **optional_layer(m, "CONTACTS", "contacts", CONTACT_TYPE_FIELD="type"),
         "TRACE_WINDOW": 150.0,
@@ -141,7 +141,7 @@ register(
             INTERVAL_TO_FIELD="to_m",
             INTERVAL_CODE_FIELD="code",
         ),
-        **({"DEM": str(m.dem)} if m.dem else {}),
+        **({"DEM": m.dem_layer()} if m.dem else {}),
         "MAX_DISTANCE": 400.0,
         "VERTICAL_EXAGGERATION": 2.0,
         "OUTPUT": out("OUTPUT"),
@@ -154,21 +154,21 @@ register(
 
 
 def sheet_parameters(m, out, scratch):
-    """The sheet draws the profile: made first, into the scratch folder."""
-    profile = scratch / "sheet_profile.gpkg"
-    processing.run(
+    """The sheet draws the profile: made first."""
+    profile = processing.run(
         "sectionwright:profile",
         {
             **lines(m),
-            "DEM": str(m.dem),
+            "DEM": m.dem_layer(),
             "STEP": 80.0,
             "OUTPUT": "memory:",
-            "OUTPUT_SECTION": str(profile),
+            "OUTPUT_SECTION": "memory:",
         },
-    )
+    )["OUTPUT_SECTION"]
     return {
         **lines(m),
-        "PROFILE": str(profile),
+        "PROFILE": profile,
+        "PAGE_SIZE": 0,
         "OUTPUT": str(scratch / "sheet.pdf"),
         "SKIPPED": out("SKIPPED"),
     }
