@@ -250,7 +250,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         return sinks
 
     def _units(self, parameters, context, work_crs, feedback):
-        source = self.parameterAsSource(parameters, UNITS, context)
+        source = self.optional_source(parameters, UNITS, context)
         if source is None:
             return [], np.empty(0, dtype=object), np.empty(0, dtype=int)
         unit_map = read_unit_map(
@@ -274,7 +274,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         return units, unit_map.polygons, polygon_units
 
     def _contacts(self, parameters, context, work_crs, feedback):
-        source = self.parameterAsSource(parameters, CONTACTS, context)
+        source = self.optional_source(parameters, CONTACTS, context)
         if source is None:
             return np.empty(0, dtype=object), []
         require_map_crs(source.sourceCrs(), CONTACTS, "the contacts", "the map's contact lines")

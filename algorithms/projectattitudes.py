@@ -203,7 +203,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         stop_if_cancelled(feedback)
 
         dem = self.parameterAsRasterLayer(parameters, DEM, context)
-        units = self.parameterAsSource(parameters, UNITS, context)
+        units = self.optional_source(parameters, UNITS, context)
         with bounded_gdal_cache():
             sampler = DemSampler(dem, 1, 1.0, work_crs) if dem is not None else None
             unit_map = (

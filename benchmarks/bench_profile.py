@@ -157,9 +157,7 @@ def run_sampling_core(lines, dem):
     from sectionwright.algorithms.inputs.dem import DemSampler, sample_ahead
 
     positions = [
-        profile_samples(
-            shapely.get_coordinates(from_wkb(bytes(f.geometry().asWkb()))), STEP
-        )[1]
+        profile_samples(shapely.get_coordinates(from_wkb(bytes(f.geometry().asWkb()))), STEP)[1]
         for f in QgsVectorLayer(lines).getFeatures()
     ]
     started = time.perf_counter()

@@ -112,7 +112,7 @@ def spatial_reference(epsg):
 def to_crs(wkt, epsg):
     """A base-CRS WKT geometry in another CRS."""
     geometry = ogr.CreateGeometryFromWkt(wkt)
-    if epsg != BASE_EPSG:
+    if epsg and epsg != BASE_EPSG:
         transform = osr.CoordinateTransformation(
             spatial_reference(BASE_EPSG), spatial_reference(epsg)
         )
@@ -122,7 +122,7 @@ def to_crs(wkt, epsg):
 
 def _write_layer(dataset, spec):
     kind = OGR_GEOMETRIES[spec.geometry]
-    srs = spatial_reference(spec.epsg) if kind != ogr.wkbNone else None
+    srs = spatial_reference(spec.epsg) if kind != ogr.wkbNone and spec.epsg else None
     layer = dataset.CreateLayer(spec.name, srs, kind, ["FID=fid"])
     for name, type_name in spec.fields:
         layer.CreateField(ogr.FieldDefn(name, OGR_TYPES[type_name]))
@@ -199,7 +199,7 @@ def polygon(*corners):
     return f"POLYGON(({', '.join(corners + corners[:1])}))"
 
 
-def ordinary_map(sections=None, **replace):
+def ordinary_map(section_rows=None, **replace):
     """A plain map of the area: three section lines, two units, a contact
     and a fault, attitudes, collars with surveys and intervals, and a DEM
     over the whole area; ``replace`` swaps layers (None drops one)."""
@@ -213,8 +213,9 @@ def ordinary_map(sections=None, **replace):
             "sections",
             "LineString",
             [("name", "string")],
-            sections
-            or [
+            section_rows
+            if section_rows is not None
+            else [
                 (f"LINESTRING({at(200, 500)}, {at(1800, 500)})", ["A"]),
                 (
                     f"LINESTRING({at(200, 1000)}, {at(1000, 1200)}, {at(1800, 1000)})",

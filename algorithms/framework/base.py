@@ -135,6 +135,12 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         self._check_geometry(name, source)
         return source
 
+    def optional_source(self, parameters, name, context):
+        """An optional feature source parameter: None when not given."""
+        if self.parameterAsSource(parameters, name, context) is None:
+            return None
+        return self.source(parameters, name, context)
+
     def _check_geometry(self, name, source):
         """The dialog filters layers by geometry; a script or qgis_process
         does not, so a layer of the wrong kind is refused here."""
@@ -218,7 +224,8 @@ def _unacceptable(definition, value):
     if low is not None and high is not None:
         bounds = [f"at least {low():g}" if low() > -1e300 else ""]
         bounds.append(f"at most {high():g}" if high() < 1e300 else "")
-        return f"{value} is not allowed; the value must be {' and '.join(b for b in bounds if b)}."
+        shown = f"{value:g}" if isinstance(value, (int, float)) else value
+        return f"{shown} is not allowed; the value must be {' and '.join(b for b in bounds if b)}."
     return f"{value!r} cannot be used here."
 
 

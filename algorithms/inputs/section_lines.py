@@ -18,8 +18,8 @@ from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, u
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
 from ..core.wkb import from_wkb
-from ..framework.run_guard import stop_if_cancelled
-from .map_crs import require_map_crs
+from ..framework.run_guard import ParameterProblem, stop_if_cancelled
+from .map_crs import require_lonlat, require_map_crs
 
 WKT2 = getattr(
     QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED
@@ -58,6 +58,7 @@ def working_crs(source, context, feedback):
                 f"{unit_name(crs.mapUnits())}, the unit of {crs.authid()}."
             )
         return crs
+    require_lonlat(source.sourceExtent(), "INPUT", "the section lines")
     centre = QgsCoordinateTransform(crs, WGS84, context.transformContext()).transform(
         source.sourceExtent().center()
     )
@@ -101,6 +102,8 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
     Unusable parts come back with ``coords`` None and a reason, so that the
     caller accounts for them in SKIPPED.
     """
+    if id_field and source.fields().lookupField(id_field) < 0:
+        raise ParameterProblem("LINE_ID_FIELD", f"the section lines have no field {id_field!r}.")
     to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
     sections = []
     # Degenerate lines are ours to report in SKIPPED, not Processing's to refuse.
