@@ -60,24 +60,12 @@ class MapFiles:
     dem: Optional[Path]
     counts: dict  # features per layer
     parts: int  # section line parts (a null or empty geometry counts as one)
-    loaded: dict = field(default_factory=dict)
 
     def layer(self, name):
-        """The layer's source, or the layer itself once preloaded."""
-        return self.loaded.get(name, f"{self.gpkg}|layername={name}")
+        return f"{self.gpkg}|layername={name}"
 
     def dem_layer(self):
-        return self.loaded.get("dem", str(self.dem))
-
-    def preload(self):
-        """Opens every layer once, for many runs on one map (opening a
-        GeoPackage layer costs more than a small run)."""
-        from qgis.core import QgsRasterLayer, QgsVectorLayer
-
-        self.loaded = {name: QgsVectorLayer(self.layer(name), name, "ogr") for name in self.counts}
-        if self.dem is not None:
-            self.loaded["dem"] = QgsRasterLayer(str(self.dem), "dem")
-        return self
+        return str(self.dem)
 
     def has(self, name):
         return name in self.counts

@@ -320,7 +320,7 @@ def check_result(run, world, feedback, result):
 
 
 def check_map(spec, folder):
-    world = write_map(spec, folder).preload()
+    world = write_map(spec, folder)
     before = checksums(folder)
     scratch = folder / "scratch"
     scratch.mkdir()
