@@ -2,12 +2,14 @@
 
 
 def all_algorithms():
+    from .dipdomains import DipDomainsAlgorithm
     from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
     from .projectattitudes import ProjectAttitudesAlgorithm
     from .projectboreholes import ProjectBoreholesAlgorithm
     from .sectionsheet import SectionSheetAlgorithm
+    from .structuraltrend import StructuralTrendAlgorithm
 
     return [
         ProfileAlgorithm(),
@@ -16,4 +18,6 @@ def all_algorithms():
         GeologyCrossingsAlgorithm(),
         ProjectBoreholesAlgorithm(),
         SectionSheetAlgorithm(),
+        StructuralTrendAlgorithm(),
+        DipDomainsAlgorithm(),
     ]

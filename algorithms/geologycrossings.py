@@ -6,25 +6,13 @@ from typing import List
 import numpy as np
 import shapely
 from qgis.core import (
-    QgsCoordinateReferenceSystem,
-    QgsFeature,
-    QgsPoint,
     QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterField,
-    QgsProcessingParameterNumber,
-    QgsProcessingParameterRasterLayer,
 )
 
-from .compat.qgis_compat import (
-    FAST_INSERT,
-    LINE_STRING,
-    NUMBER_DOUBLE,
-    POINT_Z,
-    SOURCE_LINES,
-    SOURCE_POINTS,
-)
+from .compat.qgis_compat import LINE_STRING, POINT_Z, SOURCE_LINES, SOURCE_POINTS
 from .core.apparent_dip import apparent_dip
 from .core.crs import transformer
 from .core.geology import (
@@ -44,9 +32,9 @@ from .framework.base import (
     UNIT_FIELD,
     UNITS,
     VERTICAL_EXAGGERATION,
+    Z_FACTOR,
     SectionwrightAlgorithm,
-    add_skipped_section,
-    skipped_fields,
+    sink_results,
 )
 from .framework.ledger import RunLedger
 from .framework.run_guard import ParameterProblem, stop_if_cancelled
@@ -55,13 +43,11 @@ from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_features, read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
-from .outputs.carried_fields import computed_fields
-from .outputs.geometry_io import to_qgis
-from .outputs.section_space import SECTION_CRS_WKT
+from .outputs.geometry_io import add_features, add_wkb_features, points_z
+from .outputs.section_space import section_crs
+from .outputs.skipped import skip_sections
 from .outputs.styles import UnitStripStyler
 
-DEM = "DEM"
-Z_FACTOR = "Z_FACTOR"
 CONTACTS = "CONTACTS"
 CONTACT_TYPE_FIELD = "CONTACT_TYPE_FIELD"
 TRACE_WINDOW = "TRACE_WINDOW"
@@ -87,22 +73,53 @@ def _label(units, index):
     return units[index] if index >= 0 else ""
 
 
+@dataclass
+class GeologySettings:
+    """Every parameter of a run, read once."""
+
+    lines: object
+    id_field: str
+    dem: object
+    z_factor: float
+    units: object  # None: not given
+    unit_field: str
+    contacts: object  # None: not given
+    contact_type_field: str
+    window: float  # 0: no trace attitudes
+    exaggeration: float
+
+    @classmethod
+    def read(cls, algorithm, parameters, context):
+        text = lambda name: algorithm.parameterAsString(parameters, name, context)  # noqa: E731
+        number = lambda name: algorithm.parameterAsDouble(parameters, name, context)  # noqa: E731
+        return cls(
+            lines=algorithm.source(parameters, INPUT, context),
+            id_field=text(LINE_ID_FIELD),
+            dem=algorithm.dem(parameters, context),
+            z_factor=number(Z_FACTOR),
+            units=algorithm.optional_source(parameters, UNITS, context),
+            unit_field=text(UNIT_FIELD),
+            contacts=algorithm.optional_source(parameters, CONTACTS, context),
+            contact_type_field=text(CONTACT_TYPE_FIELD),
+            window=number(TRACE_WINDOW),
+            exaggeration=number(VERTICAL_EXAGGERATION),
+        )
+
+
 class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "geologycrossings"
     DISPLAY_NAME = "Map geology along sections"
+    OUTPUT_SCHEMAS = {
+        OUTPUT: F.CROSSINGS,
+        OUTPUT_INTERVALS: F.UNIT_INTERVALS,
+        SKIPPED: F.SKIPPED_SECTIONS,
+    }
 
     def initAlgorithm(self, config=None):
         tr = self.tr
         self.add_section_line_parameters()
-        self.addParameter(QgsProcessingParameterRasterLayer(DEM, tr("DEM")))
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                Z_FACTOR,
-                tr("Z factor (DEM values × factor = metres)"),
-                NUMBER_DOUBLE,
-                defaultValue=1.0,
-            )
-        )
+        self.add_dem_parameter()
+        self.add_z_factor_parameter()
         self.add_unit_parameters()
         self.addParameter(
             QgsProcessingParameterFeatureSource(
@@ -138,128 +155,69 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.source(parameters, INPUT, context)
-        dem = self.parameterAsRasterLayer(parameters, DEM, context)
-        if dem is None:
-            raise ParameterProblem(DEM, "the layer given is not a raster that can be read.")
-        exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
-        window = self.parameterAsDouble(parameters, TRACE_WINDOW, context)
+        settings = GeologySettings.read(self, parameters, context)
+        lines = settings.lines
         work_crs = working_crs(lines, context, feedback)
-        parts = read_section_parts(
-            lines,
-            self.parameterAsString(parameters, LINE_ID_FIELD, context),
-            work_crs,
-            context,
-            feedback,
-        )
-        units, polygons, polygon_units = self._units(parameters, context, work_crs, feedback)
-        contacts, kinds = self._contacts(parameters, context, work_crs, feedback)
+        parts = read_section_parts(lines, settings.id_field, work_crs, context, feedback)
+        units, polygons, polygon_units = self._units(settings, work_crs, context, feedback)
+        contacts, kinds = self._contacts(settings, work_crs, context, feedback)
         sinks = self._sinks(parameters, context, lines)
         ledger = RunLedger(feedback)
-        usable = []
-        for part in parts:
-            ledger.read += 1
-            if part.coords is None:
-                ledger.skip(part.reason)
-                add_skipped_section(sinks[SKIPPED][0], part)
-            else:
-                usable.append(part)
+        ledger.read = len(parts)
+        unusable = [p for p in parts if p.coords is None]
+        for part in unusable:
+            ledger.skip(part.reason)
+        skip_sections(sinks[SKIPPED][0], unusable)
+        usable = [p for p in parts if p.coords is not None]
 
         polygon_tree = shapely.STRtree(polygons) if len(polygons) else None
         contact_tree = shapely.STRtree(contacts) if len(contacts) else None
         with bounded_gdal_cache():
-            sampler = DemSampler(
-                dem, 1, self.parameterAsDouble(parameters, Z_FACTOR, context), work_crs
-            )
+            sampler = DemSampler(settings.dem, 1, settings.z_factor, work_crs)
             step = sampler.cell_size(usable[0].coords[0]) if usable else 1.0
             intervals = [
                 self._intervals(p.coords, polygons, polygon_units, polygon_tree) for p in usable
             ]
             crossings = self._crossings(usable, intervals, contacts, kinds, contact_tree)
-            jobs = self._sample_jobs(usable, intervals, crossings, step)
-            sampled = {}
-            for index, ((chainage, xy), elevation) in enumerate(sample_ahead(jobs, sampler)):
-                stop_if_cancelled(feedback)
-                sampled[index] = (chainage, xy, elevation)
-                feedback.setProgress(60.0 * (index + 1) / max(len(usable), 1))
+            sampled = self._sample(usable, intervals, crossings, step, sampler, feedback)
             stop_if_cancelled(feedback)
             estimates = (
-                self._trace_attitudes(usable, crossings, contacts, window, step, sampler)
-                if window > 0
+                self._trace_attitudes(usable, crossings, contacts, settings.window, step, sampler)
+                if settings.window > 0
                 else {}
             )
         to_map = transformer(crs_wkt(work_crs), crs_wkt(lines.sourceCrs()))
-        by_section = {}
-        for number, crossing in enumerate(crossings):
-            by_section.setdefault(crossing.section, []).append((number, crossing))
-        for index, part in enumerate(usable):
-            stop_if_cancelled(feedback)
-            chainage, xy, elevation = sampled[index]
-            self._write_crossings(
-                sinks[OUTPUT][0],
-                part,
-                by_section.get(index, []),
-                units,
-                chainage,
-                elevation,
-                to_map,
-                estimates,
-            )
-            self._write_intervals(
-                sinks[OUTPUT_INTERVALS][0],
-                part,
-                intervals[index],
-                units,
-                chainage,
-                elevation,
-                exaggeration,
-            )
-            ledger.written += 1
-            feedback.pushInfo(
-                f"Section {part.label}: {len(intervals[index].unit)} interval(s), "
-                f"{len(by_section.get(index, []))} crossing(s)."
-            )
-            feedback.setProgress(70.0 + 30.0 * (index + 1) / len(usable))
+        geology = (intervals, crossings, units, estimates)
+        ledger.written = _write_sections(
+            sinks, usable, sampled, geology, to_map, settings.exaggeration, feedback
+        )
         ledger.close()
         self._style(context, sinks[OUTPUT_INTERVALS][1], units)
-        return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+        return sink_results(sinks)
 
     def _sinks(self, parameters, context, lines):
-        section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-        sinks = {
-            OUTPUT: self.required_sink(
-                parameters,
-                OUTPUT,
-                context,
-                computed_fields(F.CROSSING_FIELDS),
-                POINT_Z,
-                lines.sourceCrs(),
-            ),
-            OUTPUT_INTERVALS: self.required_sink(
-                parameters,
-                OUTPUT_INTERVALS,
-                context,
-                computed_fields(F.INTERVAL_FIELDS),
-                LINE_STRING,
-                section_crs,
-            ),
-            SKIPPED: self.parameterAsSink(
-                parameters, SKIPPED, context, skipped_fields(), lines.wkbType(), lines.sourceCrs()
-            ),
-        }
-        return sinks
-
-    def _units(self, parameters, context, work_crs, feedback):
-        source = self.optional_source(parameters, UNITS, context)
-        if source is None:
-            return [], np.empty(0, dtype=object), np.empty(0, dtype=int)
-        unit_map = read_unit_map(
-            source,
-            self.parameterAsString(parameters, UNIT_FIELD, context),
-            work_crs,
-            context,
-            feedback,
+        specs = (
+            (OUTPUT, F.CROSSINGS.qgs_fields(), POINT_Z, lines.sourceCrs()),
+            (OUTPUT_INTERVALS, F.UNIT_INTERVALS.qgs_fields(), LINE_STRING, section_crs()),
+            (SKIPPED, F.SKIPPED_SECTIONS.qgs_fields(), lines.wkbType(), lines.sourceCrs()),
         )
+        return self.open_sinks(parameters, context, specs, required=(OUTPUT, OUTPUT_INTERVALS))
+
+    def _sample(self, parts, intervals, crossings, step, sampler, feedback):
+        """[(chainage, xy, elevation)] per part, in order."""
+        jobs = self._sample_jobs(parts, intervals, crossings, step)
+        sampled = []
+        for (chainage, xy), elevation in sample_ahead(jobs, sampler):
+            stop_if_cancelled(feedback)
+            sampled.append((chainage, xy, elevation))
+            feedback.setProgress(60.0 * len(sampled) / max(len(parts), 1))
+        return sampled
+
+    @staticmethod
+    def _units(settings, work_crs, context, feedback):
+        if settings.units is None:
+            return [], np.empty(0, dtype=object), np.empty(0, dtype=int)
+        unit_map = read_unit_map(settings.units, settings.unit_field, work_crs, context, feedback)
         labels = unit_map.labels
         unnamed = int(sum(label is None or label == "" for label in labels))
         if unnamed:
@@ -273,17 +231,21 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         )
         return units, unit_map.polygons, polygon_units
 
-    def _contacts(self, parameters, context, work_crs, feedback):
-        source = self.optional_source(parameters, CONTACTS, context)
-        if source is None:
+    @staticmethod
+    def _contacts(settings, work_crs, context, feedback):
+        if settings.contacts is None:
             return np.empty(0, dtype=object), []
-        require_map_crs(source.sourceCrs(), CONTACTS, "the contacts", "the map's contact lines")
-        kind_field = self.parameterAsString(parameters, CONTACT_TYPE_FIELD, context)
-        if kind_field and source.fields().lookupField(kind_field) < 0:
+        require_map_crs(
+            settings.contacts.sourceCrs(), CONTACTS, "the contacts", "the map's contact lines"
+        )
+        kind_field = settings.contact_type_field
+        if kind_field and settings.contacts.fields().lookupField(kind_field) < 0:
             raise ParameterProblem(
                 CONTACT_TYPE_FIELD, f"the contacts layer has no field {kind_field!r}."
             )
-        contacts, kinds, unusable = read_features(source, kind_field, work_crs, context)
+        contacts, kinds, unusable = read_features(
+            settings.contacts, settings.contact_type_field, work_crs, context
+        )
         if unusable:
             feedback.pushInfo(f"{unusable} contact feature(s) without usable geometry left out.")
         return contacts, [kind or DEFAULT_CONTACT_KIND for kind in kinds]
@@ -371,56 +333,6 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
             for k, i in enumerate(wanted)
         }
 
-    @staticmethod
-    def _write_crossings(sink, part, numbered, units, chainage, elevation, to_map, estimates):
-        if not numbered:
-            return
-        at = np.array([c.chainage for _, c in numbered])
-        z = elevation[np.minimum(np.searchsorted(chainage, at), len(chainage) - 1)]
-        xy = positions_at(part.coords, vertex_chainage(part.coords), at)
-        map_x, map_y = to_map(xy[:, 0], xy[:, 1])
-        for (number, crossing), zz, x, y in zip(
-            numbered, z.tolist(), map_x.tolist(), map_y.tolist()
-        ):
-            estimate = estimates.get(number, (np.nan,) * 4 + (False,))
-            flags = crossing.flags + (["ill_conditioned"] if estimate[4] else [])
-            feature = QgsFeature()
-            feature.setGeometry(QgsPoint(x, y, zz))
-            feature.setAttributes(
-                [
-                    part.label,
-                    crossing.chainage,
-                    None if zz != zz else zz,
-                    crossing.kind,
-                    _label(units, crossing.before),
-                    _label(units, crossing.after),
-                ]
-                + [None if v != v else float(v) for v in estimate[:4]]
-                + [",".join(flags)]
-            )
-            sink.addFeature(feature, FAST_INSERT)
-
-    @staticmethod
-    def _write_intervals(sink, part, stretch, units, chainage, elevation, exaggeration):
-        for start, end, unit, overlap in zip(
-            stretch.start, stretch.end, stretch.unit, stretch.overlap
-        ):
-            inside = (chainage >= start - 1e-9) & (chainage <= end + 1e-9)
-            for run in section_runs(chainage[inside], elevation[inside], exaggeration):
-                feature = QgsFeature()
-                feature.setGeometry(to_qgis(shapely.LineString(run)))
-                feature.setAttributes(
-                    [
-                        part.label,
-                        _label(units, unit),
-                        float(start),
-                        float(end),
-                        exaggeration,
-                        "overlap" if overlap else "",
-                    ]
-                )
-                sink.addFeature(feature, FAST_INSERT)
-
     def _style(self, context, layer_id, units):
         if context.willLoadLayerOnCompletion(layer_id):
             self.styler = UnitStripStyler(units, F.UNIT)
@@ -437,3 +349,86 @@ def _padded(values, count, fill):
     out = np.full(count, fill, dtype=np.asarray(values).dtype if len(values) else float)
     out[: len(values)] = values
     return out
+
+
+def _write_sections(sinks, parts, sampled, geology, to_map, exaggeration, feedback):
+    """The crossings and the geology strip of every sampled part;
+    ``geology`` is (intervals, crossings, units, estimates). Returns how
+    many parts were written."""
+    intervals, crossings, units, estimates = geology
+    by_section = {}
+    for number, crossing in enumerate(crossings):
+        by_section.setdefault(crossing.section, []).append((number, crossing))
+    for index, part in enumerate(parts):
+        stop_if_cancelled(feedback)
+        chainage, _, elevation = sampled[index]
+        numbered = by_section.get(index, [])
+        _write_crossings(
+            sinks[OUTPUT][0], part, numbered, units, chainage, elevation, to_map, estimates
+        )
+        _write_intervals(
+            sinks[OUTPUT_INTERVALS][0],
+            part,
+            intervals[index],
+            units,
+            chainage,
+            elevation,
+            exaggeration,
+        )
+        feedback.pushInfo(
+            f"Section {part.label}: {len(intervals[index].unit)} interval(s), "
+            f"{len(numbered)} crossing(s)."
+        )
+        feedback.setProgress(70.0 + 30.0 * (index + 1) / len(parts))
+    return len(sampled)
+
+
+def _write_crossings(sink, part, numbered, units, chainage, elevation, to_map, estimates):
+    if not numbered:
+        return
+    at = np.array([c.chainage for _, c in numbered])
+    z = elevation[np.minimum(np.searchsorted(chainage, at), len(chainage) - 1)]
+    xy = positions_at(part.coords, vertex_chainage(part.coords), at)
+    map_x, map_y = to_map(xy[:, 0], xy[:, 1])
+    no_estimate = (np.nan,) * 4 + (False,)
+    estimate = np.array([estimates.get(n, no_estimate)[:4] for n, _ in numbered], dtype=float)
+    ill = [estimates.get(n, no_estimate)[4] for n, _ in numbered]
+    crossings = [c for _, c in numbered]
+    columns = {
+        F.SECTION: [part.label] * len(crossings),
+        F.CHAINAGE: at,
+        F.ELEVATION: z,
+        F.KIND: [c.kind for c in crossings],
+        F.UNIT_BEFORE: [_label(units, c.before) for c in crossings],
+        F.UNIT_AFTER: [_label(units, c.after) for c in crossings],
+        F.ESTIMATED_DIP_DIRECTION: estimate[:, 0],
+        F.ESTIMATED_DIP: estimate[:, 1],
+        F.ESTIMATED_APPARENT_DIP: estimate[:, 2],
+        F.FIT_RMS: estimate[:, 3],
+        F.FLAGS: [
+            ",".join(c.flags + (["ill_conditioned"] if bad else []))
+            for c, bad in zip(crossings, ill)
+        ],
+    }
+    add_wkb_features(sink, points_z(map_x, map_y, z), F.CROSSINGS.rows(columns))
+
+
+def _write_intervals(sink, part, stretch, units, chainage, elevation, exaggeration):
+    """The ground line cut by unit: one line per unit stretch and unbroken
+    run of elevations."""
+    geometries, stretch_of = [], []
+    for number, (start, end) in enumerate(zip(stretch.start, stretch.end)):
+        inside = (chainage >= start - 1e-9) & (chainage <= end + 1e-9)
+        for run in section_runs(chainage[inside], elevation[inside], exaggeration):
+            geometries.append(shapely.LineString(run))
+            stretch_of.append(number)
+    which = np.array(stretch_of, dtype=int)
+    columns = {
+        F.SECTION: [part.label] * len(which),
+        F.UNIT: [_label(units, u) for u in stretch.unit[which]],
+        F.CHAINAGE_FROM: stretch.start[which],
+        F.CHAINAGE_TO: stretch.end[which],
+        F.EXAGGERATION: np.full(len(which), exaggeration),
+        F.FLAGS: ["overlap" if o else "" for o in stretch.overlap[which]],
+    }
+    add_features(sink, geometries, F.UNIT_INTERVALS.rows(columns))

@@ -1,21 +1,19 @@
 """sectionwright:normalizeattitudes — one clean notation for a mixed notebook."""
 
 import numpy as np
-from qgis.core import (
-    QgsFeature,
-    QgsProcessingParameterFeatureSink,
-    QgsProcessingParameterFeatureSource,
-)
+from qgis.core import QgsProcessingParameterFeatureSink, QgsProcessingParameterFeatureSource
 
-from .compat.qgis_compat import FAST_INSERT, SOURCE_ANY_VECTOR
+from .compat.qgis_compat import SOURCE_ANY_VECTOR
 from .core.orientation import strike_from_dip_direction
-from .framework.base import SKIPPED, SectionwrightAlgorithm
+from .framework.base import SKIPPED, SectionwrightAlgorithm, sink_results
 from .framework.ledger import RunLedger
 from .framework.run_guard import stop_if_cancelled
 from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.section_lines import crs_wkt
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
+from .outputs.geometry_io import add_qgis_features
+from .outputs.skipped import skip_features
 
 INPUT = "INPUT"
 OUTPUT = "OUTPUT"
@@ -25,6 +23,7 @@ NO_POSITION = "no position for the north correction"
 class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "normalizeattitudes"
     DISPLAY_NAME = "Normalise attitude notation"
+    OUTPUT_SCHEMAS = {OUTPUT: F.ORIENTATION, SKIPPED: F.SKIPPED_ROWS}
 
     def initAlgorithm(self, config=None):
         self.addParameter(
@@ -45,50 +44,48 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
         dip_direction, reasons = self._grid(settings, source, rows, feedback)
         feedback.setProgress(50)
         stop_if_cancelled(feedback)
-
-        output_fields = CarriedFields(source.fields(), F.ORIENTATION_FIELDS)
-        skipped_fields = CarriedFields(source.fields(), (F.SOURCE_FID, F.REASON))
-        output, output_id = self.required_sink(
-            parameters, OUTPUT, context, output_fields.fields, source.wkbType(), source.sourceCrs()
-        )
-        skipped, skipped_id = self.parameterAsSink(
+        output_fields = CarriedFields(source.fields(), F.ORIENTATION)
+        skipped_fields = CarriedFields(source.fields(), F.SKIPPED_ROWS)
+        crs = source.sourceCrs()
+        sinks = self.open_sinks(
             parameters,
-            SKIPPED,
             context,
-            skipped_fields.fields,
-            source.wkbType(),
-            source.sourceCrs(),
+            (
+                (OUTPUT, output_fields.qgs_fields(), source.wkbType(), crs),
+                (SKIPPED, skipped_fields.qgs_fields(), source.wkbType(), crs),
+            ),
+            required=(OUTPUT,),
         )
-        strike = strike_from_dip_direction(dip_direction)
         ledger = RunLedger(feedback)
-        for i in range(len(rows)):
-            stop_if_cancelled(feedback)
-            ledger.read += 1
-            feature = QgsFeature()
-            feature.setGeometry(rows.geometries[i])
-            if reasons[i]:
-                ledger.skip(reasons[i])
-                if skipped is not None:
-                    feature.setAttributes(
-                        skipped_fields.row(rows.attributes[i], [rows.fids[i], reasons[i]])
-                    )
-                    skipped.addFeature(feature, FAST_INSERT)
-                continue
-            feature.setAttributes(
-                output_fields.row(
-                    rows.attributes[i],
-                    [float(dip_direction[i]), float(rows.dip[i]), float(strike[i])],
-                )
-            )
-            output.addFeature(feature, FAST_INSERT)
-            ledger.written += 1
-            if i % 1000 == 0:
-                feedback.setProgress(50 + 50 * i / max(len(rows), 1))
+        ledger.read = len(rows)
+        for reason in reasons[reasons != ""]:
+            ledger.skip(reason)
+        bad = np.flatnonzero(reasons != "")
+        skip_features(
+            sinks[SKIPPED][0],
+            skipped_fields,
+            [rows.geometries[i] for i in bad],
+            [rows.attributes[i] for i in bad],
+            np.asarray(rows.fids)[bad],
+            reasons[bad],
+        )
+        feedback.setProgress(75)
+        stop_if_cancelled(feedback)
+        good = np.flatnonzero(reasons == "")
+        ledger.written = len(good)
+        columns = {
+            F.DIP_DIRECTION: dip_direction[good],
+            F.DIP: rows.dip[good],
+            F.STRIKE: strike_from_dip_direction(dip_direction)[good],
+        }
+        add_qgis_features(
+            sinks[OUTPUT][0],
+            [rows.geometries[i] for i in good],
+            output_fields.rows(output_fields.columns([rows.attributes[i] for i in good], columns)),
+        )
+        feedback.setProgress(100)
         ledger.close()
-        results = {OUTPUT: output_id}
-        if skipped is not None:
-            results[SKIPPED] = skipped_id
-        return results
+        return sink_results(sinks)
 
     @staticmethod
     def _grid(settings, source, rows, feedback):

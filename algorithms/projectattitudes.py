@@ -1,29 +1,18 @@
 """sectionwright:projectattitudes — attitudes carried onto section lines."""
 
 from collections import Counter
+from dataclasses import dataclass
 
 import numpy as np
+import shapely
 from qgis.core import (
-    QgsCoordinateReferenceSystem,
-    QgsFeature,
-    QgsLineString,
-    QgsPoint,
-    QgsProcessingParameterDistance,
     QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterNumber,
-    QgsProcessingParameterRasterLayer,
 )
 
-from .compat.qgis_compat import (
-    FAST_INSERT,
-    LINE_STRING,
-    NUMBER_DOUBLE,
-    POINT_Z,
-    SOURCE_LINES,
-    SOURCE_POINTS,
-)
+from .compat.qgis_compat import LINE_STRING, NUMBER_DOUBLE, POINT_Z, SOURCE_LINES, SOURCE_POINTS
 from .core.carry import CarryOptions, carry_attitudes
 from .core.crs import transformer
 from .core.lines import vertex_chainage
@@ -32,11 +21,13 @@ from .core.ticks import tick_segments
 from .framework.base import (
     INPUT,
     LINE_ID_FIELD,
+    MAX_DISTANCE,
     SKIPPED,
     UNIT_FIELD,
     UNITS,
     VERTICAL_EXAGGERATION,
     SectionwrightAlgorithm,
+    sink_results,
 )
 from .framework.ledger import RunLedger
 from .framework.run_guard import ParameterProblem, stop_if_cancelled
@@ -47,14 +38,14 @@ from .inputs.map_layers import read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
-from .outputs.section_space import SECTION_CRS_WKT
+from .outputs.geometry_io import add_features, add_wkb_features, points_z
+from .outputs.section_space import section_crs
+from .outputs.skipped import skip_features
 
 ATTITUDES = "ATTITUDES"
-MAX_DISTANCE = "MAX_DISTANCE"
 PROJECTION = "PROJECTION"
 PLUNGE_TREND = "PLUNGE_TREND"
 PLUNGE = "PLUNGE"
-DEM = "DEM"
 OBLIQUE_ANGLE = "OBLIQUE_ANGLE"
 DIP_UNCERTAINTY = "DIP_UNCERTAINTY"
 STRIKE_UNCERTAINTY = "STRIKE_UNCERTAINTY"
@@ -71,13 +62,59 @@ PROJECTIONS = [
 AUTOMATIC_TICK_FRACTION = 1 / 40  # of the section's length, when TICK_LENGTH is 0
 
 
-def _null(value):
-    return None if value is None or value != value else value
+@dataclass
+class ProjectAttitudesSettings:
+    """Every parameter of a run, read and checked once, before any work."""
+
+    lines: object
+    points: object
+    id_field: str
+    attitudes: AttitudeSettings
+    carry: CarryOptions
+    plunge_trend: float
+    dem: object  # None: not given
+    units: object  # None: not given
+    unit_field: str
+    tick_length: float  # 0: automatic
+
+    @classmethod
+    def read(cls, algorithm, parameters, context):
+        number = lambda name: algorithm.parameterAsDouble(parameters, name, context)  # noqa: E731
+        points = algorithm.source(parameters, ATTITUDES, context)
+        require_map_crs(
+            points.sourceCrs(), ATTITUDES, "the attitudes", "the attitude points on the map"
+        )
+        return cls(
+            lines=algorithm.source(parameters, INPUT, context),
+            points=points,
+            id_field=parameters.get(LINE_ID_FIELD) or "",
+            attitudes=AttitudeSettings(algorithm, parameters, context),
+            carry=CarryOptions(
+                method=algorithm.parameterAsEnum(parameters, PROJECTION, context),
+                max_distance=number(MAX_DISTANCE),
+                plunge=number(PLUNGE),
+                exaggeration=number(VERTICAL_EXAGGERATION),
+                oblique_angle=number(OBLIQUE_ANGLE),
+                dip_sd=number(DIP_UNCERTAINTY),
+                strike_sd=number(STRIKE_UNCERTAINTY),
+            ),
+            plunge_trend=number(PLUNGE_TREND),
+            dem=algorithm.dem(parameters, context, required=False),
+            units=algorithm.optional_source(parameters, UNITS, context),
+            unit_field=algorithm.parameterAsString(parameters, UNIT_FIELD, context),
+            tick_length=number(TICK_LENGTH),
+        )
 
 
 class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "projectattitudes"
     DISPLAY_NAME = "Project attitudes onto sections"
+    OUTPUT_SCHEMAS = {
+        OUTPUT: F.CARRIED_ATTITUDES,
+        OUTPUT_TICKS: F.CARRIED_TICKS,
+        OUTPUT_CONNECTORS: F.CARRIED_ATTITUDES,
+        SKIPPED: F.SKIPPED_ROWS,
+    }
 
     def initAlgorithm(self, config=None):
         tr = self.tr
@@ -88,15 +125,25 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             )
         )
         add_attitude_parameters(self, ATTITUDES)
+        self.add_max_distance_parameter("Maximum distance from the section")
+        self._add_projection_parameters()
+        self.add_dem_parameter("DEM (elevation of points without Z, and of the ground)", True)
+        self.add_unit_parameters()
+        self._add_uncertainty_parameters()
+        self.add_exaggeration_parameter()
         self.addParameter(
-            QgsProcessingParameterDistance(
-                MAX_DISTANCE,
-                tr("Maximum distance from the section"),
-                defaultValue=250.0,
-                parentParameterName=INPUT,
+            QgsProcessingParameterNumber(
+                TICK_LENGTH,
+                tr("Tick length in the section view (0: automatic)"),
+                NUMBER_DOUBLE,
+                defaultValue=0.0,
                 minValue=0.0,
             )
         )
+        self._add_outputs()
+
+    def _add_projection_parameters(self):
+        tr = self.tr
         self.addParameter(
             QgsProcessingParameterEnum(
                 PROJECTION, tr("Projection"), options=[tr(p) for p in PROJECTIONS], defaultValue=0
@@ -122,12 +169,9 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 maxValue=89.9,
             )
         )
-        self.addParameter(
-            QgsProcessingParameterRasterLayer(
-                DEM, tr("DEM (elevation of points without Z, and of the ground)"), optional=True
-            )
-        )
-        self.add_unit_parameters()
+
+    def _add_uncertainty_parameters(self):
+        tr = self.tr
         for name, label, default, top in (
             (OBLIQUE_ANGLE, "Flag lines closer to strike than (degrees)", 20.0, 90.0),
             (DIP_UNCERTAINTY, "Dip uncertainty, one standard deviation (degrees)", 2.0, 45.0),
@@ -138,16 +182,9 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                     name, tr(label), NUMBER_DOUBLE, defaultValue=default, minValue=0.0, maxValue=top
                 )
             )
-        self.add_exaggeration_parameter()
-        self.addParameter(
-            QgsProcessingParameterNumber(
-                TICK_LENGTH,
-                tr("Tick length in the section view (0: automatic)"),
-                NUMBER_DOUBLE,
-                defaultValue=0.0,
-                minValue=0.0,
-            )
-        )
+
+    def _add_outputs(self):
+        tr = self.tr
         self.addParameter(
             QgsProcessingParameterFeatureSink(
                 OUTPUT, tr("Attitudes on sections (map)"), SOURCE_POINTS
@@ -170,51 +207,49 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.source(parameters, INPUT, context)
-        points = self.source(parameters, ATTITUDES, context)
-        require_map_crs(
-            points.sourceCrs(), ATTITUDES, "the attitudes", "the attitude points on the map"
-        )
-        settings = AttitudeSettings(self, parameters, context)
-        options = self._options(parameters, context)
-        work_crs = working_crs(lines, context, feedback)
-        work_wkt = crs_wkt(work_crs)
-        parts = self._usable_parts(lines, parameters, work_crs, context, feedback)
-        network = SectionNetwork([p.coords for p in parts], 2 * max(options.max_distance, 1e-9))
+        settings = ProjectAttitudesSettings.read(self, parameters, context)
+        work_crs = working_crs(settings.lines, context, feedback)
+        parts = _usable_parts(settings, work_crs, context, feedback)
+        rows = settings.attitudes.read(settings.points, feedback)
+        feedback.setProgress(30)
+        stop_if_cancelled(feedback)
+        xy, record = self._carry(settings, parts, rows, work_crs, context, feedback)
+        feedback.setProgress(60)
+        stop_if_cancelled(feedback)
+        fields = _output_fields(settings.points, feedback)
+        sinks = self._sinks(parameters, context, settings, fields)
+        _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback)
+        feedback.setProgress(100)
+        return sink_results(sinks)
 
-        rows = settings.read(points, feedback)
+    @staticmethod
+    def _carry(settings, parts, rows, work_crs, context, feedback):
+        """Working-CRS positions of the attitudes and their section record
+        (``reason`` set for every row that is not carried)."""
+        work_wkt = crs_wkt(work_crs)
+        network = SectionNetwork(
+            [p.coords for p in parts], 2 * max(settings.carry.max_distance, 1e-9)
+        )
         xy = np.column_stack(
-            transformer(crs_wkt(points.sourceCrs()), work_wkt)(rows.xyz[:, 0], rows.xyz[:, 1])
+            transformer(crs_wkt(settings.points.sourceCrs()), work_wkt)(
+                rows.xyz[:, 0], rows.xyz[:, 1]
+            )
         )
         reasons = np.array([geometry_reason(g) for g in rows.geometries], dtype=object)
         reasons = np.where(reasons == "", rows.reasons, reasons)
+        to_grid = settings.attitudes.to_grid
         dip_direction = np.where(
-            reasons == "",
-            settings.to_grid(rows.dip_direction, xy, work_wkt, rows.declination),
-            np.nan,
+            reasons == "", to_grid(rows.dip_direction, xy, work_wkt, rows.declination), np.nan
         )
-        trend = settings.to_grid(
-            np.full(len(rows), self.parameterAsDouble(parameters, PLUNGE_TREND, context)),
-            xy,
-            work_wkt,
-            rows.declination,
-        )
+        trend = to_grid(np.full(len(rows), settings.plunge_trend), xy, work_wkt, rows.declination)
         feedback.setProgress(40)
-        stop_if_cancelled(feedback)
-
-        dem = self.parameterAsRasterLayer(parameters, DEM, context)
-        units = self.optional_source(parameters, UNITS, context)
         with bounded_gdal_cache():
-            sampler = DemSampler(dem, 1, 1.0, work_crs) if dem is not None else None
+            sampler = (
+                DemSampler(settings.dem, 1, 1.0, work_crs) if settings.dem is not None else None
+            )
             unit_map = (
-                read_unit_map(
-                    units,
-                    self.parameterAsString(parameters, UNIT_FIELD, context),
-                    work_crs,
-                    context,
-                    feedback,
-                )
-                if units is not None
+                read_unit_map(settings.units, settings.unit_field, work_crs, context, feedback)
+                if settings.units is not None
                 else None
             )
             record = carry_attitudes(
@@ -223,151 +258,129 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 rows.xyz[:, 2],
                 dip_direction,
                 np.where(reasons == "", rows.dip, np.nan),
-                options,
+                settings.carry,
                 trend=trend,
                 elevation_at=sampler.elevations if sampler else None,
                 unit_at=unit_map.unit_at if unit_map else None,
             )
         record["reason"] = np.where(reasons != "", reasons, record["reason"])
-        feedback.setProgress(60)
-        stop_if_cancelled(feedback)
-        return self._write(
-            parameters, context, feedback, points, lines, parts, rows, record, xy, work_wkt
+        return xy, record
+
+    def _sinks(self, parameters, context, settings, fields):
+        carried, ticks, skipped = fields
+        points, lines_crs = settings.points, settings.lines.sourceCrs()
+        specs = (
+            (OUTPUT, carried.qgs_fields(), POINT_Z, lines_crs),
+            (OUTPUT_TICKS, ticks.qgs_fields(), LINE_STRING, section_crs()),
+            (OUTPUT_CONNECTORS, carried.qgs_fields(), LINE_STRING, lines_crs),
+            (SKIPPED, skipped.qgs_fields(), points.wkbType(), points.sourceCrs()),
         )
+        return self.open_sinks(parameters, context, specs, required=(OUTPUT, OUTPUT_TICKS))
 
-    def _options(self, parameters, context):
-        value = lambda name: self.parameterAsDouble(parameters, name, context)  # noqa: E731
-        return CarryOptions(
-            method=self.parameterAsEnum(parameters, PROJECTION, context),
-            max_distance=value(MAX_DISTANCE),
-            plunge=value(PLUNGE),
-            exaggeration=value(VERTICAL_EXAGGERATION),
-            oblique_angle=value(OBLIQUE_ANGLE),
-            dip_sd=value(DIP_UNCERTAINTY),
-            strike_sd=value(STRIKE_UNCERTAINTY),
-        )
 
-    @staticmethod
-    def _usable_parts(lines, parameters, work_crs, context, feedback):
-        id_field = parameters.get(LINE_ID_FIELD) or ""
-        parts = read_section_parts(lines, id_field, work_crs, context, feedback)
-        for part in parts:
-            if part.coords is None:
-                feedback.pushInfo(f"Section line {part.label} ignored: {part.reason}.")
-        usable = [p for p in parts if p.coords is not None]
-        if not usable:
-            raise ParameterProblem(INPUT, "none of the section lines can be used (see the log).")
-        return usable
+def _output_fields(points, feedback):
+    """The fields of the carried outputs and of SKIPPED, both after the
+    attitude layer's own."""
+    carried = CarriedFields(points.fields(), F.CARRIED_ATTITUDES)
+    carried.log_replaced(feedback, "the attitude layer")
+    ticks = CarriedFields(points.fields(), F.CARRIED_TICKS)
+    return carried, ticks, CarriedFields(points.fields(), F.SKIPPED_ROWS)
 
-    def _write(
-        self, parameters, context, feedback, points, lines, parts, rows, record, xy, work_wkt
-    ):
-        carried_fields = CarriedFields(points.fields(), F.ATTITUDE_FIELDS)
-        carried_fields.log_replaced(feedback, "the attitude layer")
-        # Section-space layers carry their exaggeration (DESIGN.md).
-        tick_fields = CarriedFields(points.fields(), F.ATTITUDE_FIELDS + (F.EXAGGERATION,))
-        skipped_fields = CarriedFields(points.fields(), (F.SOURCE_FID, F.REASON))
-        section_crs = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-        sinks = {}
-        for name, kind, crs, fields in (
-            (OUTPUT, POINT_Z, lines.sourceCrs(), carried_fields.fields),
-            (OUTPUT_TICKS, LINE_STRING, section_crs, tick_fields.fields),
-            (OUTPUT_CONNECTORS, LINE_STRING, lines.sourceCrs(), carried_fields.fields),
-            (SKIPPED, points.wkbType(), points.sourceCrs(), skipped_fields.fields),
-        ):
-            sinks[name] = self.parameterAsSink(parameters, name, context, fields, kind, crs)
-        for name in (OUTPUT, OUTPUT_TICKS):
-            if sinks[name][0] is None:
-                raise ParameterProblem(name, "choose where to write this output.")
-        exaggeration = self.parameterAsDouble(parameters, VERTICAL_EXAGGERATION, context)
 
-        to_map = transformer(work_wkt, crs_wkt(lines.sourceCrs()))
-        landing_map = np.column_stack(to_map(*record["landing_xy"].T))
-        source_map = np.column_stack(to_map(*xy.T))
-        labels = np.array([p.label for p in parts] + [""], dtype=object)[record["line"]]
-        ticks = tick_segments(
-            record["chainage"],
-            record["elev"],
-            exaggeration,
-            record["plot_dip"],
-            record["sense"],
-            self._tick_lengths(parameters, context, parts)[record["line"]],
-        )
-        columns = self._columns(record, labels, rows.fids)
-        ledger = RunLedger(feedback)
-        per_section = Counter()
-        flagged = Counter()
-        for i, values in enumerate(columns):
-            stop_if_cancelled(feedback)
-            ledger.read += 1
-            reason = record["reason"][i]
-            if reason:
-                ledger.skip(reason)
-                self._add_skipped(sinks[SKIPPED][0], skipped_fields, rows, i, reason)
-                continue
-            attributes = carried_fields.row(rows.attributes[i], values)
-            self._add_outputs(
-                sinks,
-                attributes,
-                exaggeration,
-                record["elev"][i],
-                (landing_map[i], source_map[i], ticks[i]),
-            )
-            ledger.written += 1
-            per_section[labels[i]] += 1
-            flagged[labels[i]] += bool(record["flags"][i])
-            if i % 1000 == 0:
-                feedback.setProgress(60 + 40 * i / max(len(rows), 1))
-        for part in parts:
-            feedback.pushInfo(
-                f"Section {part.label}: {per_section[part.label]} attitude(s), "
-                f"{flagged[part.label]} flagged."
-            )
-        ledger.close()
-        return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+def _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback):
+    carried_fields, tick_fields, skipped_fields = fields
+    ledger = RunLedger(feedback)
+    ledger.read = len(rows)
+    refused = np.flatnonzero(record["reason"] != "")
+    for reason in record["reason"][refused]:
+        ledger.skip(reason)
+    skip_features(
+        sinks[SKIPPED][0],
+        skipped_fields,
+        [rows.geometries[i] for i in refused],
+        [rows.attributes[i] for i in refused],
+        np.asarray(rows.fids)[refused],
+        record["reason"][refused],
+    )
+    carried = np.flatnonzero(record["reason"] == "")
+    ledger.written = len(carried)
+    labels = np.array([p.label for p in parts] + [""], dtype=object)[record["line"]]
+    stop_if_cancelled(feedback)
+    to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
+    ticks = tick_segments(
+        record["chainage"],
+        record["elev"],
+        settings.carry.exaggeration,
+        record["plot_dip"],
+        record["sense"],
+        _tick_lengths(settings.tick_length, parts)[record["line"]],
+    )
+    _write_carried(
+        sinks,
+        (carried_fields, tick_fields),
+        (rows, record, labels, carried, xy),
+        settings.carry.exaggeration,
+        ticks,
+        to_map,
+    )
+    _log_sections(feedback, parts, labels[carried], record["flags"][carried])
+    ledger.close()
 
-    @staticmethod
-    def _columns(record, labels, fids):
-        """Rows of the computed fields (fields.ATTITUDE_FIELDS, named as the
-        record's keys) as plain Python values, NaN as NULL."""
-        columns = []
-        for name in F.ATTITUDE_FIELDS:
-            if name == F.SECTION:
-                columns.append([str(v) for v in labels])
-            elif name == F.SOURCE_FID:
-                columns.append(list(fids))
-            elif name in F.TEXT_FIELDS:
-                columns.append([str(v) for v in record[name]])
-            else:
-                columns.append([_null(v) for v in record[name].tolist()])
-        return zip(*columns)
 
-    def _tick_lengths(self, parameters, context, parts):
-        fixed = self.parameterAsDouble(parameters, TICK_LENGTH, context)
-        lengths = np.array([vertex_chainage(p.coords)[-1] for p in parts] + [0.0])
-        return np.full(len(lengths), fixed) if fixed > 0 else lengths * AUTOMATIC_TICK_FRACTION
-
-    @staticmethod
-    def _add_outputs(sinks, attributes, exaggeration, z, places):
-        landing, source, tick = places
-        feature = QgsFeature()
-        feature.setAttributes(attributes)
-        feature.setGeometry(QgsPoint(landing[0], landing[1], z))
-        sinks[OUTPUT][0].addFeature(feature, FAST_INSERT)
+def _write_carried(sinks, fields, carried_rows, exaggeration, ticks, to_map):
+    """The three outputs of the carried attitudes, sharing their fields (the
+    ticks with the exaggeration besides)."""
+    carried_fields, tick_fields = fields
+    rows, record, labels, carried, xy = carried_rows
+    # The core's record is keyed by the output's field names.
+    computed = {name: record[name][carried] for name in F.CARRIED_ATTITUDES.names if name in record}
+    computed.update({F.SECTION: labels[carried], F.SOURCE_FID: np.asarray(rows.fids)[carried]})
+    source_attributes = [rows.attributes[i] for i in carried]
+    attributes = carried_fields.rows(carried_fields.columns(source_attributes, computed))
+    computed[F.EXAGGERATION] = np.full(len(carried), exaggeration)
+    tick_attributes = tick_fields.rows(tick_fields.columns(source_attributes, computed))
+    landing = np.column_stack(to_map(*record["landing_xy"][carried].T))
+    elevation = record["elev"][carried]
+    add_wkb_features(sinks[OUTPUT][0], points_z(*landing.T, elevation), attributes)
+    drawn = np.flatnonzero(~np.isnan(elevation))
+    add_features(
+        sinks[OUTPUT_TICKS][0],
+        shapely.linestrings(ticks[carried][drawn]),
+        [tick_attributes[i] for i in drawn],
+    )
+    if sinks[OUTPUT_CONNECTORS][0] is not None:
+        source = np.column_stack(to_map(*xy[carried].T))
         # A point already on its line travels nowhere: a line of no length is no geometry.
-        if sinks[OUTPUT_CONNECTORS][0] is not None and np.any(source != landing):
-            feature.setGeometry(QgsLineString([QgsPoint(*source), QgsPoint(*landing)]))
-            sinks[OUTPUT_CONNECTORS][0].addFeature(feature, FAST_INSERT)
-        if not np.isnan(z):
-            feature.setAttributes(attributes + [exaggeration])
-            feature.setGeometry(QgsLineString([QgsPoint(*tick[0]), QgsPoint(*tick[1])]))
-            sinks[OUTPUT_TICKS][0].addFeature(feature, FAST_INSERT)
+        moved = np.flatnonzero(np.any(source != landing, axis=1))
+        add_features(
+            sinks[OUTPUT_CONNECTORS][0],
+            shapely.linestrings(np.stack((source[moved], landing[moved]), axis=1)),
+            [attributes[i] for i in moved],
+        )
 
-    @staticmethod
-    def _add_skipped(sink, skipped_fields, rows, i, reason):
-        if sink is None:
-            return
-        feature = QgsFeature()
-        feature.setAttributes(skipped_fields.row(rows.attributes[i], [rows.fids[i], reason]))
-        feature.setGeometry(rows.geometries[i])
-        sink.addFeature(feature, FAST_INSERT)
+
+def _usable_parts(settings, work_crs, context, feedback):
+    parts = read_section_parts(settings.lines, settings.id_field, work_crs, context, feedback)
+    for part in parts:
+        if part.coords is None:
+            feedback.pushInfo(f"Section line {part.label} ignored: {part.reason}.")
+    usable = [p for p in parts if p.coords is not None]
+    if not usable:
+        raise ParameterProblem(INPUT, "none of the section lines can be used (see the log).")
+    return usable
+
+
+def _tick_lengths(fixed, parts):
+    """Tick length per section part (and a last one for 'no section')."""
+    lengths = np.array([vertex_chainage(p.coords)[-1] for p in parts] + [0.0])
+    return np.full(len(lengths), fixed) if fixed > 0 else lengths * AUTOMATIC_TICK_FRACTION
+
+
+def _log_sections(feedback, parts, labels, flags):
+    per_section = Counter(labels.tolist())
+    flagged = Counter(labels[flags != ""].tolist())
+    for part in parts:
+        feedback.pushInfo(
+            f"Section {part.label}: {per_section[part.label]} attitude(s), "
+            f"{flagged[part.label]} flagged."
+        )

@@ -3,10 +3,10 @@
 import os
 import shutil
 import tempfile
+from dataclasses import dataclass
 from pathlib import Path
 
 from qgis.core import (
-    QgsFeature,
     QgsLayoutExporter,
     QgsLayoutItemPage,
     QgsLayoutSize,
@@ -22,20 +22,22 @@ from qgis.core import (
     QgsRectangle,
 )
 
+from .compat.null import plain
 from .compat.qgis_compat import (
     EXPORT_SUCCESS,
-    FAST_INSERT,
     NO_THREADING,
     SOURCE_ANY_VECTOR,
     SOURCE_LINES,
     TEXT_AS_TEXT,
 )
 from .core.sheet_scale import end_names, padded
-from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm, skipped_fields
+from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
 from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.section_lines import read_section_parts, working_crs
+from .outputs import fields as F
 from .outputs import styles
+from .outputs.skipped import skip_sections
 from .sheet.layers import (
     collar_points,
     copy_section,
@@ -65,10 +67,66 @@ PAGE_SIZES = [
 NO_PROFILE = "no profile for this section in PROFILE"
 
 
+@dataclass
+class SheetSettings:
+    """Every parameter of a run, read and checked once, before any work."""
+
+    lines: object
+    id_field: str
+    profile: object
+    inputs: dict  # INTERVALS, TICKS, CROSSINGS, BOREHOLES: layer or None
+    map_layers: list
+    title: str
+    label_dips: bool
+    page_size: tuple  # mm
+    add_layout: bool
+    output: str
+    suffix: str
+
+    @classmethod
+    def read(cls, algorithm, parameters, context):
+        lines = algorithm.source(parameters, INPUT, context)
+        profile = algorithm.parameterAsVectorLayer(parameters, PROFILE, context)
+        if profile is None or profile.fields().lookupField(F.SECTION) < 0:
+            raise ParameterProblem(
+                PROFILE,
+                "give the section-view profile made by Topographic profile (it needs "
+                f"a '{F.SECTION}' field).",
+            )
+        output = algorithm.parameterAsFileOutput(parameters, OUTPUT, context)
+        return cls(
+            lines=lines,
+            id_field=algorithm.parameterAsString(parameters, LINE_ID_FIELD, context),
+            profile=profile,
+            inputs={
+                name: algorithm.parameterAsVectorLayer(parameters, name, context)
+                for name in (INTERVALS, TICKS, CROSSINGS, BOREHOLES)
+            },
+            map_layers=algorithm.parameterAsLayerList(parameters, MAP_LAYERS, context),
+            title=algorithm.parameterAsString(parameters, TITLE, context),
+            label_dips=algorithm.parameterAsBoolean(parameters, LABEL_DIPS, context),
+            page_size=PAGE_SIZES[algorithm.parameterAsEnum(parameters, PAGE_SIZE, context)][1],
+            add_layout=algorithm.parameterAsBoolean(parameters, ADD_LAYOUT, context),
+            output=output,
+            suffix=_checked_suffix(output),
+        )
+
+
+def _checked_suffix(output):
+    suffix = Path(output).suffix.lower()
+    if suffix not in (".pdf", ".png", ".svg"):
+        raise ParameterProblem(OUTPUT, "the file must end in .pdf, .png or .svg.")
+    folder = Path(output).parent
+    if not folder.is_dir() or not os.access(folder, os.W_OK):
+        raise ParameterProblem(OUTPUT, f"cannot write into {folder}.")
+    return suffix
+
+
 class SectionSheetAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "sectionsheet"
     DISPLAY_NAME = "Section sheet"
     GROUP_ID = "sectiondrawing"
+    OUTPUT_SCHEMAS = {SKIPPED: F.SKIPPED_SECTIONS}
 
     def flags(self):
         # Print layouts are built and rendered on the main thread.
@@ -129,55 +187,51 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        lines = self.source(parameters, INPUT, context)
-        profile = self.parameterAsVectorLayer(parameters, PROFILE, context)
-        if profile is None or profile.fields().lookupField("section") < 0:
-            raise ParameterProblem(
-                PROFILE,
-                "give the section-view profile made by Topographic profile (it needs "
-                "a 'section' field).",
-            )
-        output = self.parameterAsFileOutput(parameters, OUTPUT, context)
-        suffix = Path(output).suffix.lower()
-        if suffix not in (".pdf", ".png", ".svg"):
-            raise ParameterProblem(OUTPUT, "the file must end in .pdf, .png or .svg.")
-        folder = Path(output).parent
-        if not folder.is_dir() or not os.access(folder, os.W_OK):
-            raise ParameterProblem(OUTPUT, f"cannot write into {folder}.")
-        inputs = {
-            name: self.parameterAsVectorLayer(parameters, name, context)
-            for name in (INTERVALS, TICKS, CROSSINGS, BOREHOLES)
-        }
-        map_layers = self.parameterAsLayerList(parameters, MAP_LAYERS, context)
-        page_size = PAGE_SIZES[self.parameterAsEnum(parameters, PAGE_SIZE, context)][1]
+        settings = SheetSettings.read(self, parameters, context)
+        lines = settings.lines
         skipped, skipped_id = self.parameterAsSink(
-            parameters, SKIPPED, context, skipped_fields(), lines.wkbType(), lines.sourceCrs()
-        )
-
-        work_crs = working_crs(lines, context, feedback)
-        parts = read_section_parts(
-            lines,
-            self.parameterAsString(parameters, LINE_ID_FIELD, context),
-            work_crs,
+            parameters,
+            SKIPPED,
             context,
-            feedback,
-        )
-        builder = SheetBuilder(
-            profile,
-            inputs,
-            map_layers,
+            F.SKIPPED_SECTIONS.qgs_fields(),
+            lines.wkbType(),
             lines.sourceCrs(),
-            self.parameterAsString(parameters, TITLE, context),
-            self.parameterAsBoolean(parameters, LABEL_DIPS, context),
+        )
+        work_crs = working_crs(lines, context, feedback)
+        parts = read_section_parts(lines, settings.id_field, work_crs, context, feedback)
+        builder = SheetBuilder(
+            settings.profile,
+            settings.inputs,
+            settings.map_layers,
+            lines.sourceCrs(),
+            settings.title,
+            settings.label_dips,
             feedback,
         )
-        add_layout = self.parameterAsBoolean(parameters, ADD_LAYOUT, context)
-        project = context.project() if add_layout and context.project() else QgsProject()
+        project = context.project() if settings.add_layout and context.project() else QgsProject()
         layout = QgsPrintLayout(project)
         layout.initializeDefaults()
-        layout.setName(self.parameterAsString(parameters, TITLE, context))
+        layout.setName(settings.title)
         ledger = RunLedger(feedback)
-        keep_alive, pages = [], []
+        sections, pages = self._pages(layout, builder, parts, settings, ledger, skipped, feedback)
+        if not pages:
+            raise QgsProcessingException("No section could be drawn: see the log.")
+        stop_if_cancelled(feedback)
+        files = self._export(layout, pages, settings.output, settings.suffix)
+        feedback.pushInfo(f"Written: {', '.join(files)}")
+        if settings.add_layout and project is context.project():
+            self._add_to_project(project, layout, sections, feedback)
+        ledger.close()
+        results = {OUTPUT: settings.output}
+        if skipped is not None:
+            results[SKIPPED] = skipped_id
+        return results
+
+    def _pages(self, layout, builder, parts, settings, ledger, skipped, feedback):
+        """A page per section that has a profile; the others to SKIPPED.
+        Returns the sections drawn (kept alive with the layout) and their
+        labels."""
+        sections, pages = [], []
         for part in parts:
             stop_if_cancelled(feedback)
             ledger.read += 1
@@ -185,12 +239,12 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             if section is None:
                 part.reason = part.reason or NO_PROFILE
                 ledger.skip(part.reason)
-                self._skip(skipped, part)
+                skip_sections(skipped, [part])
                 feedback.pushInfo(f"Section {part.label}: no page ({part.reason}).")
                 continue
-            keep_alive.append(section)
-            page_number = self._page(layout, len(pages), page_size)
-            scale = add_page(layout, page_number, page_size, section)
+            sections.append(section)
+            page_number = self._page(layout, len(pages), settings.page_size)
+            scale = add_page(layout, page_number, settings.page_size, section)
             pages.append(part.label)
             box = section.extent
             feedback.pushInfo(
@@ -200,18 +254,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             )
             ledger.written += 1
             feedback.setProgress(80.0 * len(pages) / max(len(parts), 1))
-        if not pages:
-            raise QgsProcessingException("No section could be drawn: see the log.")
-        stop_if_cancelled(feedback)
-        files = self._export(layout, pages, output, suffix)
-        feedback.pushInfo(f"Written: {', '.join(files)}")
-        if add_layout and project is context.project():
-            self._add_to_project(project, layout, keep_alive, feedback)
-        ledger.close()
-        results = {OUTPUT: output}
-        if skipped is not None:
-            results[SKIPPED] = skipped_id
-        return results
+        return sections, pages
 
     @staticmethod
     def _add_to_project(project, layout, sections, feedback):
@@ -229,15 +272,6 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
                 group.addLayer(layer)
         manager.addLayout(layout)
         feedback.pushInfo(f"Layout '{layout.name()}' added to the project.")
-
-    @staticmethod
-    def _skip(sink, part):
-        if sink is None:
-            return
-        feature = QgsFeature()
-        feature.setGeometry(part.geometry)
-        feature.setAttributes([part.label, part.fid, part.reason])
-        sink.addFeature(feature, FAST_INSERT)
 
     @staticmethod
     def _page(layout, index, page_size):
@@ -306,51 +340,11 @@ class SheetBuilder:
         ground = next(self.profile.getFeatures(section_filter(part.label)), None)
         if ground is None:
             return None
-        ve_field = self.profile.fields().lookupField("ve")
-        exaggeration = float(ground["ve"]) if ve_field >= 0 else 1.0
-        inputs = self.inputs
-        holes = copy_section(
-            inputs.get(BOREHOLES), part.label, "Boreholes", "LineString", styles.hole_renderer()
-        )
-        layers = {
-            "collars": collar_points(holes, "Collars", styles.collar_renderer()),
-            "ticks": copy_section(
-                inputs.get(TICKS), part.label, "Dip ticks", "LineString", styles.tick_renderer()
-            ),
-            "crossings": crossings_in_section(
-                inputs.get(CROSSINGS),
-                part.label,
-                exaggeration,
-                "Contacts and boundaries",
-                styles.crossing_renderer(),
-            ),
-            "holes": holes,
-            "ground": copy_section(
-                self.profile,
-                part.label,
-                "Ground surface",
-                "MultiLineString",
-                styles.profile_renderer(),
-            ),
-            "strip": copy_section(
-                inputs.get(INTERVALS),
-                part.label,
-                "Geology strip",
-                "LineString",
-                styles.unit_strip_renderer(self.strip_renderer_units, "unit"),
-            ),
-        }
-        for name, given in (
-            ("ticks", TICKS),
-            ("crossings", CROSSINGS),
-            ("holes", BOREHOLES),
-            ("strip", INTERVALS),
-        ):
-            layer = layers[name]
-            if inputs.get(given) is not None and (layer is None or not layer.featureCount()):
-                self.feedback.pushInfo(
-                    f"Section {part.label}: nothing in {given} for this section."
-                )
+        ve_field = self.profile.fields().lookupField(F.EXAGGERATION)
+        ve = plain(ground[F.EXAGGERATION]) if ve_field >= 0 else None
+        exaggeration = 1.0 if ve is None else float(ve)
+        layers = self._layers(part.label, exaggeration)
+        self._report_empty(part.label, layers)
         present = [layer for layer in layers.values() if layer is not None]
         start, end = end_names(part.coords)
         line = line_on_map(
@@ -376,12 +370,61 @@ class SheetBuilder:
             label_dips=self.label_dips,
         )
 
+    def _layers(self, label, exaggeration):
+        """The section's own styled layers, by role (None: no such input)."""
+        inputs = self.inputs
+        holes = copy_section(
+            inputs.get(BOREHOLES), label, "Boreholes", "LineString", styles.hole_renderer()
+        )
+        layers = {
+            "collars": collar_points(holes, "Collars", styles.collar_renderer()),
+            "ticks": copy_section(
+                inputs.get(TICKS), label, "Dip ticks", "LineString", styles.tick_renderer()
+            ),
+            "crossings": crossings_in_section(
+                inputs.get(CROSSINGS),
+                label,
+                exaggeration,
+                "Contacts and boundaries",
+                styles.crossing_renderer(),
+            ),
+            "holes": holes,
+            "ground": copy_section(
+                self.profile,
+                label,
+                "Ground surface",
+                "MultiLineString",
+                styles.profile_renderer(),
+            ),
+            "strip": copy_section(
+                inputs.get(INTERVALS),
+                label,
+                "Geology strip",
+                "LineString",
+                styles.unit_strip_renderer(self.strip_renderer_units, F.UNIT),
+            ),
+        }
+        return layers
+
+    def _report_empty(self, label, layers):
+        """A log line for each input given that shows nothing on this section."""
+        inputs = self.inputs
+        for name, given in (
+            ("ticks", TICKS),
+            ("crossings", CROSSINGS),
+            ("holes", BOREHOLES),
+            ("strip", INTERVALS),
+        ):
+            layer = layers[name]
+            if inputs.get(given) is not None and (layer is None or not layer.featureCount()):
+                self.feedback.pushInfo(f"Section {label}: nothing in {given} for this section.")
+
 
 def _units(layer):
-    if layer is None or layer.fields().lookupField("unit") < 0:
+    if layer is None or layer.fields().lookupField(F.UNIT) < 0:
         return []
-    values = layer.uniqueValues(layer.fields().lookupField("unit"))
-    return sorted({str(v) for v in values if v is not None and str(v) not in ("", "NULL")})
+    values = layer.uniqueValues(layer.fields().lookupField(F.UNIT))
+    return sorted({str(v) for v in map(plain, values) if v is not None and str(v) != ""})
 
 
 def _extent(layers, ground):

@@ -63,7 +63,7 @@ def main(demo):
 
     from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
     from sectionwright.algorithms.outputs import styles
-    from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT
+    from sectionwright.algorithms.outputs.section_space import section_crs
     from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
     from sectionwright.algorithms.sheet.page import add_page
 
@@ -105,7 +105,18 @@ def main(demo):
         )
     )
     add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
-    engineering = QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
+    trend_group = root.addGroup("Structural trend and dip domains")
+    add(
+        results,
+        "trend",
+        "Suggested section line (structural trend)",
+        trend_group,
+        renderer=styles.section_line_renderer(),
+    )
+    add(results, "trend_lines", "Section lines checked against the trend", trend_group)
+    add(results, "attitude_domains", "Attitudes with dip domains", trend_group)
+    add(results, "domains", "Dip domains", trend_group)
+    engineering = section_crs()
     view = {}
     for layer_name, name, renderer in (
         ("profile_section", "Ground surface", styles.profile_renderer()),

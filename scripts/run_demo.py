@@ -4,8 +4,10 @@
 
 Makes the demo world, runs the Sectionwright algorithms on every demo
 section line through qgis_process — the topographic profile, the attitudes
-carried onto the sections, the map geology along them and the boreholes —
-writes ``sections.gpkg`` and prints a short summary per section.
+carried onto the sections and their dip domains, the map geology along them,
+the boreholes, and the structural trend with the section azimuth it
+recommends — writes ``sections.gpkg`` and prints a short summary per
+section.
 """
 
 import sys
@@ -55,6 +57,38 @@ def run_attitudes(world, out):
             "OUTPUT_CONNECTORS": headless.gpkg_layer(out, "attitude_connectors"),
             "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped"),
         },
+    )
+
+
+def run_domains(world, out):
+    return headless.run(
+        "sectionwright:dipdomains",
+        {
+            "ATTITUDES": f"{out}|layername=attitudes",
+            "ANGLE_TOLERANCE": 10,
+            "OUTPUT": headless.gpkg_layer(out, "attitude_domains"),
+            "OUTPUT_DOMAINS": headless.gpkg_layer(out, "domains"),
+            "SKIPPED": headless.gpkg_layer(out, "domains_skipped"),
+        },
+        world / ".headless-qgis",
+    )
+
+
+def run_trend(world, out):
+    return headless.run(
+        "sectionwright:structuraltrend",
+        {
+            "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
+            "CONVENTION": 3,
+            "TEXT_FIELD": "attitude",
+            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "MAX_DISTANCE": 500,
+            "OUTPUT": headless.gpkg_layer(out, "trend"),
+            "OUTPUT_LINES": headless.gpkg_layer(out, "trend_lines"),
+            "SKIPPED": headless.gpkg_layer(out, "trend_skipped"),
+        },
+        world / ".headless-qgis",
     )
 
 
@@ -129,9 +163,13 @@ def print_summary(out):
     crossings.ResetReading()
     boundaries = count_by_section(crossings, lambda f: f.GetField("kind") == "unit boundary")
     holes = count_by_section(data.GetLayerByName("boreholes"))
+    domains = count_by_section(data.GetLayerByName("domains"))
+    checked = {f.GetField("section"): f for f in data.GetLayerByName("trend_lines")}
+    print_trend(data.GetLayerByName("trend"))
     print(
         f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
-        f"{'attitudes':>11}{'flagged':>9}{'unit bdys':>11}{'contacts':>10}{'holes':>7}"
+        f"{'attitudes':>11}{'flagged':>9}{'domains':>9}{'unit bdys':>11}{'contacts':>10}"
+        f"{'holes':>7}{'misfit':>8}  advice"
     )
     for feature in data.GetLayerByName("profile_section"):
         label = feature.GetField("section")
@@ -139,8 +177,22 @@ def print_summary(out):
             f"{label:<8}{feature.GetField('length'):>10.1f}{samples[label]:>9d}"
             f"{feature.GetField('min_elev'):>10.1f}{feature.GetField('max_elev'):>10.1f}"
             f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}"
+            f"{domains.get(label, 0):>9d}"
             f"{boundaries.get(label, 0):>11d}{contacts.get(label, 0):>10d}"
-            f"{holes.get(label, 0):>7d}"
+            f"{holes.get(label, 0):>7d}{checked[label].GetField('misfit'):>7.0f}°"
+            f"  {checked[label].GetField('advice')}"
+        )
+
+
+def print_trend(trend):
+    for feature in trend:
+        line = feature.GetGeometryRef()
+        (x0, y0, *_), (x1, y1, *_) = line.GetPoint(0), line.GetPoint(line.GetPointCount() - 1)
+        print(
+            f"Structural trend ({feature.GetField('area')}): {feature.GetField('pattern')}, "
+            f"fold axis {feature.GetField('axis_tr'):03.0f}/{feature.GetField('axis_pl'):02.0f}, "
+            f"recommended section azimuth {feature.GetField('best_az'):.0f}°; suggested line "
+            f"from ({x0:.0f}, {y0:.0f}) to ({x1:.0f}, {y1:.0f}), {line.Length():.0f} m"
         )
 
 
@@ -152,8 +204,10 @@ def main(out_dir):
     for title, step in (
         ("Topographic profile", run_profile),
         ("Attitudes carried onto the sections", run_attitudes),
+        ("Dip domains and representatives", run_domains),
         ("Geology along the sections", run_geology),
         ("Boreholes on the sections", run_boreholes),
+        ("Structural trend", run_trend),
     ):
         report = step(world, out)
         print(

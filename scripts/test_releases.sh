@@ -80,6 +80,13 @@ build_root() {
   echo "$STAMP" > "$dir/.sectionwright-ready"
 }
 
+# The environment of each leg's tests. On 3.44, the last 3.x, whose API QGIS 4
+# continues, QGIS's own deprecation warnings are errors (tests/conftest.py).
+leg_environment() {
+  echo "SECTIONWRIGHT_RELEASE_LEG=$1"
+  [ "$1" != forky ] || echo "SECTIONWRIGHT_QGIS_DEPRECATIONS=error"
+}
+
 run_leg() {
   local suite="$1" dir="$CACHE/$1"; shift
   mount_root "$dir"
@@ -88,7 +95,9 @@ run_leg() {
   version="$(in_root "$dir" python3 -c 'from qgis.core import Qgis; print(Qgis.QGIS_VERSION)')"
   echo "test_releases: $suite, QGIS $version"
   local started=$SECONDS status=0
-  in_root "$dir" env QT_QPA_PLATFORM=offscreen XDG_RUNTIME_DIR=/tmp/runtime-root \
+  local leg_env
+  mapfile -t leg_env < <(leg_environment "$suite")
+  in_root "$dir" env QT_QPA_PLATFORM=offscreen XDG_RUNTIME_DIR=/tmp/runtime-root "${leg_env[@]}" \
     sh -c 'mkdir -p -m 700 /tmp/runtime-root && cd /checkout && exec python3 -m pytest -p no:cacheprovider "$@"' \
     pytest "$@" || status=$?
   echo "test_releases: $suite finished in $((SECONDS - started)) s with status $status"

@@ -175,3 +175,37 @@ def sheet_parameters(m, out, scratch):
 
 
 register("sectionsheet", ("sections", "dem"), sheet_parameters, section_parts)
+
+
+def domain_parameters(m, out, scratch):
+    """Dip domains group the attitudes carried onto the sections: carried first."""
+    carried = processing.run(
+        "sectionwright:projectattitudes",
+        {**RUNS["projectattitudes"].parameters(m, memory, scratch), "SKIPPED": "memory:"},
+    )["OUTPUT"]
+    return {
+        "ATTITUDES": carried,
+        "ANGLE_TOLERANCE": 10.0,
+        "OUTPUT": out("OUTPUT"),
+        "OUTPUT_DOMAINS": out("OUTPUT_DOMAINS"),
+        "SKIPPED": out("SKIPPED"),
+    }
+
+
+register("dipdomains", ("sections", "attitudes"), domain_parameters)
+register(
+    "structuraltrend",
+    ("attitudes",),
+    lambda m, out, scratch: {
+        "ATTITUDES": m.layer("attitudes"),
+        "CONVENTION": 0,
+        "AZIMUTH_FIELD": "dipdir",
+        "DIP_FIELD": "dip",
+        **optional_layer(m, "AREAS", "units", AREA_FIELD="unit"),
+        **({"INPUT": m.layer("sections"), "LINE_ID_FIELD": "name"} if m.has("sections") else {}),
+        "MAX_DISTANCE": 400.0,
+        "OUTPUT": out("OUTPUT"),
+        "OUTPUT_LINES": out("OUTPUT_LINES"),
+        "SKIPPED": out("SKIPPED"),
+    },
+)

@@ -8,6 +8,8 @@ import pytest
 from osgeo import gdal
 from qgis.core import QgsLayoutExporter, QgsProject
 
+from sectionwright.algorithms.compat.qgis_compat import EXPORT_SUCCESS
+
 ROOT = Path(__file__).resolve().parent.parent
 
 pytestmark = pytest.mark.headless  # run_demo.py runs every step through qgis_process
@@ -38,6 +40,6 @@ def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
     settings = QgsLayoutExporter.ImageExportSettings()
     settings.dpi = 60
     result = QgsLayoutExporter(layouts["Section B"]).exportToImage(str(picture), settings)
-    assert result == QgsLayoutExporter.Success
+    assert result == EXPORT_SUCCESS
     grey = gdal.Open(str(picture)).ReadAsArray()[:3].mean(axis=0)
     assert (grey < 200).mean() > 0.01

@@ -56,3 +56,31 @@ def test_boreholes_run_headless(demo_dir, tmp_path):
     assert data.GetLayerByName("boreholes").GetFeatureCount() == 7
     skipped = data.GetLayerByName("boreholes_skipped").GetFeatureCount()
     assert skipped == 2 and line.endswith(f"skipped={skipped}")
+
+
+def test_dip_domains_run_headless_on_the_carried_attitudes(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    run_demo.run_attitudes(demo_dir, out)
+    line = summary(run_demo.run_domains(demo_dir, out))
+    data = ogr.Open(str(out))
+    carried = data.GetLayerByName("attitudes").GetFeatureCount()
+    assert line == f"Summary: read={carried} written={carried} skipped=0"
+    points = data.GetLayerByName("attitude_domains")
+    domains = data.GetLayerByName("domains")
+    assert sum(f.GetField("represent") for f in points) == domains.GetFeatureCount()
+    assert {f.GetField("section") for f in domains} == {"A", "B", "C", "D"}
+
+
+def test_structural_trend_runs_headless(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    report = run_demo.run_trend(demo_dir, out)
+    assert summary(report) == "Summary: read=84 written=82 skipped=2"
+    data = ogr.Open(str(out))
+    (trend,) = list(data.GetLayerByName("trend"))
+    assert trend.GetField("pattern") == "girdle"
+    assert trend.GetGeometryRef().Length() > 5000
+    lines = {
+        f.GetField("section"): f.GetField("misfit") for f in data.GetLayerByName("trend_lines")
+    }
+    assert sorted(lines) == ["A", "B", "C", "D"]
+    assert data.GetLayerByName("trend_skipped").GetFeatureCount() == 2

@@ -79,7 +79,8 @@ def test_a_line_that_meets_nothing_still_runs_to_a_summary(
     processing.run(run.algorithm, run.parameters(maps[case], memory, tmp_path), feedback=feedback)
     counts = summary(feedback)
     assert counts["read"] == counts["written"] + counts["skipped"]
-    assert counts["read"] == run.rows_read(maps[case])
+    if run.rows_read is not None:
+        assert counts["read"] == run.rows_read(maps[case])
 
 
 def test_no_ground_at_all_is_skipped_with_its_reason(provider, maps, tmp_path):

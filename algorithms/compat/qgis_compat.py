@@ -2,74 +2,97 @@
 
 QGIS moved many enums into the scoped ``Qgis`` namespace (3.30 and later)
 and field types from ``QVariant`` to ``QMetaType`` (3.38); QGIS 4 drops the
-old spellings. Everything else imports these names from here.
+old spellings. Everything else imports these names from here. An old
+spelling is looked up only on a QGIS that lacks the new one: on 3.30 and
+later the old names are aliases that QGIS patches in for old scripts
+(``is_monkey_patched``), which QGIS 4 need not have.
 """
 
-from qgis.core import (
-    Qgis,
-    QgsFeatureRequest,
-    QgsFeatureSink,
-    QgsLayoutExporter,
-    QgsLegendStyle,
-    QgsPalLayerSettings,
-    QgsProcessing,
-    QgsProcessingAlgorithm,
-    QgsProcessingFeatureSource,
-    QgsProcessingParameterNumber,
-    QgsRenderContext,
-    QgsUnitTypes,
-    QgsWkbTypes,
+import qgis.core
+from qgis.core import Qgis, QgsFeatureSink, QgsLayoutExporter, QgsUnitTypes, QgsWkbTypes
+
+# Menu actions of the plugin's desktop glue. Qt6 has QAction in QtGui, and
+# so has QGIS 3.44's qgis.PyQt.QtGui for Qt5; 3.22's has it in QtWidgets only.
+try:
+    from qgis.PyQt.QtGui import QAction
+except ImportError:
+    from qgis.PyQt.QtWidgets import QAction  # noqa: F401 (imported from here)
+
+
+def _scoped(scope, member, legacy, qgis_namespace=Qgis):
+    """``Qgis.<scope>.<member>`` where this QGIS has it, else ``legacy``, the
+    dotted name of the old spelling in ``qgis.core`` (``"QgsWkbTypes.PointZ"``)."""
+    value = getattr(getattr(qgis_namespace, scope, None), member, None)
+    if value is not None:
+        return value
+    value = qgis.core
+    for name in legacy.split("."):
+        value = getattr(value, name)
+    return value
+
+
+def field_types(qgis_version=Qgis.QGIS_VERSION_INT):
+    """(double, 64-bit integer, string) field types: QMetaType from 3.38 on
+    (QGIS 4 takes nothing else), QVariant before (3.22 takes nothing else)."""
+    if qgis_version >= 33800:
+        from qgis.PyQt.QtCore import QMetaType
+
+        return QMetaType.Type.Double, QMetaType.Type.LongLong, QMetaType.Type.QString
+    from qgis.PyQt.QtCore import QVariant
+
+    return QVariant.Double, QVariant.LongLong, QVariant.String
+
+
+POINT_Z = _scoped("WkbType", "PointZ", "QgsWkbTypes.PointZ")
+LINE_STRING = _scoped("WkbType", "LineString", "QgsWkbTypes.LineString")
+LINE_STRING_Z = _scoped("WkbType", "LineStringZ", "QgsWkbTypes.LineStringZ")
+NO_GEOMETRY = _scoped("WkbType", "NoGeometry", "QgsWkbTypes.NoGeometry")
+MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", "QgsWkbTypes.MultiLineString")
+
+SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", "QgsProcessing.TypeVectorLine")
+SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", "QgsProcessing.TypeVectorPoint")
+SOURCE_POLYGONS = _scoped(
+    "ProcessingSourceType", "VectorPolygon", "QgsProcessing.TypeVectorPolygon"
 )
-from qgis.PyQt.QtCore import QVariant
-
-
-def _scoped(scope, member, legacy):
-    """``Qgis.<scope>.<member>`` where it exists, else the legacy value."""
-    return getattr(getattr(Qgis, scope, None), member, legacy)
-
-
-POINT_Z = _scoped("WkbType", "PointZ", QgsWkbTypes.PointZ)
-LINE_STRING = _scoped("WkbType", "LineString", QgsWkbTypes.LineString)
-LINE_STRING_Z = _scoped("WkbType", "LineStringZ", QgsWkbTypes.LineStringZ)
-NO_GEOMETRY = _scoped("WkbType", "NoGeometry", QgsWkbTypes.NoGeometry)
-MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", QgsWkbTypes.MultiLineString)
-
-SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", QgsProcessing.TypeVectorLine)
-SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", QgsProcessing.TypeVectorPoint)
-SOURCE_POLYGONS = _scoped("ProcessingSourceType", "VectorPolygon", QgsProcessing.TypeVectorPolygon)
-SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", QgsProcessing.TypeVector)
+SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", "QgsProcessing.TypeVector")
 
 NUMBER_DOUBLE = _scoped(
-    "ProcessingNumberParameterType", "Double", QgsProcessingParameterNumber.Double
+    "ProcessingNumberParameterType", "Double", "QgsProcessingParameterNumber.Double"
 )
 
-TEXT_AS_TEXT = _scoped(
-    "TextRenderFormat", "AlwaysText", getattr(QgsRenderContext, "TextFormatAlwaysText", 1)
-)
-LABEL_OVER_POINT = _scoped("LabelPlacement", "OverPoint", QgsPalLayerSettings.OverPoint)
-LABEL_HORIZONTAL = _scoped("LabelPlacement", "Horizontal", QgsPalLayerSettings.Horizontal)
+TEXT_AS_TEXT = _scoped("TextRenderFormat", "AlwaysText", "QgsRenderContext.TextFormatAlwaysText")
+LABEL_OVER_POINT = _scoped("LabelPlacement", "OverPoint", "QgsPalLayerSettings.OverPoint")
+LABEL_HORIZONTAL = _scoped("LabelPlacement", "Horizontal", "QgsPalLayerSettings.Horizontal")
 FAST_INSERT = QgsFeatureSink.Flag.FastInsert
 SKIP_GEOMETRY_CHECKS = _scoped(
     "ProcessingFeatureSourceFlag",
     "SkipGeometryValidityChecks",
-    QgsProcessingFeatureSource.Flag.FlagSkipGeometryValidityChecks,
+    "QgsProcessingFeatureSource.Flag.FlagSkipGeometryValidityChecks",
 )
-NO_GEOMETRY_REQUEST = _scoped("FeatureRequestFlag", "NoGeometry", QgsFeatureRequest.Flag.NoGeometry)
+NO_GEOMETRY_REQUEST = _scoped(
+    "FeatureRequestFlag", "NoGeometry", "QgsFeatureRequest.Flag.NoGeometry"
+)
 NO_THREADING = _scoped(
-    "ProcessingAlgorithmFlag", "NoThreading", QgsProcessingAlgorithm.Flag.FlagNoThreading
+    "ProcessingAlgorithmFlag", "NoThreading", "QgsProcessingAlgorithm.Flag.FlagNoThreading"
+)
+ADVANCED = _scoped(
+    "ProcessingParameterFlag", "Advanced", "QgsProcessingParameterDefinition.Flag.FlagAdvanced"
 )
 EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
-LEGEND_TITLE = _scoped("LegendComponent", "Title", QgsLegendStyle.Style.Title)
-LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", QgsLegendStyle.Style.Subgroup)
-LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", QgsLegendStyle.Style.SymbolLabel)
-CRITICAL = _scoped("MessageLevel", "Critical", Qgis.Critical)
+LEGEND_TITLE = _scoped("LegendComponent", "Title", "QgsLegendStyle.Style.Title")
+LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", "QgsLegendStyle.Style.Subgroup")
+LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", "QgsLegendStyle.Style.SymbolLabel")
+CRITICAL = _scoped("MessageLevel", "Critical", "Qgis.Critical")
 
-UNIT_METERS = _scoped("DistanceUnit", "Meters", QgsUnitTypes.DistanceMeters)
+UNIT_METERS = _scoped("DistanceUnit", "Meters", "QgsUnitTypes.DistanceMeters")
+WKT2_2019 = _scoped(
+    "CrsWktVariant", "Wkt2_2019", "QgsCoordinateReferenceSystem.WktVariant.WKT2_2019"
+)
 
-POINT_GEOMETRY = _scoped("GeometryType", "Point", QgsWkbTypes.PointGeometry)
-LINE_GEOMETRY = _scoped("GeometryType", "Line", QgsWkbTypes.LineGeometry)
-POLYGON_GEOMETRY = _scoped("GeometryType", "Polygon", QgsWkbTypes.PolygonGeometry)
-NULL_GEOMETRY = _scoped("GeometryType", "Null", QgsWkbTypes.NullGeometry)
+POINT_GEOMETRY = _scoped("GeometryType", "Point", "QgsWkbTypes.PointGeometry")
+LINE_GEOMETRY = _scoped("GeometryType", "Line", "QgsWkbTypes.LineGeometry")
+POLYGON_GEOMETRY = _scoped("GeometryType", "Polygon", "QgsWkbTypes.PolygonGeometry")
+NULL_GEOMETRY = _scoped("GeometryType", "Null", "QgsWkbTypes.NullGeometry")
 
 
 def geometry_type(wkb_type):
@@ -81,16 +104,7 @@ def enum_number(value):
     return int(getattr(value, "value", value))
 
 
-if Qgis.QGIS_VERSION_INT >= 33800:
-    from qgis.PyQt.QtCore import QMetaType
-
-    DOUBLE = QMetaType.Type.Double
-    LONG = QMetaType.Type.LongLong
-    STRING = QMetaType.Type.QString
-else:
-    DOUBLE = QVariant.Double
-    LONG = QVariant.LongLong
-    STRING = QVariant.String
+DOUBLE, LONG, STRING = field_types()
 
 
 def is_curved(wkb_type):
@@ -118,3 +132,9 @@ def set_legend_text(legend, style, text_format):
         current.setTextFormat(text_format)
     else:
         legend.setStyleFont(style, text_format.font())
+
+
+def advanced(parameter):
+    """The parameter, marked as rarely changed (under Advanced parameters)."""
+    parameter.setFlags(parameter.flags() | ADVANCED)
+    return parameter

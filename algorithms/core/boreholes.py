@@ -144,3 +144,110 @@ def assemble_stations(collar_inclination, collar_azimuth, hole, depth, inclinati
         inclination_from_vertical(logged[order]),
         np.nan_to_num(azimuths[order]) % 360.0,
     )
+
+
+def check_collars(hole, located, depth, inclination, z, value_reasons):
+    """Reasons ('' = drawable) for collar rows: no position, no or a repeated
+    hole id (the first collar of an id is the one kept), the reasons from
+    reading their numbers (``value_reasons``, in order), a depth that is not
+    positive, an inclination beyond ±90, no elevation.
+
+    >>> check_collars(["A", None, "A", "B", "C"], np.array([True, True, True, True, False]),
+    ...               np.array([100.0, 50, 80, 0, 10]), np.full(5, 90.0),
+    ...               np.full(5, 300.0), [np.full(5, "", dtype=object)]).tolist()
+    ['', 'missing hole id', 'duplicate hole id', 'depth not positive', 'null geometry']
+    """
+    known = np.array([h is not None for h in hole], dtype=bool)
+    duplicate = known.copy()
+    names = np.array([h if h is not None else "" for h in hole], dtype=object)
+    if known.any():
+        _, first = np.unique(names[known], return_index=True)
+        duplicate[np.flatnonzero(known)[first]] = False
+    reasons = np.full(len(known), "", dtype=object)
+    _first_reason(
+        reasons,
+        (~np.asarray(located, dtype=bool), "null geometry"),
+        (~known, "missing hole id"),
+        (duplicate, "duplicate hole id"),
+    )
+    for why in value_reasons:
+        reasons = np.where(reasons == "", np.asarray(why, dtype=object), reasons)
+    return _first_reason(
+        reasons,
+        (np.asarray(depth, dtype=float) <= 0, "depth not positive"),
+        (np.abs(np.asarray(inclination, dtype=float)) > 90, "inclination out of range"),
+        (np.isnan(np.asarray(z, dtype=float)), "no collar elevation"),
+    )
+
+
+def drawing_depths(total_depth, drawn, stations, interval_hole, interval_ends, step):
+    """The depths drawn of each hole in ``drawn`` (collar indices, ascending):
+    every ``step`` from the collar, every station and interval end, and the
+    bottom, none below the bottom. Returns (hole, depth), sorted by hole
+    then depth, without repeats.
+
+    >>> empty = Stations(np.array([0]), np.array([0.0]), np.zeros(1), np.zeros(1))
+    >>> hole, md = drawing_depths(np.array([12.0]), np.array([0]), empty,
+    ...                           np.array([0]), np.array([7.5]), 5.0)
+    >>> hole.tolist(), md.tolist()
+    ([0, 0, 0, 0, 0], [0.0, 5.0, 7.5, 10.0, 12.0])
+    >>> none = np.array([], int)  # no hole drawn
+    >>> [a.tolist() for a in drawing_depths(np.array([0.0]), none, empty, none, none, 5.0)]
+    [[], []]
+    """
+    total_depth = np.asarray(total_depth, dtype=float)
+    drawn = np.asarray(drawn, dtype=int)
+    count = np.ceil(total_depth[drawn] / step).astype(int)
+    regular_hole = np.repeat(drawn, count)
+    regular = (np.arange(count.sum()) - np.repeat(np.cumsum(count) - count, count)) * step
+    station = np.isin(stations.hole, drawn)
+    interval = np.isin(interval_hole, drawn)
+    hole = np.concatenate(
+        (regular_hole, stations.hole[station], np.asarray(interval_hole)[interval], drawn)
+    ).astype(int)
+    md = np.concatenate(
+        (regular, stations.md[station], np.asarray(interval_ends)[interval], total_depth[drawn])
+    )
+    keep = md <= total_depth[hole]
+    hole, md = hole[keep], md[keep]
+    order = np.lexsort((md, hole))
+    hole, md = hole[order], md[order]
+    if len(hole) == 0:  # no hole drawn
+        return hole, md
+    new = np.r_[True, (hole[1:] != hole[:-1]) | (md[1:] != md[:-1])]
+    return hole[new], md[new]
+
+
+def interval_runs(sample_hole, sample_md, interval_hole, top, bottom):
+    """Each interval as the run of drawn samples from its top to its bottom
+    (samples sorted by hole then depth; both ends are among them). Returns
+    the intervals drawn (those with two samples or more), the sample rows of
+    their runs and, per row, which of the drawn intervals it belongs to.
+
+    >>> kept, rows, piece = interval_runs(np.array([0, 0, 0, 1]), np.array([0.0, 5, 9, 0]),
+    ...                                   np.array([0, 0]), np.array([0.0, 9]), np.array([9.0, 9]))
+    >>> kept.tolist(), rows.tolist(), piece.tolist()
+    ([0], [0, 1, 2], [0, 0, 0])
+    """
+    scale = 2.0 * (np.max(sample_md, initial=0.0) + 1.0)
+    key = np.asarray(sample_hole) * scale + sample_md
+    first = np.searchsorted(key, np.asarray(interval_hole) * scale + top, side="left")
+    last = np.searchsorted(key, np.asarray(interval_hole) * scale + bottom, side="right")
+    count = last - first
+    kept = np.flatnonzero(count >= 2)
+    count, first = count[kept], first[kept]
+    piece = np.repeat(np.arange(len(kept)), count)
+    within = np.arange(count.sum()) - np.repeat(np.cumsum(count) - count, count)
+    return kept, np.repeat(first, count) + within, piece
+
+
+def group_ranges(values, group):
+    """(smallest, largest) value of each run of equal ``group`` labels.
+
+    >>> [r.tolist() for r in group_ranges(np.array([3.0, -1, 2, 5]), np.array([0, 0, 1, 1]))]
+    [[-1.0, 2.0], [3.0, 5.0]]
+    """
+    if len(values) == 0:
+        return np.empty(0), np.empty(0)
+    starts = np.flatnonzero(np.r_[True, group[1:] != group[:-1]])
+    return np.minimum.reduceat(values, starts), np.maximum.reduceat(values, starts)

@@ -1,22 +1,24 @@
-"""What every Sectionwright algorithm shares: naming, help, the section-line
-parameters, the SKIPPED output, and a run that stops early leaving nothing
-behind (run_guard)."""
+"""What every Sectionwright algorithm shares: naming, help, the parameters
+several algorithms declare (section lines, units, DEM, north reference,
+exaggeration), opening sinks and the SKIPPED output, and a run that stops
+early leaving nothing behind (run_guard)."""
 
 import functools
 
 from qgis.core import (
-    QgsFeature,
     QgsProcessingAlgorithm,
     QgsProcessingException,
+    QgsProcessingParameterDistance,
+    QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterField,
     QgsProcessingParameterNumber,
+    QgsProcessingParameterRasterLayer,
 )
 from qgis.PyQt.QtCore import QCoreApplication
 
 from ..compat.qgis_compat import (
-    FAST_INSERT,
     LINE_GEOMETRY,
     NULL_GEOMETRY,
     NUMBER_DOUBLE,
@@ -28,8 +30,7 @@ from ..compat.qgis_compat import (
     enum_number,
     geometry_type,
 )
-from ..outputs import fields as F
-from ..outputs.carried_fields import computed_fields
+from ..core.north import GRID
 from .help import help_text
 from .run_guard import OutputRecord, ParameterProblem
 
@@ -39,6 +40,13 @@ SKIPPED = "SKIPPED"
 VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
 UNITS = "UNITS"
 UNIT_FIELD = "UNIT_FIELD"
+DEM = "DEM"
+Z_FACTOR = "Z_FACTOR"
+MAX_DISTANCE = "MAX_DISTANCE"
+NORTH_REFERENCE = "NORTH_REFERENCE"
+DECLINATION = "DECLINATION"
+
+NORTH_REFERENCES = ["Grid north (as stored)", "True north", "Magnetic north"]
 
 # What a source parameter filtered to one geometry accepts, in words.
 GEOMETRY_NEEDED = {
@@ -114,9 +122,11 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     def shortHelpString(self):
         return self.tr(help_text(self.ALGORITHM_ID))
 
-    def add_section_line_parameters(self):
+    def add_section_line_parameters(self, label="Section lines", optional=False):
         self.addParameter(
-            QgsProcessingParameterFeatureSource(INPUT, self.tr("Section lines"), [SOURCE_LINES])
+            QgsProcessingParameterFeatureSource(
+                INPUT, self.tr(label), [SOURCE_LINES], optional=optional
+            )
         )
         self.addParameter(
             QgsProcessingParameterField(
@@ -192,6 +202,62 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
             )
         )
 
+    def add_dem_parameter(self, label="DEM", optional=False):
+        self.addParameter(QgsProcessingParameterRasterLayer(DEM, self.tr(label), optional=optional))
+
+    def add_z_factor_parameter(self):
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                Z_FACTOR,
+                self.tr("Z factor (DEM values × factor = metres)"),
+                NUMBER_DOUBLE,
+                defaultValue=1.0,
+            )
+        )
+
+    def dem(self, parameters, context, required=True):
+        """The DEM layer, or None when it is optional and not given; a
+        required DEM that cannot be read is an error naming it."""
+        layer = self.parameterAsRasterLayer(parameters, DEM, context)
+        if layer is None and required:
+            raise ParameterProblem(
+                DEM, self.tr("the layer given is not a raster that can be read.")
+            )
+        return layer
+
+    def add_max_distance_parameter(self, label):
+        self.addParameter(
+            QgsProcessingParameterDistance(
+                MAX_DISTANCE,
+                self.tr(label),
+                defaultValue=250.0,
+                parentParameterName=INPUT,
+                minValue=0.0,
+            )
+        )
+
+    def add_north_parameters(self):
+        """NORTH_REFERENCE and DECLINATION, as every algorithm reading azimuths has them."""
+        tr = self.tr
+        self.addParameter(
+            QgsProcessingParameterEnum(
+                NORTH_REFERENCE,
+                tr("Azimuths are measured from"),
+                options=[tr(n) for n in NORTH_REFERENCES],
+                defaultValue=GRID,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterNumber(
+                DECLINATION,
+                tr("Magnetic declination (degrees, east positive)"),
+                NUMBER_DOUBLE,
+                defaultValue=0.0,
+                minValue=-180.0,
+                maxValue=180.0,
+            )
+        )
+
     def add_skipped_output(self):
         self.addParameter(
             QgsProcessingParameterFeatureSink(
@@ -199,20 +265,22 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
             )
         )
 
+    def open_sinks(self, parameters, context, specs, required):
+        """{name: (sink, id)} for ``specs`` of (name, fields, geometry type,
+        CRS); an output in ``required`` that cannot be made is an error."""
+        sinks = {
+            name: self.parameterAsSink(parameters, name, context, fields, kind, crs)
+            for name, fields, kind, crs in specs
+        }
+        for name in required:
+            if sinks[name][0] is None:
+                raise ParameterProblem(name, "choose where to write this output.")
+        return sinks
 
-def skipped_fields():
-    return computed_fields((F.SECTION, F.SOURCE_FID, F.REASON))
 
-
-def add_skipped_section(sink, section):
-    """One SKIPPED row for a section line part (sink may be None: not asked)."""
-    if sink is None:
-        return
-    feature = QgsFeature()
-    if section.geometry is not None:
-        feature.setGeometry(section.geometry)
-    feature.setAttributes([section.label, section.fid, section.reason])
-    sink.addFeature(feature, FAST_INSERT)
+def sink_results(sinks):
+    """The results of a run: the id of every sink that was made."""
+    return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
 
 
 def _unacceptable(definition, value):

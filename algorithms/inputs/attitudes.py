@@ -6,14 +6,13 @@ from typing import List
 
 import numpy as np
 from qgis.core import (
-    NULL,
     QgsFeatureRequest,
     QgsProcessingParameterEnum,
     QgsProcessingParameterField,
-    QgsProcessingParameterNumber,
 )
 
-from ..compat.qgis_compat import NUMBER_DOUBLE, SKIP_GEOMETRY_CHECKS
+from ..compat.null import plain
+from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
 from ..core.attitudes import (
     DIP_DIRECTION,
     STRIKE_QUADRANT,
@@ -24,6 +23,7 @@ from ..core.attitudes import (
     read_attitudes,
 )
 from ..core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
+from ..framework.base import DECLINATION, NORTH_REFERENCE
 from ..framework.run_guard import ParameterProblem, stop_if_cancelled
 
 CONVENTION = "CONVENTION"
@@ -31,8 +31,6 @@ AZIMUTH_FIELD = "AZIMUTH_FIELD"
 DIP_FIELD = "DIP_FIELD"
 QUADRANT_FIELD = "QUADRANT_FIELD"
 TEXT_FIELD = "TEXT_FIELD"
-NORTH_REFERENCE = "NORTH_REFERENCE"
-DECLINATION = "DECLINATION"
 DECLINATION_FIELD = "DECLINATION_FIELD"
 
 CONVENTIONS = [
@@ -42,7 +40,6 @@ CONVENTIONS = [
     "Text notation (bare pairs: dip direction / dip)",
     "Text notation (bare pairs: right-hand-rule strike / dip)",
 ]
-NORTH_REFERENCES = ["Grid north (as stored)", "True north", "Magnetic north"]
 
 # Which fields each convention needs.
 NEEDS = {
@@ -52,29 +49,6 @@ NEEDS = {
     TEXT_AS_DIP_DIRECTION: (TEXT_FIELD,),
     TEXT_AS_STRIKE: (TEXT_FIELD,),
 }
-
-
-def add_north_parameters(algorithm):
-    """NORTH_REFERENCE and DECLINATION, as every algorithm reading azimuths has them."""
-    tr = algorithm.tr
-    algorithm.addParameter(
-        QgsProcessingParameterEnum(
-            NORTH_REFERENCE,
-            tr("Azimuths are measured from"),
-            options=[tr(n) for n in NORTH_REFERENCES],
-            defaultValue=GRID,
-        )
-    )
-    algorithm.addParameter(
-        QgsProcessingParameterNumber(
-            DECLINATION,
-            tr("Magnetic declination (degrees, east positive)"),
-            NUMBER_DOUBLE,
-            defaultValue=0.0,
-            minValue=-180.0,
-            maxValue=180.0,
-        )
-    )
 
 
 def add_attitude_parameters(algorithm, parent):
@@ -98,7 +72,7 @@ def add_attitude_parameters(algorithm, parent):
                 name, tr(label), parentLayerParameterName=parent, optional=True
             )
         )
-    add_north_parameters(algorithm)
+    algorithm.add_north_parameters()
     algorithm.addParameter(
         QgsProcessingParameterField(
             DECLINATION_FIELD,
@@ -107,10 +81,6 @@ def add_attitude_parameters(algorithm, parent):
             optional=True,
         )
     )
-
-
-def _value(raw):
-    return None if raw is None or raw == NULL else raw
 
 
 @dataclass
@@ -173,7 +143,7 @@ class AttitudeSettings:
             rows.geometries.append(geometry)
             xyz.append(_point_xyz(geometry))
             for name in wanted:
-                raw[name].append(_value(feature[name]))
+                raw[name].append(plain(feature[name]))
             if number % 1000 == 0:
                 feedback.setProgress(progress_share * number / total)
         rows.xyz = np.array(xyz, dtype=float).reshape(-1, 3)

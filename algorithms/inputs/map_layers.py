@@ -3,12 +3,12 @@
 import numpy as np
 import shapely
 from qgis.core import (
-    NULL,
     QgsCoordinateTransform,
     QgsCsException,
     QgsFeatureRequest,
 )
 
+from ..compat.null import plain
 from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
 from ..core.units import polygon_index_at
 from ..core.wkb import from_wkb
@@ -35,11 +35,9 @@ def read_features(source, value_field, work_crs, context):
         except QgsCsException:
             unusable += 1
             continue
-        value = feature[value_field] if value_field else None
+        value = plain(feature[value_field]) if value_field else None
         wkbs.append(bytes(geometry.asWkb()))
-        values.append(
-            None if value is None or value == NULL or not str(value).strip() else str(value)
-        )
+        values.append(None if value is None or not str(value).strip() else str(value))
     geometries = shapely.force_2d(from_wkb(np.array(wkbs, dtype=object)))
     return geometries, values, unusable
 

@@ -6,7 +6,6 @@ from typing import Optional
 import numpy as np
 import shapely
 from qgis.core import (
-    NULL,
     QgsCoordinateReferenceSystem,
     QgsCoordinateTransform,
     QgsCsException,
@@ -14,16 +13,20 @@ from qgis.core import (
     QgsGeometry,
 )
 
-from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS, UNIT_METERS, is_curved, unit_name
+from ..compat.null import plain
+from ..compat.qgis_compat import (
+    SKIP_GEOMETRY_CHECKS,
+    UNIT_METERS,
+    WKT2_2019,
+    is_curved,
+    unit_name,
+)
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
 from ..core.wkb import from_wkb
 from ..framework.run_guard import ParameterProblem, stop_if_cancelled
 from .map_crs import require_lonlat, require_map_crs
 
-WKT2 = getattr(
-    QgsCoordinateReferenceSystem, "WKT2_2019", QgsCoordinateReferenceSystem.WKT_PREFERRED
-)
 WGS84 = QgsCoordinateReferenceSystem("EPSG:4326")
 
 
@@ -39,18 +42,16 @@ class SectionPart:
 
 
 def crs_wkt(crs):
-    return crs.toWkt(WKT2)
+    return crs.toWkt(WKT2_2019)
 
 
-def working_crs(source, context, feedback):
+def working_crs(source, context, feedback, layer=("Section lines", "the section lines")):
     """The section lines' CRS when projected, else the UTM zone of the centre
-    of their extent (one CRS per run); the log says which and in what unit."""
-    crs = require_map_crs(
-        source.sourceCrs(),
-        "INPUT",
-        "the section lines",
-        "the section lines drawn on the map (the layer Topographic profile was run on)",
-    )
+    of their extent (one CRS per run); the log says which and in what unit.
+    ``layer``: the parameter's label and the layer's name in messages, when
+    the layer that sets the CRS is another one."""
+    label, name = layer
+    crs = require_map_crs(source.sourceCrs(), label, name, f"{name} drawn on the map")
     if not crs.isGeographic():
         if crs.mapUnits() != UNIT_METERS:
             feedback.pushInfo(
@@ -58,13 +59,13 @@ def working_crs(source, context, feedback):
                 f"{unit_name(crs.mapUnits())}, the unit of {crs.authid()}."
             )
         return crs
-    require_lonlat(source.sourceExtent(), "INPUT", "the section lines")
+    require_lonlat(source.sourceExtent(), label, name)
     centre = QgsCoordinateTransform(crs, WGS84, context.transformContext()).transform(
         source.sourceExtent().center()
     )
     work = QgsCoordinateReferenceSystem(f"EPSG:{utm_epsg(centre.x(), centre.y())}")
     feedback.pushInfo(
-        f"The section lines are in a geographic CRS ({crs.authid()}); "
+        f"{name[0].upper() + name[1:]} are in a geographic CRS ({crs.authid()}); "
         f"working CRS: {work.authid()} {work.description()}, in metres."
     )
     return work
@@ -73,8 +74,8 @@ def working_crs(source, context, feedback):
 def section_label(feature, id_field):
     """The section's label: the LINE_ID_FIELD value, else the feature id."""
     if id_field:
-        value = feature[id_field]
-        if value is not None and value != NULL and str(value).strip():
+        value = plain(feature[id_field])
+        if value is not None and str(value).strip():
             return str(value).strip()
     return str(feature.id())
 

@@ -2,8 +2,8 @@
 
 import numpy as np
 from qgis.core import QgsFeatureRequest
-from qgis.PyQt.QtCore import QVariant
 
+from ..compat.null import plain
 from ..compat.qgis_compat import NO_GEOMETRY_REQUEST
 from ..framework.run_guard import ParameterProblem
 
@@ -32,11 +32,7 @@ def read_columns(source, columns, field_parameters, layer_name, with_geometry=Fa
             geometries.append(feature.geometry())
     values = {key: [None] * len(rows) for key in columns}
     for key, index in indices.items():
-        # QGIS hands NULL over as a null QVariant (3.22) or None (later).
-        values[key] = [
-            None if v is None or isinstance(v, QVariant) else v
-            for v in (row[index] for row in rows)
-        ]
+        values[key] = [plain(row[index]) for row in rows]
     return values, fids, geometries
 
 

@@ -2,35 +2,22 @@
 
 from qgis.core import QgsField, QgsFields
 
-from ..compat.qgis_compat import DOUBLE, LONG, STRING
-from . import fields as F
-
 # A GeoPackage key copied as an ordinary field makes QGIS 3.22 write
 # duplicate fids; src_fid carries it instead.
 NEVER_CARRIED = {"fid"}
 
 
-def computed_field(name):
-    kind = STRING if name in F.TEXT_FIELDS else LONG if name in F.INTEGER_FIELDS else DOUBLE
-    return QgsField(name, kind)
-
-
-def computed_fields(names):
-    """QgsFields of computed values only."""
-    fields = QgsFields()
-    for name in names:
-        fields.append(computed_field(name))
-    return fields
-
-
 class CarriedFields:
     """The source fields kept (minus keys and names the computed fields
-    replace) followed by the computed fields."""
+    replace) followed by the fields of the ``computed`` schema. Like a
+    schema it gives ``qgs_fields()`` and ``rows(columns)``."""
 
-    def __init__(self, source_fields, computed_names):
-        computed_lower = {n.lower() for n in computed_names}
+    def __init__(self, source_fields, computed):
+        computed_lower = {n.lower() for n in computed.names}
+        self.computed = computed
         self.fields = QgsFields()
         self.kept = []
+        self.kept_names = []
         self.replaced = []
         for index, source_field in enumerate(source_fields):
             name = source_field.name().lower()
@@ -41,11 +28,31 @@ class CarriedFields:
                 continue
             self.fields.append(QgsField(source_field))
             self.kept.append(index)
-        for name in computed_names:
-            self.fields.append(computed_field(name))
+            self.kept_names.append(source_field.name())
+        for field in computed:
+            self.fields.append(field.qgs_field())
 
-    def row(self, source_attributes, computed_values):
-        return [source_attributes[i] for i in self.kept] + list(computed_values)
+    def qgs_fields(self):
+        return self.fields
+
+    def columns(self, source_attributes, computed_columns):
+        """{name: values} of every output field: the kept source attributes
+        (a list per feature) and the computed columns."""
+        columns = {
+            name: [attributes[index] for attributes in source_attributes]
+            for name, index in zip(self.kept_names, self.kept)
+        }
+        columns.update(computed_columns)
+        return columns
+
+    def rows(self, columns):
+        """Attribute rows in field order; source values as read, computed
+        ones through their schema (NaN as NULL)."""
+        kept = [columns[name] for name in self.kept_names]
+        computed = self.computed.rows(columns)
+        if not kept:
+            return computed
+        return [list(source) + values for source, values in zip(zip(*kept), computed)]
 
     def log_replaced(self, feedback, layer_name):
         if self.replaced:

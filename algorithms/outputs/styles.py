@@ -7,6 +7,7 @@ boundaries. Units take them in the alphabetical order of their labels.
 
 from qgis.core import (
     QgsCategorizedSymbolRenderer,
+    QgsExpression,
     QgsLineSymbol,
     QgsMarkerSymbol,
     QgsProcessingLayerPostProcessorInterface,
@@ -14,6 +15,8 @@ from qgis.core import (
     QgsSingleSymbolRenderer,
 )
 from qgis.PyQt.QtGui import QColor
+
+from . import fields as F
 
 UNIT_COLOURS = (
     "#e6d5a3",
@@ -145,8 +148,9 @@ def crossing_renderer():
             "contact",
         ),
     ]
+    kind = QgsExpression.quotedColumnRef(F.KIND)
     return QgsCategorizedSymbolRenderer(
-        "CASE WHEN \"kind\" IN ('unit boundary', 'fault') THEN \"kind\" ELSE '' END", categories
+        f"CASE WHEN {kind} IN ('unit boundary', 'fault') THEN {kind} ELSE '' END", categories
     )
 
 

@@ -2,7 +2,6 @@
 small styled layers for its sheet."""
 
 from qgis.core import (
-    QgsCoordinateReferenceSystem,
     QgsExpression,
     QgsFeature,
     QgsFeatureRequest,
@@ -11,13 +10,13 @@ from qgis.core import (
     QgsVectorLayer,
 )
 
-from ..outputs.section_space import SECTION_CRS_WKT, is_section_view
+from ..compat.null import plain
+from ..outputs import fields as F
+from ..outputs.section_space import is_section_view, section_crs
 
 
 def section_filter(label):
-    return QgsFeatureRequest().setFilterExpression(
-        f'"section" = {QgsExpression.quotedValue(label)}'
-    )
+    return QgsFeatureRequest().setFilterExpression(section_expression(label))
 
 
 def _memory_layer(kind, name, fields, crs):
@@ -28,19 +27,15 @@ def _memory_layer(kind, name, fields, crs):
     return layer
 
 
-def section_crs():
-    return QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT)
-
-
 def section_expression(label):
-    return f'"section" = {QgsExpression.quotedValue(label)}'
+    return f"{QgsExpression.quotedColumnRef(F.SECTION)} = {QgsExpression.quotedValue(label)}"
 
 
 def copy_section(source, label, name, kind, renderer):
     """A layer showing only section ``label`` of ``source``: a clone filtered
     by a subset string (kept when a project is saved), or a memory copy when
     the source cannot filter; None when it has no ``section`` field."""
-    if source is None or source.fields().lookupField("section") < 0:
+    if source is None or source.fields().lookupField(F.SECTION) < 0:
         return None
     layer = source.clone()
     if not layer.setSubsetString(section_expression(label)):
@@ -55,20 +50,17 @@ def crossings_in_section(source, label, exaggeration, name, renderer):
     """Crossing points placed in the section view at (chainage, elev × VE);
     those without elevation are left out. A layer already in the section
     view is only filtered."""
-    if source is None or source.fields().lookupField("section") < 0:
+    if source is None or source.fields().lookupField(F.SECTION) < 0:
         return None
     if is_section_view(source.crs()):
         return copy_section(source, label, name, "Point", renderer)
     layer = _memory_layer("Point", name, source.fields(), section_crs())
     features = []
     for feature in source.getFeatures(section_filter(label)):
-        chainage, elevation = feature["chainage"], feature["elev"]
+        chainage, elevation = plain(feature[F.CHAINAGE]), plain(feature[F.ELEVATION])
         if chainage is None or elevation is None or elevation != elevation:
             continue
-        try:
-            point = QgsPointXY(float(chainage), float(elevation) * exaggeration)
-        except TypeError:  # a NULL that is not None
-            continue
+        point = QgsPointXY(float(chainage), float(elevation) * exaggeration)
         copy = QgsFeature(feature)
         copy.setGeometry(QgsGeometry.fromPointXY(point))
         features.append(copy)

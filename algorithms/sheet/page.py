@@ -5,6 +5,7 @@ from dataclasses import dataclass, field
 from typing import List
 
 from qgis.core import (
+    QgsExpression,
     QgsLayoutItemLabel,
     QgsLayoutItemLegend,
     QgsLayoutItemMap,
@@ -16,7 +17,6 @@ from qgis.core import (
     QgsPalLayerSettings,
     QgsRectangle,
     QgsTextFormat,
-    QgsUnitTypes,
     QgsVectorLayerSimpleLabeling,
 )
 from qgis.PyQt.QtCore import Qt
@@ -28,10 +28,12 @@ from ..compat.qgis_compat import (
     LEGEND_GROUP,
     LEGEND_ITEM,
     LEGEND_TITLE,
+    UNIT_METERS,
     set_label_text,
     set_legend_text,
 )
 from ..core.sheet_scale import nice_step
+from ..outputs import fields as F
 from ..outputs.styles import GRID, INK
 
 CAUTION = (
@@ -94,14 +96,14 @@ def _label(
     size=9,
     bold=False,
     italic=False,
-    align=Qt.AlignLeft,
+    align=Qt.AlignmentFlag.AlignLeft,
     rotation=0.0,
 ):
     item = QgsLayoutItemLabel(layout)
     item.setText(text)
     set_label_text(item, _text_format(size, bold, italic))
     item.setHAlign(align)
-    item.setVAlign(Qt.AlignVCenter)
+    item.setVAlign(Qt.AlignmentFlag.AlignVCenter)
     layout.addLayoutItem(item)
     _place(item, page, x, y, width, height)
     if rotation:
@@ -198,6 +200,21 @@ def add_page(layout, page, page_size, section):
     """Every item of ``section``'s sheet on page ``page`` of ``layout``;
     returns the scale of the section view."""
     width, height = page_size
+    _add_titles(layout, page, width, section)
+    map_x, map_y, map_w, map_h = section_view_box(page_size, section.extent)
+    section_map = _add_section_view(layout, page, section, (map_x, map_y, map_w, map_h))
+    _add_axis_titles(layout, page, section, (map_x, map_y, map_w, map_h))
+    _add_scale_bar(layout, page, section, section_map, map_x, map_y + map_h + 14)
+    band_y = map_y + map_h + 30
+    _add_location(layout, page, section, MARGIN, band_y)
+    _add_legend(layout, page, section, MARGIN + LOCATION[0] + 12, band_y - 7)
+    _label(
+        layout, page, CAUTION, MARGIN, height - MARGIN - 6, width - 2 * MARGIN, 6, 7.5, italic=True
+    )
+    return section_map.scale()
+
+
+def _add_titles(layout, page, width, section):
     _label(layout, page, section.title, MARGIN, MARGIN - 4, width - 2 * MARGIN, 9, 15, True)
     _label(
         layout,
@@ -211,24 +228,31 @@ def add_page(layout, page, page_size, section):
         9,
     )
 
-    map_x, map_y, map_w, map_h = section_view_box(page_size, section.extent)
 
+def _add_section_view(layout, page, section, box):
+    """The section view map with its labelled layers and true-elevation grid."""
     ticks = _layer(section, "Dip ticks")
     if section.label_dips and ticks is not None:
-        _label_layer(ticks, "format_number(\"app_dip\", 0) || '°'", 6.5, LABEL_HORIZONTAL)
+        dip = QgsExpression.quotedColumnRef(F.APPARENT_DIP)
+        _label_layer(ticks, f"format_number({dip}, 0) || '°'", 6.5, LABEL_HORIZONTAL)
     collars = _layer(section, "Collars")
     if collars is not None:
-        _label_layer(collars, '"hole"', 7, LABEL_OVER_POINT)
+        _label_layer(collars, QgsExpression.quotedColumnRef(F.HOLE), 7, LABEL_OVER_POINT)
     section_map = QgsLayoutItemMap(layout)
     section_map.setCrs(section.section_layers[0].crs() if section.section_layers else None)
     section_map.setLayers(section.section_layers)
     section_map.setKeepLayerSet(True)
     section_map.setFrameEnabled(True)
     layout.addLayoutItem(section_map)
-    _place(section_map, page, map_x, map_y, map_w, map_h)
+    _place(section_map, page, *box)
     section_map.setExtent(section.extent)
     _add_grid(section_map, section)
+    return section_map
 
+
+def _add_axis_titles(layout, page, section, box):
+    """End names above the view, axis titles beside it."""
+    map_x, map_y, map_w, map_h = box
     _label(
         layout, page, f"{section.label}   {section.start_name}", map_x, map_y - 8, 40, 6, 11, True
     )
@@ -242,10 +266,18 @@ def add_page(layout, page, page_size, section):
         6,
         11,
         True,
-        align=Qt.AlignRight,
+        align=Qt.AlignmentFlag.AlignRight,
     )
     _label(
-        layout, page, "Chainage (m)", map_x, map_y + map_h + 7, map_w, 5, 8, align=Qt.AlignHCenter
+        layout,
+        page,
+        "Chainage (m)",
+        map_x,
+        map_y + map_h + 7,
+        map_w,
+        5,
+        8,
+        align=Qt.AlignmentFlag.AlignHCenter,
     )
     _label(
         layout,
@@ -256,14 +288,16 @@ def add_page(layout, page, page_size, section):
         40,
         5,
         8,
-        align=Qt.AlignHCenter,
+        align=Qt.AlignmentFlag.AlignHCenter,
         rotation=-90.0,
     )
 
+
+def _add_scale_bar(layout, page, section, section_map, x, y):
     scale_bar = QgsLayoutItemScaleBar(layout)
     scale_bar.setStyle("Single Box")
     scale_bar.setLinkedMap(section_map)
-    scale_bar.setUnits(QgsUnitTypes.DistanceMeters)
+    scale_bar.setUnits(UNIT_METERS)
     scale_bar.setUnitLabel("m")
     scale_bar.setNumberOfSegments(2)
     scale_bar.setNumberOfSegmentsLeft(0)
@@ -271,16 +305,8 @@ def add_page(layout, page, page_size, section):
     scale_bar.setHeight(2.0)
     scale_bar.setTextFormat(_text_format(7))
     layout.addLayoutItem(scale_bar)
-    scale_bar.attemptMove(QgsLayoutPoint(map_x, map_y + map_h + 14), page=page)
+    scale_bar.attemptMove(QgsLayoutPoint(x, y), page=page)
     scale_bar.refresh()
-
-    band_y = map_y + map_h + 30
-    _add_location(layout, page, section, MARGIN, band_y)
-    _add_legend(layout, page, section, MARGIN + LOCATION[0] + 12, band_y - 7)
-    _label(
-        layout, page, CAUTION, MARGIN, height - MARGIN - 6, width - 2 * MARGIN, 6, 7.5, italic=True
-    )
-    return section_map.scale()
 
 
 def _add_location(layout, page, section, x, y):

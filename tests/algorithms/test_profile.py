@@ -7,8 +7,10 @@ from feedback import LogFeedback
 from layers import by_section, is_null, line_layer, plane_raster, write_raster
 from osgeo import gdal
 from pyproj import Transformer
-from qgis.core import QgsProcessingException, QgsVectorLayer, QgsWkbTypes
+from qgis.core import QgsProcessingException, QgsVectorLayer
 from scipy import ndimage
+
+from sectionwright.algorithms.compat.qgis_compat import MULTI_LINE_STRING, POINT_Z
 
 ORIGIN_X, ORIGIN_Y = 431000.0, 5127000.0
 GT = (ORIGIN_X, 10.0, 0.0, ORIGIN_Y + 2000.0, 0.0, -10.0)  # 200 x 200 cells of 10 m
@@ -264,8 +266,8 @@ def test_the_input_layer_is_not_modified(provider, demo_dir):
 
 def test_output_geometry_types(provider, plane_dem):
     result = run_profile(line_layer([KINKED]), plane_dem)
-    assert result["OUTPUT"].wkbType() == QgsWkbTypes.PointZ
-    assert result["OUTPUT_SECTION"].wkbType() == QgsWkbTypes.MultiLineString
+    assert result["OUTPUT"].wkbType() == POINT_Z
+    assert result["OUTPUT_SECTION"].wkbType() == MULTI_LINE_STRING
 
 
 def virtual_raster(path):

@@ -49,12 +49,14 @@ def test_zip_installs_and_registers_the_provider(profile):
     assert report["available"] and report["started"]
     assert report["provider"] == "Sectionwright"
     assert report["algorithms"] == [
+        "sectionwright:dipdomains",
         "sectionwright:geologycrossings",
         "sectionwright:normalizeattitudes",
         "sectionwright:profile",
         "sectionwright:projectattitudes",
         "sectionwright:projectboreholes",
         "sectionwright:sectionsheet",
+        "sectionwright:structuraltrend",
     ]
     assert report["unloaded"]
 

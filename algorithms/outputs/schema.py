@@ -1,0 +1,86 @@
+"""The shape of an output: its fields' names, kinds and meanings, declared
+once (in ``fields.py``) and turned into ``QgsFields`` and attribute rows
+from here."""
+
+from dataclasses import dataclass
+
+import numpy as np
+from qgis.core import QgsField, QgsFields
+
+from ..compat.qgis_compat import DOUBLE, LONG, STRING
+
+TEXT = "text"
+INTEGER = "integer"
+REAL = "real"
+QGIS_TYPES = {TEXT: STRING, INTEGER: LONG, REAL: DOUBLE}
+MAX_NAME_LENGTH = 10  # a Shapefile export keeps the names
+
+
+@dataclass(frozen=True)
+class Field:
+    name: str
+    kind: str  # TEXT, INTEGER or REAL
+    meaning: str
+
+    def qgs_field(self):
+        return QgsField(self.name, QGIS_TYPES[self.kind])
+
+
+class Schema:
+    """The fields of one output, in output order.
+
+    >>> schema = Schema(Field("section", TEXT, "label"), Field("elev", REAL, "metres"))
+    >>> schema.names
+    ('section', 'elev')
+    >>> schema.rows({"elev": np.array([12.5, np.nan]), "section": ["A", "A"]})
+    [['A', 12.5], ['A', None]]
+    """
+
+    def __init__(self, *fields):
+        names = [f.name for f in fields]
+        too_long = [n for n in names if len(n) > MAX_NAME_LENGTH]
+        if too_long or len(set(names)) != len(names):
+            raise ValueError(f"field names too long or repeated: {too_long or names}")
+        self.fields = tuple(fields)
+
+    @property
+    def names(self):
+        return tuple(f.name for f in self.fields)
+
+    def __iter__(self):
+        return iter(self.fields)
+
+    def __len__(self):
+        return len(self.fields)
+
+    def __add__(self, other):
+        return Schema(*self.fields, *other.fields)
+
+    def qgs_fields(self):
+        fields = QgsFields()
+        for field in self.fields:
+            fields.append(field.qgs_field())
+        return fields
+
+    def rows(self, columns):
+        """Attribute rows in field order from ``columns`` ({name: values},
+        one column per field, equally long), NaN and None as NULL."""
+        return [
+            list(row) for row in zip(*(attribute_values(columns[f.name], f.kind) for f in self))
+        ]
+
+
+def attribute_values(values, kind=REAL):
+    """Plain Python values QGIS takes as attributes: numpy scalars unwrapped,
+    NaN and None as None (NULL).
+
+    >>> attribute_values(np.array([1.5, np.nan]))
+    [1.5, None]
+    >>> attribute_values([3, None], INTEGER), attribute_values(["a", None], TEXT)
+    ([3, None], ['a', None])
+    """
+    if kind == TEXT:
+        return [None if v is None else str(v) for v in values]
+    if kind == INTEGER:
+        return [None if v is None or v != v else int(v) for v in values]
+    return [None if v is None or v != v else float(v) for v in np.asarray(values, float).tolist()]
