@@ -373,3 +373,10 @@ def test_found_an_attitude_lying_on_its_section_line(provider, tmp_path):
         [(f"POINT({X0 + 700} {Y0 + 500})", [90.0, 30.0, "90/30"])],
     )
     check_map(ordinary_map(attitudes=on_line), tmp_path)
+
+
+def test_found_section_lines_in_degrees_without_any_geometry(provider, tmp_path):
+    """QGIS 3.44 gives the extent of a layer without geometry as NaN: the
+    automatic UTM zone of its centre stopped with a ValueError."""
+    no_geometry = LayerSpec("sections", "LineString", [("name", "string")], [(None, ["A"])], 4326)
+    check_map(ordinary_map(sections=no_geometry), tmp_path)

@@ -1,5 +1,6 @@
 """Reading the section lines: working CRS, labels, parts, bad geometry."""
 
+import math
 from dataclasses import dataclass
 from typing import Optional
 
@@ -11,6 +12,7 @@ from qgis.core import (
     QgsCsException,
     QgsFeatureRequest,
     QgsGeometry,
+    QgsPointXY,
 )
 
 from ..compat.null import plain
@@ -59,10 +61,15 @@ def working_crs(source, context, feedback, layer=("Section lines", "the section 
                 f"{unit_name(crs.mapUnits())}, the unit of {crs.authid()}."
             )
         return crs
-    require_lonlat(source.sourceExtent(), label, name)
+    extent = source.sourceExtent()
+    require_lonlat(extent, label, name)
     centre = QgsCoordinateTransform(crs, WGS84, context.transformContext()).transform(
-        source.sourceExtent().center()
+        extent.center()
     )
+    if not (math.isfinite(centre.x()) and math.isfinite(centre.y())):
+        # No geometry at all (QGIS 3.44's empty extent is NaN, 3.22's is 0, 0):
+        # nothing will be placed, any zone serves; the one at 0°, 0° as on 3.22.
+        centre = QgsPointXY(0.0, 0.0)
     work = QgsCoordinateReferenceSystem(f"EPSG:{utm_epsg(centre.x(), centre.y())}")
     feedback.pushInfo(
         f"{name[0].upper() + name[1:]} are in a geographic CRS ({crs.authid()}); "
