@@ -3,6 +3,7 @@
 
 def all_algorithms():
     from .dipdomains import DipDomainsAlgorithm
+    from .formlines import FormLinesAlgorithm
     from .geologycrossings import GeologyCrossingsAlgorithm
     from .normalizeattitudes import NormalizeAttitudesAlgorithm
     from .profile import ProfileAlgorithm
@@ -20,4 +21,5 @@ def all_algorithms():
         SectionSheetAlgorithm(),
         StructuralTrendAlgorithm(),
         DipDomainsAlgorithm(),
+        FormLinesAlgorithm(),
     ]

@@ -124,6 +124,8 @@ def main(demo):
         ("attitude_ticks", "Dip ticks", styles.tick_renderer()),
         ("crossings_view", "Contacts and boundaries", styles.crossing_renderer()),
         ("boreholes", "Boreholes", styles.hole_renderer()),
+        ("form_lines", "Form lines (kink construction)", styles.form_line_renderer("kind")),
+        ("axial_surfaces", "Axial surfaces", styles.axis_renderer()),
     ):
         view[layer_name] = add(results, layer_name, name, view_group, renderer=renderer)
         view[layer_name].setCrs(engineering)

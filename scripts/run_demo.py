@@ -5,9 +5,9 @@
 Makes the demo world, runs the Sectionwright algorithms on every demo
 section line through qgis_process — the topographic profile, the attitudes
 carried onto the sections and their dip domains, the map geology along them,
-the boreholes, and the structural trend with the section azimuth it
-recommends — writes ``sections.gpkg`` and prints a short summary per
-section.
+the boreholes, the structural trend with the section azimuth it
+recommends, and the form lines below the ground with the thickness check —
+writes ``sections.gpkg`` and prints a short summary per section.
 """
 
 import sys
@@ -144,6 +144,27 @@ def run_boreholes(world, out):
     )
 
 
+def run_formlines(world, out):
+    """Needs the profile, attitudes and geology steps' layers in ``out``."""
+    return headless.run(
+        "sectionwright:formlines",
+        {
+            "ATTITUDES": f"{out}|layername=attitudes",
+            "CROSSINGS": f"{out}|layername=geology_crossings",
+            "PROFILE": f"{out}|layername=profile_section",
+            "METHOD": 0,
+            "DEPTH": 1500,
+            "SPACING": 50,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "form_lines"),
+            "OUTPUT_AXES": headless.gpkg_layer(out, "axial_surfaces"),
+            "OUTPUT_THICKNESS": headless.gpkg_layer(out, "unit_thickness"),
+            "SKIPPED": headless.gpkg_layer(out, "form_lines_skipped"),
+        },
+        world / ".headless-qgis",
+    )
+
+
 def count_by_section(layer, condition=lambda feature: True):
     counts = {}
     for feature in layer:
@@ -165,11 +186,16 @@ def print_summary(out):
     holes = count_by_section(data.GetLayerByName("boreholes"))
     domains = count_by_section(data.GetLayerByName("domains"))
     checked = {f.GetField("section"): f for f in data.GetLayerByName("trend_lines")}
+    form_lines = count_by_section(data.GetLayerByName("form_lines"))
+    changes = count_by_section(
+        data.GetLayerByName("unit_thickness"),
+        lambda f: "thickness_changes" in (f.GetField("flags") or ""),
+    )
     print_trend(data.GetLayerByName("trend"))
     print(
         f"{'section':<8}{'length m':>10}{'samples':>9}{'min elev':>10}{'max elev':>10}"
         f"{'attitudes':>11}{'flagged':>9}{'domains':>9}{'unit bdys':>11}{'contacts':>10}"
-        f"{'holes':>7}{'misfit':>8}  advice"
+        f"{'holes':>7}{'forms':>7}{'thick chg':>10}{'misfit':>8}  advice"
     )
     for feature in data.GetLayerByName("profile_section"):
         label = feature.GetField("section")
@@ -179,7 +205,8 @@ def print_summary(out):
             f"{carried.get(label, 0):>11d}{flagged.get(label, 0):>9d}"
             f"{domains.get(label, 0):>9d}"
             f"{boundaries.get(label, 0):>11d}{contacts.get(label, 0):>10d}"
-            f"{holes.get(label, 0):>7d}{checked[label].GetField('misfit'):>7.0f}°"
+            f"{holes.get(label, 0):>7d}{form_lines.get(label, 0):>7d}{changes.get(label, 0):>10d}"
+            f"{checked[label].GetField('misfit'):>7.0f}°"
             f"  {checked[label].GetField('advice')}"
         )
 
@@ -208,6 +235,7 @@ def main(out_dir):
         ("Geology along the sections", run_geology),
         ("Boreholes on the sections", run_boreholes),
         ("Structural trend", run_trend),
+        ("Form lines below the ground", run_formlines),
     ):
         report = step(world, out)
         print(

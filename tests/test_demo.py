@@ -16,6 +16,7 @@ pytestmark = pytest.mark.headless  # run_demo.py runs every step through qgis_pr
 
 
 def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
+    outputs = []
     for script in ("run_demo.py", "make_demo_project.py"):
         done = subprocess.run(
             [sys.executable, str(ROOT / "scripts" / script), str(tmp_path)],
@@ -24,6 +25,8 @@ def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
             timeout=600,
         )
         assert done.returncode == 0, done.stderr[-3000:]
+        outputs.append(done.stdout)
+    assert "Form lines below the ground: Summary:" in outputs[0]
     summary = done.stdout
     assert "Project with 4 layouts" in summary
     info = subprocess.run(
@@ -36,6 +39,8 @@ def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):
     layouts = {layout.name(): layout for layout in project.layoutManager().layouts()}
     assert sorted(layouts) == ["Section A", "Section B", "Section C", "Section D"]
     assert all(layer.isValid() for layer in project.mapLayers().values())
+    names = {layer.name() for layer in project.mapLayers().values()}
+    assert {"Form lines (kink construction)", "Axial surfaces"} <= names
     picture = tmp_path / "reopened.png"
     settings = QgsLayoutExporter.ImageExportSettings()
     settings.dpi = 60

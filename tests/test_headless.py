@@ -8,6 +8,7 @@ import pytest
 from osgeo import ogr
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "scripts"))
+import headless  # noqa: E402
 import run_demo  # noqa: E402
 
 pytestmark = pytest.mark.headless
@@ -84,3 +85,44 @@ def test_structural_trend_runs_headless(demo_dir, tmp_path):
     }
     assert sorted(lines) == ["A", "B", "C", "D"]
     assert data.GetLayerByName("trend_skipped").GetFeatureCount() == 2
+
+
+def test_formlines_run_headless(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    for step in (run_demo.run_profile, run_demo.run_attitudes, run_demo.run_geology):
+        step(demo_dir, out)
+    line = summary(run_demo.run_formlines(demo_dir, out))
+    data = ogr.Open(str(out))
+    skipped = data.GetLayerByName("form_lines_skipped").GetFeatureCount()
+    assert line.endswith(f"skipped={skipped}")
+    kinds = {f.GetField("kind") for f in data.GetLayerByName("form_lines")}
+    assert kinds == {"contact", "form line"}
+    assert data.GetLayerByName("axial_surfaces").GetFeatureCount() > 10
+    assert data.GetLayerByName("unit_thickness").GetFeatureCount() > 10
+    assert {f.GetField("ve") for f in data.GetLayerByName("form_lines")} == {2.0}
+
+
+def test_formlines_take_the_representatives_of_dip_domains(demo_dir, tmp_path):
+    out = tmp_path / "demo.gpkg"
+    for step in (run_demo.run_profile, run_demo.run_attitudes, run_demo.run_geology):
+        step(demo_dir, out)
+    run_demo.run_domains(demo_dir, out)
+    report = headless.run(
+        "sectionwright:formlines",
+        {
+            "ATTITUDES": f"{out}|layername=attitude_domains",
+            "CROSSINGS": f"{out}|layername=geology_crossings",
+            "PROFILE": f"{out}|layername=profile_section",
+            "REPRESENTATIVES_ONLY": True,
+            "VERTICAL_EXAGGERATION": 2,
+            "OUTPUT": headless.gpkg_layer(out, "form_lines"),
+            "OUTPUT_AXES": headless.gpkg_layer(out, "axial_surfaces"),
+            "OUTPUT_THICKNESS": headless.gpkg_layer(out, "unit_thickness"),
+        },
+        demo_dir / ".headless-qgis",
+    )
+    data = ogr.Open(str(out))
+    chosen = sum(f.GetField("represent") for f in data.GetLayerByName("attitude_domains"))
+    carried = data.GetLayerByName("attitude_domains").GetFeatureCount()
+    skipped = [line for line in report["log"]["info"] if line.startswith("Skipped:")][0]
+    assert f"not representative={carried - chosen}" in skipped

@@ -231,3 +231,45 @@ SKIPPED_TREND_ROWS = Schema(
     _SOURCE_FID,
     _REASON,
 )
+
+UNIT_ABOVE = "unit_above"
+UNIT_BELOW = "unit_below"
+DIP_LEFT = "dip_left"
+DIP_RIGHT = "dip_right"
+AXIS_DIP = "axis_dip"
+THICKNESS = "thick_m"
+THICKNESS_SD = "thick_sd"
+CHANGE = "change"
+
+# formlines: form lines and axial surfaces in the section view, the
+# thickness table, and the attitudes and crossings not used.
+FORM_LINES = Schema(
+    _SECTION,
+    Field(KIND, TEXT, "contact (through a mapped contact) or form line"),
+    Field(UNIT_ABOVE, TEXT, "unit above a contact's form line"),
+    Field(UNIT_BELOW, TEXT, "unit below a contact's form line"),
+    _EXAGGERATION,
+)
+AXIAL_SURFACES = Schema(
+    _SECTION,
+    Field(DIP_LEFT, REAL, "signed apparent dip of the beds on the start side, + toward the end"),
+    Field(DIP_RIGHT, REAL, "signed apparent dip of the beds on the end side"),
+    Field(AXIS_DIP, REAL, "signed dip of the axial surface (or arc radius) itself"),
+    _EXAGGERATION,
+)
+UNIT_THICKNESS = Schema(
+    _SECTION,
+    Field(UNIT, TEXT, "unit met between two contacts"),
+    Field(FROM_CHAINAGE, REAL, "chainage of the first contact"),
+    Field(TO_CHAINAGE, REAL, "chainage of the second contact"),
+    Field(THICKNESS, REAL, "true stratigraphic thickness, metres"),
+    Field(THICKNESS_SD, REAL, "one standard deviation of the thickness, from the dips' σ"),
+    Field(CHANGE, REAL, "% difference from the mean of the unit's other occurrences"),
+    _FLAGS,
+)
+SKIPPED_FORM_LINE_ROWS = Schema(
+    Field(TABLE, TEXT, "the layer of the feature: attitudes or crossings"),
+    _SECTION,
+    _SOURCE_FID,
+    _REASON,
+)

@@ -206,3 +206,39 @@ def contact_renderer(field):
     return QgsCategorizedSymbolRenderer(
         f"CASE WHEN \"{field}\" = 'fault' THEN 'fault' ELSE '' END", categories
     )
+
+
+def form_line_renderer(field):
+    """Form lines through contacts drawn firm, the extra ones between them
+    fine and dashed: the eye reads the constructed contacts first."""
+    contact = QgsLineSymbol.createSimple({"line_color": INK, "line_width": "0.4"})
+    extra = QgsLineSymbol.createSimple(
+        {"line_color": "#6b6b6b", "line_width": "0.2", "line_style": "dash"}
+    )
+    categories = [
+        QgsRendererCategory("contact", contact, "contact"),
+        QgsRendererCategory("form line", extra, "form line"),
+    ]
+    return QgsCategorizedSymbolRenderer(field, categories)
+
+
+def axis_renderer():
+    """Axial surfaces (and arc radii) as thin dash-dot lines."""
+    return QgsSingleSymbolRenderer(
+        QgsLineSymbol.createSimple(
+            {"line_color": FAULT, "line_width": "0.25", "line_style": "dash dot"}
+        )
+    )
+
+
+class RendererStyler(QgsProcessingLayerPostProcessorInterface):
+    """Gives a layer Processing loads into the project the renderer made by
+    ``make_renderer``."""
+
+    def __init__(self, make_renderer):
+        super().__init__()
+        self.make_renderer = make_renderer
+
+    def postProcessLayer(self, layer, context, feedback):  # noqa: N802 (QGIS API)
+        layer.setRenderer(self.make_renderer())
+        layer.triggerRepaint()

@@ -50,6 +50,7 @@ def test_zip_installs_and_registers_the_provider(profile):
     assert report["provider"] == "Sectionwright"
     assert report["algorithms"] == [
         "sectionwright:dipdomains",
+        "sectionwright:formlines",
         "sectionwright:geologycrossings",
         "sectionwright:normalizeattitudes",
         "sectionwright:profile",
