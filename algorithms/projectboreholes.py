@@ -341,7 +341,7 @@ def _parameters_of(mapping):
 def _read_collars(settings, work_crs, network, skipped):
     collars, names = settings.collars.source, settings.collars.fields
     values, fids, geometries = read_columns(
-        collars, names, _parameters_of(COLLAR_FIELDS), "collar", with_geometry=True
+        collars, names, "collar", True, _parameters_of(COLLAR_FIELDS)
     )
     ids = labels(values["hole"])
     depth, depth_why = as_numbers(values["depth"], "depth")
@@ -408,7 +408,7 @@ def _read_table(table, holes):
         return dict(empty, fid=[], collar=np.empty(0, dtype=int), used=np.empty(0, bool))
     mapping = SURVEY_FIELDS if table.name == SURVEYS else INTERVAL_FIELDS
     values, fids, _ = read_columns(
-        table.source, table.fields, _parameters_of(mapping), table.name.lower()
+        table.source, table.fields, table.name.lower(), False, _parameters_of(mapping)
     )
     values["hole"] = labels(values["hole"])
     values["fid"] = fids

@@ -209,3 +209,27 @@ register(
         "SKIPPED": out("SKIPPED"),
     },
 )
+
+
+def form_line_parameters(m, out, scratch):
+    """Form lines are built from the carried attitudes, the crossings and the
+    profile of the same sections: made first."""
+
+    def made(name, output):
+        parameters = {**RUNS[name].parameters(m, memory, scratch), "SKIPPED": "memory:"}
+        return processing.run(f"sectionwright:{name}", parameters)[output]
+
+    return {
+        "ATTITUDES": made("projectattitudes", "OUTPUT"),
+        "CROSSINGS": made("geologycrossings", "OUTPUT"),
+        "PROFILE": made("profile", "OUTPUT_SECTION"),
+        "SPACING": 50.0,
+        "VERTICAL_EXAGGERATION": 2.0,
+        "OUTPUT": out("OUTPUT"),
+        "OUTPUT_AXES": out("OUTPUT_AXES"),
+        "OUTPUT_THICKNESS": out("OUTPUT_THICKNESS"),
+        "SKIPPED": out("SKIPPED"),
+    }
+
+
+register("formlines", ("sections", "attitudes", "dem"), form_line_parameters)
