@@ -10,6 +10,7 @@ def all_algorithms():
     from .projectattitudes import ProjectAttitudesAlgorithm
     from .projectboreholes import ProjectBoreholesAlgorithm
     from .sectionsheet import SectionSheetAlgorithm
+    from .sectionsin3d import SectionsIn3dAlgorithm
     from .structuraltrend import StructuralTrendAlgorithm
 
     return [
@@ -19,6 +20,7 @@ def all_algorithms():
         GeologyCrossingsAlgorithm(),
         ProjectBoreholesAlgorithm(),
         SectionSheetAlgorithm(),
+        SectionsIn3dAlgorithm(),
         StructuralTrendAlgorithm(),
         DipDomainsAlgorithm(),
         FormLinesAlgorithm(),

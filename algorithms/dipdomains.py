@@ -27,7 +27,7 @@ from .framework.ledger import RunLedger
 from .framework.run_guard import stop_if_cancelled
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
-from .outputs.geometry_io import add_qgis_features
+from .outputs.feature_writer import write_rows
 from .outputs.skipped import skip_features
 
 ATTITUDES = "ATTITUDES"
@@ -221,15 +221,19 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
             F.REPRESENT: result["represent"][good].astype(int),
             F.WHY: result["why"][good],
         }
-        add_qgis_features(
+        write_rows(
             sinks[OUTPUT][0],
+            carried.qgs_fields(),
             [rows["geometries"][i] for i in good],
-            carried.rows(carried.columns([rows["attributes"][i] for i in good], columns)),
+            carried.columns([rows["attributes"][i] for i in good], columns),
         )
         feedback.setProgress(90)
         stop_if_cancelled(feedback)
         rep = table["rep"]
-        domain_rows = F.DIP_DOMAINS.rows(
+        write_rows(
+            sinks[OUTPUT_DOMAINS][0],
+            F.DIP_DOMAINS.qgs_fields(),
+            None,
             {
                 F.SECTION: result["labels"][rep],
                 F.DOMAIN: result["domain"][rep],
@@ -240,9 +244,8 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
                 F.DIP_SPREAD: table["dip_sd"],
                 F.DIPS_TO: table["dips_to"],
                 F.REPRESENTATIVE_FID: result["source_ids"][rep],
-            }
+            },
         )
-        add_qgis_features(sinks[OUTPUT_DOMAINS][0], [None] * len(domain_rows), domain_rows)
         per_section = Counter(result["labels"][good].tolist())
         domain_count = Counter(result["labels"][rep].tolist())
         for label in result["sections"]:

@@ -32,7 +32,7 @@ from .framework.ledger import RunLedger
 from .framework.run_guard import stop_if_cancelled
 from .inputs.tables import labels, read_columns
 from .outputs import fields as F
-from .outputs.geometry_io import add_features, add_qgis_features
+from .outputs.feature_writer import write_rows
 from .outputs.section_space import is_section_view, section_crs
 from .outputs.skipped import write_skipped
 from .outputs.styles import RendererStyler, axis_renderer, form_line_renderer
@@ -362,31 +362,29 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             settings.spacing,
         )
         count, axes = len(result.lines), len(result.axes)
-        add_features(
+        write_rows(
             sinks[OUTPUT][0],
+            F.FORM_LINES.qgs_fields(),
             exaggerated(result.lines, exaggeration),
-            F.FORM_LINES.rows(
-                {
-                    F.SECTION: [label] * count,
-                    F.KIND: np.where(result.contact >= 0, CONTACT, FORM_LINE),
-                    F.UNIT_ABOVE: [u or None for u in result.unit_above],
-                    F.UNIT_BELOW: [u or None for u in result.unit_below],
-                    F.EXAGGERATION: np.full(count, exaggeration),
-                }
-            ),
+            {
+                F.SECTION: [label] * count,
+                F.KIND: np.where(result.contact >= 0, CONTACT, FORM_LINE),
+                F.UNIT_ABOVE: [u or None for u in result.unit_above],
+                F.UNIT_BELOW: [u or None for u in result.unit_below],
+                F.EXAGGERATION: np.full(count, exaggeration),
+            },
         )
-        add_features(
+        write_rows(
             sinks[OUTPUT_AXES][0],
+            F.AXIAL_SURFACES.qgs_fields(),
             exaggerated(result.axes, exaggeration),
-            F.AXIAL_SURFACES.rows(
-                {
-                    F.SECTION: [label] * axes,
-                    F.DIP_LEFT: result.dip_left,
-                    F.DIP_RIGHT: result.dip_right,
-                    F.AXIS_DIP: result.axis_dip,
-                    F.EXAGGERATION: np.full(axes, exaggeration),
-                }
-            ),
+            {
+                F.SECTION: [label] * axes,
+                F.DIP_LEFT: result.dip_left,
+                F.DIP_RIGHT: result.dip_right,
+                F.AXIS_DIP: result.axis_dip,
+                F.EXAGGERATION: np.full(axes, exaggeration),
+            },
         )
         measured = self._thickness(
             label, attitudes, rows, chainage, contact_points, before, after,
@@ -423,7 +421,10 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
             ",".join((["thickness_changes"] if flagged else []) + own)
             for flagged, own in zip(changed.tolist(), table["flags"])
         ]
-        rows = F.UNIT_THICKNESS.rows(
+        write_rows(
+            sink,
+            F.UNIT_THICKNESS.qgs_fields(),
+            None,
             {
                 F.SECTION: [label] * len(flags),
                 F.UNIT: table["unit"],
@@ -433,9 +434,8 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
                 F.THICKNESS_SD: table["thick_sd"],
                 F.CHANGE: change,
                 F.FLAGS: flags,
-            }
+            },
         )
-        add_qgis_features(sink, [None] * len(rows), rows)
         return len(table["unit"]), int(changed.sum())
 
     # Writing
@@ -469,15 +469,13 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
     @staticmethod
     def _write_skipped(sink, skipped):
         tables, sections, fids, reasons = zip(*skipped) if skipped else ((), (), (), ())
-        rows = F.SKIPPED_FORM_LINE_ROWS.rows(
-            {
-                F.TABLE: ["attitudes" if t == ATTITUDES else "crossings" for t in tables],
-                F.SECTION: [s or None for s in sections],
-                F.SOURCE_FID: list(fids),
-                F.REASON: list(reasons),
-            }
-        )
-        write_skipped(sink, [None] * len(rows), rows)
+        columns = {
+            F.TABLE: ["attitudes" if t == ATTITUDES else "crossings" for t in tables],
+            F.SECTION: [s or None for s in sections],
+            F.SOURCE_FID: list(fids),
+            F.REASON: list(reasons),
+        }
+        write_skipped(sink, F.SKIPPED_FORM_LINE_ROWS.qgs_fields(), None, columns)
 
 
 def _numbers(values):

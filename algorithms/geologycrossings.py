@@ -43,7 +43,8 @@ from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_features, read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
-from .outputs.geometry_io import add_features, add_wkb_features, points_z
+from .outputs.feature_writer import write_rows
+from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_sections
 from .outputs.styles import UnitStripStyler
@@ -410,7 +411,7 @@ def _write_crossings(sink, part, numbered, units, chainage, elevation, to_map, e
             for c, bad in zip(crossings, ill)
         ],
     }
-    add_wkb_features(sink, points_z(map_x, map_y, z), F.CROSSINGS.rows(columns))
+    write_rows(sink, F.CROSSINGS.qgs_fields(), points_z(map_x, map_y, z), columns)
 
 
 def _write_intervals(sink, part, stretch, units, chainage, elevation, exaggeration):
@@ -431,4 +432,4 @@ def _write_intervals(sink, part, stretch, units, chainage, elevation, exaggerati
         F.EXAGGERATION: np.full(len(which), exaggeration),
         F.FLAGS: ["overlap" if o else "" for o in stretch.overlap[which]],
     }
-    add_features(sink, geometries, F.UNIT_INTERVALS.rows(columns))
+    write_rows(sink, F.UNIT_INTERVALS.qgs_fields(), np.array(geometries, dtype=object), columns)

@@ -12,7 +12,7 @@ from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.section_lines import crs_wkt
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
-from .outputs.geometry_io import add_qgis_features
+from .outputs.feature_writer import write_rows
 from .outputs.skipped import skip_features
 
 INPUT = "INPUT"
@@ -78,10 +78,11 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
             F.DIP: rows.dip[good],
             F.STRIKE: strike_from_dip_direction(dip_direction)[good],
         }
-        add_qgis_features(
+        write_rows(
             sinks[OUTPUT][0],
+            output_fields.qgs_fields(),
             [rows.geometries[i] for i in good],
-            output_fields.rows(output_fields.columns([rows.attributes[i] for i in good], columns)),
+            output_fields.columns([rows.attributes[i] for i in good], columns),
         )
         feedback.setProgress(100)
         ledger.close()

@@ -3,17 +3,23 @@
 from dataclasses import dataclass
 
 import numpy as np
-import shapely
 from qgis.core import (
     QgsCoordinateTransform,
+    QgsProcessing,
     QgsProcessingParameterBand,
     QgsProcessingParameterDistance,
     QgsProcessingParameterFeatureSink,
 )
 
-from .compat.qgis_compat import MULTI_LINE_STRING, POINT_Z, SOURCE_LINES, SOURCE_POINTS
+from .compat.qgis_compat import (
+    MULTI_LINE_STRING,
+    MULTI_LINE_STRING_ZM,
+    POINT_Z,
+    SOURCE_LINES,
+    SOURCE_POINTS,
+)
 from .core.crs import transformer
-from .core.profile import profile_samples, section_runs
+from .core.profile import draped_runs, profile_samples, section_runs
 from .framework.base import (
     DEM,
     INPUT,
@@ -29,13 +35,15 @@ from .framework.run_guard import stop_if_cancelled
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
-from .outputs.geometry_io import add_features, add_wkb_features, points_z
+from .outputs.feature_writer import multi_line_wkb, write_rows
+from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_sections
 
 DEM_BAND = "DEM_BAND"
 STEP = "STEP"
 OUTPUT = "OUTPUT"
+OUTPUT_LINE = "OUTPUT_LINE"
 OUTPUT_SECTION = "OUTPUT_SECTION"
 
 
@@ -68,6 +76,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
     ALGORITHM_ID = "profile"
     DISPLAY_NAME = "Topographic profile"
     OUTPUT_SCHEMAS = {
+        OUTPUT_LINE: F.PROFILE_LINES,
         OUTPUT: F.PROFILE_POINTS,
         OUTPUT_SECTION: F.PROFILE_SECTIONS,
         SKIPPED: F.SKIPPED_SECTIONS,
@@ -98,7 +107,23 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         self.add_exaggeration_parameter()
         self.addParameter(
             QgsProcessingParameterFeatureSink(
-                OUTPUT, self.tr("Profile points (map)"), SOURCE_POINTS
+                OUTPUT_LINE,
+                self.tr("Profile line (map, 3-D)"),
+                SOURCE_LINES,
+                # Optional, so that scripts written before it existed run on:
+                # where they do not name it, it is a temporary layer.
+                defaultValue=QgsProcessing.TEMPORARY_OUTPUT,
+                optional=True,
+                createByDefault=True,
+            )
+        )
+        self.addParameter(
+            QgsProcessingParameterFeatureSink(
+                OUTPUT,
+                self.tr("Profile points (map, one per sample)"),
+                SOURCE_POINTS,
+                optional=True,
+                createByDefault=False,
             )
         )
         self.addParameter(
@@ -133,9 +158,8 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     skip_sections(sinks[SKIPPED][0], [part])
                     feedback.pushInfo(f"Section {part.label} skipped: {part.reason}.")
                 else:
-                    self._write_part(
-                        sinks, part.label, chainage, elevation, to_map(*xy.T), settings
-                    )
+                    map_xy = np.column_stack(to_map(*xy.T))
+                    self._write_part(sinks, part.label, chainage, elevation, map_xy, settings)
                     ledger.written += 1
                     feedback.pushInfo(
                         f"Section {part.label}: length {chainage[-1]:.1f}, "
@@ -148,16 +172,42 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
 
     def _sinks(self, parameters, context, lines):
         specs = (
+            (OUTPUT_LINE, F.PROFILE_LINES.qgs_fields(), MULTI_LINE_STRING_ZM, lines.sourceCrs()),
             (OUTPUT, F.PROFILE_POINTS.qgs_fields(), POINT_Z, lines.sourceCrs()),
             (OUTPUT_SECTION, F.PROFILE_SECTIONS.qgs_fields(), MULTI_LINE_STRING, section_crs()),
             (SKIPPED, F.SKIPPED_SECTIONS.qgs_fields(), lines.wkbType(), lines.sourceCrs()),
         )
-        return self.open_sinks(parameters, context, specs, required=(OUTPUT, OUTPUT_SECTION))
+        return self.open_sinks(parameters, context, specs, required=(OUTPUT_SECTION,))
 
     @staticmethod
     def _write_part(sinks, label, chainage, elevation, map_xy, settings):
-        _write_samples(sinks[OUTPUT][0], label, chainage, elevation, map_xy)
-        _write_section(sinks[OUTPUT_SECTION][0], label, chainage, elevation, settings.exaggeration)
+        """The outputs of one section part: its line on the map, its samples
+        (when asked for) and its line in the section view."""
+        valid = elevation[~np.isnan(elevation)]
+        summary = {
+            F.SECTION: [label],
+            F.LENGTH: [chainage[-1]],
+            F.MIN_ELEVATION: [valid.min()],
+            F.MAX_ELEVATION: [valid.max()],
+            F.EXAGGERATION: [settings.exaggeration],
+        }
+        line_sink = sinks[OUTPUT_LINE][0]
+        if line_sink is not None:
+            line = multi_line_wkb(draped_runs(map_xy, chainage, elevation), 4)
+            write_rows(line_sink, F.PROFILE_LINES.qgs_fields(), [line], summary)
+        points_sink = sinks[OUTPUT][0]
+        if points_sink is not None:
+            samples = {
+                F.SECTION: [label] * len(chainage),
+                F.CHAINAGE: chainage,
+                F.ELEVATION: elevation,
+                F.X: map_xy[:, 0],
+                F.Y: map_xy[:, 1],
+            }
+            points = points_z(map_xy[:, 0], map_xy[:, 1], elevation)
+            write_rows(points_sink, F.PROFILE_POINTS.qgs_fields(), points, samples)
+        view = multi_line_wkb(section_runs(chainage, elevation, settings.exaggeration), 2)
+        write_rows(sinks[OUTPUT_SECTION][0], F.PROFILE_SECTIONS.qgs_fields(), [view], summary)
 
     @staticmethod
     def _sample_jobs(parts, step):
@@ -176,28 +226,3 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             source.sourceCrs(), work_crs, context.transformContext()
         ).transform(source.sourceExtent().center())
         return sampler.cell_size((centre.x(), centre.y()))
-
-
-def _write_samples(sink, label, chainage, elevation, map_xy):
-    map_x, map_y = map_xy
-    columns = {
-        F.SECTION: np.full(len(chainage), label, dtype=object),
-        F.CHAINAGE: chainage,
-        F.ELEVATION: elevation,
-        F.X: map_x,
-        F.Y: map_y,
-    }
-    add_wkb_features(sink, points_z(map_x, map_y, elevation), F.PROFILE_POINTS.rows(columns))
-
-
-def _write_section(sink, label, chainage, elevation, exaggeration):
-    runs = section_runs(chainage, elevation, exaggeration)
-    valid = elevation[~np.isnan(elevation)]
-    columns = {
-        F.SECTION: [label],
-        F.LENGTH: [chainage[-1]],
-        F.MIN_ELEVATION: [valid.min()],
-        F.MAX_ELEVATION: [valid.max()],
-        F.EXAGGERATION: [exaggeration],
-    }
-    add_features(sink, [shapely.MultiLineString(runs)], F.PROFILE_SECTIONS.rows(columns))

@@ -4,7 +4,6 @@ from collections import Counter
 from dataclasses import dataclass
 
 import numpy as np
-import shapely
 from qgis.core import (
     QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
@@ -31,14 +30,15 @@ from .framework.base import (
 )
 from .framework.ledger import RunLedger
 from .framework.run_guard import ParameterProblem, stop_if_cancelled
-from .inputs.attitudes import AttitudeSettings, add_attitude_parameters, geometry_reason
+from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.dem import DemSampler, bounded_gdal_cache
 from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
-from .outputs.geometry_io import add_features, add_wkb_features, points_z
+from .outputs.feature_writer import line_wkbs, write_rows
+from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_features
 
@@ -215,7 +215,6 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         stop_if_cancelled(feedback)
         xy, record = self._carry(settings, parts, rows, work_crs, context, feedback)
         feedback.setProgress(60)
-        stop_if_cancelled(feedback)
         fields = _output_fields(settings.points, feedback)
         sinks = self._sinks(parameters, context, settings, fields)
         _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback)
@@ -235,8 +234,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 rows.xyz[:, 0], rows.xyz[:, 1]
             )
         )
-        reasons = np.array([geometry_reason(g) for g in rows.geometries], dtype=object)
-        reasons = np.where(reasons == "", rows.reasons, reasons)
+        reasons = np.where(rows.geometry_reasons == "", rows.reasons, rows.geometry_reasons)
         to_grid = settings.attitudes.to_grid
         dip_direction = np.where(
             reasons == "", to_grid(rows.dip_direction, xy, work_wkt, rows.declination), np.nan
@@ -288,7 +286,7 @@ def _output_fields(points, feedback):
 
 
 def _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback):
-    carried_fields, tick_fields, skipped_fields = fields
+    _, _, skipped_fields = fields
     ledger = RunLedger(feedback)
     ledger.read = len(rows)
     refused = np.flatnonzero(record["reason"] != "")
@@ -315,48 +313,46 @@ def _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback)
         record["sense"],
         _tick_lengths(settings.tick_length, parts)[record["line"]],
     )
-    _write_carried(
-        sinks,
-        (carried_fields, tick_fields),
-        (rows, record, labels, carried, xy),
-        settings.carry.exaggeration,
-        ticks,
-        to_map,
-    )
+    geometry = (xy, ticks, to_map)
+    _write_carried(sinks, fields, (rows, record, labels, carried), geometry, settings, feedback)
     _log_sections(feedback, parts, labels[carried], record["flags"][carried])
     ledger.close()
 
 
-def _write_carried(sinks, fields, carried_rows, exaggeration, ticks, to_map):
+def _write_carried(sinks, fields, carried_rows, geometry, settings, feedback):
     """The three outputs of the carried attitudes, sharing their fields (the
-    ticks with the exaggeration besides)."""
-    carried_fields, tick_fields = fields
-    rows, record, labels, carried, xy = carried_rows
+    ticks with the exaggeration besides); ``geometry`` is (working-CRS source
+    positions, tick segments, the transformation to the lines' CRS)."""
+    carried_fields, tick_fields, _ = fields
+    rows, record, labels, carried = carried_rows
+    xy, ticks, to_map = geometry
     # The core's record is keyed by the output's field names.
     computed = {name: record[name][carried] for name in F.CARRIED_ATTITUDES.names if name in record}
     computed.update({F.SECTION: labels[carried], F.SOURCE_FID: np.asarray(rows.fids)[carried]})
-    source_attributes = [rows.attributes[i] for i in carried]
-    attributes = carried_fields.rows(carried_fields.columns(source_attributes, computed))
-    computed[F.EXAGGERATION] = np.full(len(carried), exaggeration)
-    tick_attributes = tick_fields.rows(tick_fields.columns(source_attributes, computed))
+    columns = carried_fields.columns([rows.attributes[i] for i in carried], computed)
+    fields = carried_fields.qgs_fields()
     landing = np.column_stack(to_map(*record["landing_xy"][carried].T))
     elevation = record["elev"][carried]
-    add_wkb_features(sinks[OUTPUT][0], points_z(*landing.T, elevation), attributes)
-    drawn = np.flatnonzero(~np.isnan(elevation))
-    add_features(
-        sinks[OUTPUT_TICKS][0],
-        shapely.linestrings(ticks[carried][drawn]),
-        [tick_attributes[i] for i in drawn],
-    )
+    also = []
     if sinks[OUTPUT_CONNECTORS][0] is not None:
         source = np.column_stack(to_map(*xy[carried].T))
         # A point already on its line travels nowhere: a line of no length is no geometry.
         moved = np.flatnonzero(np.any(source != landing, axis=1))
-        add_features(
-            sinks[OUTPUT_CONNECTORS][0],
-            shapely.linestrings(np.stack((source[moved], landing[moved]), axis=1)),
-            [attributes[i] for i in moved],
-        )
+        connectors = line_wkbs(np.stack((source[moved], landing[moved]), axis=1))
+        also.append((sinks[OUTPUT_CONNECTORS][0], connectors, moved))
+    points = points_z(*landing.T, elevation)
+    write_rows(sinks[OUTPUT][0], fields, points, columns, feedback, also)
+    stop_if_cancelled(feedback)
+    drawn = np.flatnonzero(~np.isnan(elevation))
+    tick_columns = {name: [values[i] for i in drawn] for name, values in columns.items()}
+    tick_columns[F.EXAGGERATION] = [settings.carry.exaggeration] * len(drawn)
+    write_rows(
+        sinks[OUTPUT_TICKS][0],
+        tick_fields.qgs_fields(),
+        line_wkbs(ticks[carried][drawn]),
+        tick_columns,
+        feedback,
+    )
 
 
 def _usable_parts(settings, work_crs, context, feedback):

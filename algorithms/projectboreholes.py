@@ -47,7 +47,7 @@ from .inputs.map_crs import require_map_crs
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .inputs.tables import labels, lookup, read_columns
 from .outputs import fields as F
-from .outputs.geometry_io import add_features
+from .outputs.feature_writer import write_rows
 from .outputs.section_space import section_crs
 from .outputs.skipped import write_skipped
 
@@ -309,16 +309,9 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         table, hole, fid, depth, reason = [list(c) for c in zip(*skipped)] or [[]] * 5
         write_skipped(
             sinks[SKIPPED][0],
-            [None] * len(skipped),
-            F.SKIPPED_BOREHOLE_ROWS.rows(
-                {
-                    F.TABLE: table,
-                    F.HOLE: hole,
-                    F.SOURCE_FID: fid,
-                    F.DEPTH: depth,
-                    F.REASON: reason,
-                }
-            ),
+            F.SKIPPED_BOREHOLE_ROWS.qgs_fields(),
+            None,
+            {F.TABLE: table, F.HOLE: hole, F.SOURCE_FID: fid, F.DEPTH: depth, F.REASON: reason},
         )
         ledger.read = len(holes["id"]) + len(surveys["hole"]) + len(intervals["hole"])
         ledger.written = ledger.read - len(skipped)
@@ -438,16 +431,20 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
         F.OFFSET_MAX: high,
         F.EXAGGERATION: np.full(len(drawn), exaggeration),
     }
-    add_features(
-        sinks[OUTPUT][0], shapely.linestrings(view, indices=group), F.BOREHOLES.rows(columns)
+    write_rows(
+        sinks[OUTPUT][0],
+        F.BOREHOLES.qgs_fields(),
+        shapely.linestrings(view, indices=group),
+        columns,
     )
     if sinks[OUTPUT_TRACES][0] is not None:
         map_x, map_y = to_map(samples["xyz"][:, 0], samples["xyz"][:, 1])
         trace = np.column_stack((map_x, map_y, samples["xyz"][:, 2]))
-        add_features(
+        write_rows(
             sinks[OUTPUT_TRACES][0],
+            F.BOREHOLE_TRACES.qgs_fields(),
             shapely.linestrings(trace, indices=group),
-            F.BOREHOLE_TRACES.rows(columns),
+            columns,
         )
     if sinks[OUTPUT_INTERVALS][0] is not None and len(intervals["hole"]):
         _write_intervals(
@@ -490,9 +487,8 @@ def _write_intervals(sink, holes, samples, intervals, view, offset, labels_of, e
         F.OFFSET_MAX: high,
         F.EXAGGERATION: np.full(len(kept), exaggeration),
     }
-    add_features(
-        sink, shapely.linestrings(view[rows], indices=piece), F.BOREHOLE_INTERVALS.rows(columns)
-    )
+    lines = shapely.linestrings(view[rows], indices=piece)
+    write_rows(sink, F.BOREHOLE_INTERVALS.qgs_fields(), lines, columns)
 
 
 def _point(geometry):

@@ -16,46 +16,57 @@ from qgis.core import (
     QgsProcessingParameterEnum,
     QgsProcessingParameterFileDestination,
     QgsProcessingParameterMultipleLayers,
+    QgsProcessingParameterNumber,
     QgsProcessingParameterString,
     QgsProcessingParameterVectorLayer,
     QgsProject,
+    QgsProviderRegistry,
     QgsRectangle,
 )
+from qgis.PyQt.QtCore import QDate, Qt
 
-from .compat.null import plain
 from .compat.qgis_compat import (
     EXPORT_SUCCESS,
     NO_THREADING,
+    NUMBER_DOUBLE,
     SOURCE_ANY_VECTOR,
     SOURCE_LINES,
     TEXT_AS_TEXT,
+    advanced,
 )
-from .core.sheet_scale import end_names, padded
+from .core.sheet_scale import format_scale
 from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
-from .framework.run_guard import ParameterProblem, stop_if_cancelled
+from .framework.run_guard import stop_if_cancelled
 from .inputs.section_lines import read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs import styles
+from .outputs.section_space import is_section_view
 from .outputs.skipped import skip_sections
-from .sheet.layers import (
-    collar_points,
-    copy_section,
-    crossings_in_section,
-    line_on_map,
-    section_filter,
+from .sheet.builder import (
+    AXES,
+    BOREHOLE_INTERVALS,
+    BOREHOLES,
+    CROSSINGS,
+    DOMAINS,
+    FORM_LINES,
+    INTERVALS,
+    PROFILE,
+    TICKS,
+    SheetBuilder,
 )
-from .sheet.page import SheetSection, add_page
+from .sheet.exaggeration import common_exaggeration
+from .sheet.layers import line_on_map
+from .sheet.page import add_overview_page, add_section_page, scale_statement, view_box
+from .sheet.title_block import TitleBlock
 
-PROFILE = "PROFILE"
-INTERVALS = "INTERVALS"
-TICKS = "TICKS"
-CROSSINGS = "CROSSINGS"
-BOREHOLES = "BOREHOLES"
 MAP_LAYERS = "MAP_LAYERS"
 TITLE = "TITLE"
+AUTHOR = "AUTHOR"
 LABEL_DIPS = "LABEL_DIPS"
 PAGE_SIZE = "PAGE_SIZE"
+SCALE = "SCALE"
+OVERVIEW = "OVERVIEW"
 ADD_LAYOUT = "ADD_LAYOUT"
 OUTPUT = "OUTPUT"
 
@@ -64,7 +75,17 @@ PAGE_SIZES = [
     ("A3 landscape", (420.0, 297.0)),
     ("A2 landscape", (594.0, 420.0)),
 ]
-NO_PROFILE = "no profile for this section in PROFILE"
+# Optional section-view inputs: parameter, label, geometry filter.
+SECTION_VIEW_INPUTS = (
+    (INTERVALS, "Geology strip (section view)", SOURCE_LINES),
+    (TICKS, "Dip ticks (section view)", SOURCE_LINES),
+    (CROSSINGS, "Geology crossings (with chainage and elev)", SOURCE_ANY_VECTOR),
+    (BOREHOLES, "Boreholes (section view)", SOURCE_LINES),
+    (BOREHOLE_INTERVALS, "Logged borehole intervals (section view)", SOURCE_LINES),
+    (FORM_LINES, "Form lines (section view, from Subsurface form lines)", SOURCE_LINES),
+    (AXES, "Axial surfaces (section view, from Subsurface form lines)", SOURCE_LINES),
+    (DOMAINS, "Dip domains table (from Dip domains)", SOURCE_ANY_VECTOR),
+)
 
 
 @dataclass
@@ -73,53 +94,107 @@ class SheetSettings:
 
     lines: object
     id_field: str
-    profile: object
-    inputs: dict  # INTERVALS, TICKS, CROSSINGS, BOREHOLES: layer or None
+    inputs: dict  # PROFILE and the optional section-view inputs: layer or None
+    exaggeration: float
     map_layers: list
     title: str
+    title_block: dict  # the title block's entries common to every page
     label_dips: bool
     page_size: tuple  # mm
+    scale: float  # 0: automatic
+    overview: bool
     add_layout: bool
     output: str
     suffix: str
 
     @classmethod
-    def read(cls, algorithm, parameters, context):
+    def read(cls, algorithm, parameters, context, feedback):
+        def label(name):
+            return algorithm.parameterDefinition(name).description()
+
         lines = algorithm.source(parameters, INPUT, context)
         profile = algorithm.parameterAsVectorLayer(parameters, PROFILE, context)
         if profile is None or profile.fields().lookupField(F.SECTION) < 0:
-            raise ParameterProblem(
-                PROFILE,
-                "give the section-view profile made by Topographic profile (it needs "
-                f"a '{F.SECTION}' field).",
+            raise QgsProcessingException(
+                f"{label(PROFILE)}: give the section-view profile made by Topographic "
+                f"profile (it needs a '{F.SECTION}' field)."
             )
         output = algorithm.parameterAsFileOutput(parameters, OUTPUT, context)
+        inputs = {PROFILE: profile}
+        for name, _, _ in SECTION_VIEW_INPUTS:
+            inputs[name] = algorithm.parameterAsVectorLayer(parameters, name, context)
+        map_layers = algorithm.parameterAsLayerList(parameters, MAP_LAYERS, context)
+        title = algorithm.parameterAsString(parameters, TITLE, context)
         return cls(
             lines=lines,
             id_field=algorithm.parameterAsString(parameters, LINE_ID_FIELD, context),
-            profile=profile,
-            inputs={
-                name: algorithm.parameterAsVectorLayer(parameters, name, context)
-                for name in (INTERVALS, TICKS, CROSSINGS, BOREHOLES)
-            },
-            map_layers=algorithm.parameterAsLayerList(parameters, MAP_LAYERS, context),
-            title=algorithm.parameterAsString(parameters, TITLE, context),
+            inputs=inputs,
+            exaggeration=_exaggeration(inputs, label, feedback),
+            map_layers=map_layers,
+            title=title,
+            title_block=dict(
+                title=title,
+                crs=_crs_text(lines.sourceCrs()),
+                date=QDate.currentDate().toString(Qt.DateFormat.ISODate),
+                author=algorithm.parameterAsString(parameters, AUTHOR, context).strip(),
+                sources=_sources(
+                    algorithm.parameterAsVectorLayer(parameters, INPUT, context),
+                    inputs,
+                    map_layers,
+                ),
+            ),
             label_dips=algorithm.parameterAsBoolean(parameters, LABEL_DIPS, context),
             page_size=PAGE_SIZES[algorithm.parameterAsEnum(parameters, PAGE_SIZE, context)][1],
+            scale=algorithm.parameterAsDouble(parameters, SCALE, context),
+            overview=algorithm.parameterAsBoolean(parameters, OVERVIEW, context),
             add_layout=algorithm.parameterAsBoolean(parameters, ADD_LAYOUT, context),
             output=output,
-            suffix=_checked_suffix(output),
+            suffix=_checked_suffix(output, label(OUTPUT)),
         )
 
 
-def _checked_suffix(output):
+def _checked_suffix(output, label):
     suffix = Path(output).suffix.lower()
     if suffix not in (".pdf", ".png", ".svg"):
-        raise ParameterProblem(OUTPUT, "the file must end in .pdf, .png or .svg.")
+        raise QgsProcessingException(f"{label}: the file must end in .pdf, .png or .svg.")
     folder = Path(output).parent
     if not folder.is_dir() or not os.access(folder, os.W_OK):
-        raise ParameterProblem(OUTPUT, f"cannot write into {folder}.")
+        raise QgsProcessingException(f"{label}: cannot write into {folder}.")
     return suffix
+
+
+def _exaggeration(inputs, label, feedback):
+    """The one VE of the section-view inputs (1 when none says)."""
+    named = {
+        label(name): layer
+        for name, layer in inputs.items()
+        if layer is not None and is_section_view(layer.crs())
+    }
+    exaggeration = common_exaggeration(named)
+    if exaggeration is None:
+        feedback.pushInfo(
+            f"No section-view input has a '{F.EXAGGERATION}' field: drawn at exaggeration 1."
+        )
+        return 1.0
+    return exaggeration
+
+
+def _report_empty(label, inputs, section, feedback):
+    """A log line for each input given that shows nothing on this section."""
+    shown = {layer.name(): layer for layer in section.section_layers}
+    for given, name in (
+        (TICKS, "Dip ticks"),
+        (CROSSINGS, "Contacts and boundaries"),
+        (BOREHOLES, "Boreholes"),
+        (INTERVALS, "Geology strip"),
+        (BOREHOLE_INTERVALS, "Logged intervals"),
+        (FORM_LINES, "Form lines"),
+        (AXES, "Axial surfaces"),
+        (DOMAINS, "Dip domains"),
+    ):
+        layer = shown.get(name)
+        if inputs.get(given) is not None and (layer is None or not layer.featureCount()):
+            feedback.pushInfo(f"Section {label}: nothing in {given} for this section.")
 
 
 class SectionSheetAlgorithm(SectionwrightAlgorithm):
@@ -140,14 +215,9 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
                 PROFILE, tr("Profile (section view, from Topographic profile)"), [SOURCE_LINES]
             )
         )
-        for name, label, kinds in (
-            (INTERVALS, "Geology strip (section view)", [SOURCE_LINES]),
-            (TICKS, "Dip ticks (section view)", [SOURCE_LINES]),
-            (CROSSINGS, "Geology crossings (with chainage and elev)", [SOURCE_ANY_VECTOR]),
-            (BOREHOLES, "Boreholes (section view)", [SOURCE_LINES]),
-        ):
+        for name, label, kind in SECTION_VIEW_INPUTS:
             self.addParameter(
-                QgsProcessingParameterVectorLayer(name, tr(label), kinds, optional=True)
+                QgsProcessingParameterVectorLayer(name, tr(label), [kind], optional=True)
             )
         self.addParameter(
             QgsProcessingParameterMultipleLayers(
@@ -158,6 +228,9 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             QgsProcessingParameterString(
                 TITLE, tr("Title"), defaultValue="Geological cross-section"
             )
+        )
+        self.addParameter(
+            QgsProcessingParameterString(AUTHOR, tr("Author"), defaultValue="", optional=True)
         )
         self.addParameter(
             QgsProcessingParameterBoolean(
@@ -173,10 +246,30 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             )
         )
         self.addParameter(
+            advanced(
+                QgsProcessingParameterNumber(
+                    SCALE,
+                    tr("Horizontal scale 1:N (N; 0 = the largest standard scale that fits)"),
+                    NUMBER_DOUBLE,
+                    defaultValue=0.0,
+                    minValue=0.0,
+                )
+            )
+        )
+        self.addParameter(
             QgsProcessingParameterBoolean(
-                ADD_LAYOUT,
-                tr("Also add the layout to the current project, to edit it"),
+                OVERVIEW,
+                tr("Start with an overview page of every section line"),
                 defaultValue=False,
+            )
+        )
+        self.addParameter(
+            advanced(
+                QgsProcessingParameterBoolean(
+                    ADD_LAYOUT,
+                    tr("Also add the layout to the current project, to edit it"),
+                    defaultValue=False,
+                )
             )
         )
         self.addParameter(
@@ -187,7 +280,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         self.add_skipped_output()
 
     def processAlgorithm(self, parameters, context, feedback):
-        settings = SheetSettings.read(self, parameters, context)
+        settings = SheetSettings.read(self, parameters, context, feedback)
         lines = settings.lines
         skipped, skipped_id = self.parameterAsSink(
             parameters,
@@ -200,87 +293,153 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         work_crs = working_crs(lines, context, feedback)
         parts = read_section_parts(lines, settings.id_field, work_crs, context, feedback)
         builder = SheetBuilder(
-            settings.profile,
             settings.inputs,
             settings.map_layers,
             lines.sourceCrs(),
-            settings.title,
+            view_box(settings.page_size),
+            settings.scale,
             settings.label_dips,
-            feedback,
         )
+        ledger = RunLedger(feedback)
+        sections = self._sections(builder, parts, settings, ledger, skipped, feedback)
+        if not sections:
+            raise QgsProcessingException("No section could be drawn: see the log.")
         project = context.project() if settings.add_layout and context.project() else QgsProject()
         layout = QgsPrintLayout(project)
         layout.initializeDefaults()
         layout.setName(settings.title)
-        ledger = RunLedger(feedback)
-        sections, pages = self._pages(layout, builder, parts, settings, ledger, skipped, feedback)
-        if not pages:
-            raise QgsProcessingException("No section could be drawn: see the log.")
-        stop_if_cancelled(feedback)
+        pages, layer_sets = self._layout(layout, builder, parts, sections, settings, feedback)
         files = self._export(layout, pages, settings.output, settings.suffix)
         feedback.pushInfo(f"Written: {', '.join(files)}")
         if settings.add_layout and project is context.project():
-            self._add_to_project(project, layout, sections, feedback)
+            self._add_to_project(project, layout, layer_sets, feedback)
+        feedback.setProgress(100.0)
         ledger.close()
         results = {OUTPUT: settings.output}
         if skipped is not None:
             results[SKIPPED] = skipped_id
         return results
 
-    def _pages(self, layout, builder, parts, settings, ledger, skipped, feedback):
-        """A page per section that has a profile; the others to SKIPPED.
-        Returns the sections drawn (kept alive with the layout) and their
-        labels."""
-        sections, pages = [], []
+    @staticmethod
+    def _sections(builder, parts, settings, ledger, skipped, feedback):
+        """What each page shows; parts that get no page go to SKIPPED."""
+        sections = []
         for part in parts:
             stop_if_cancelled(feedback)
             ledger.read += 1
-            section = builder.section(part)
+            section = builder.section(part, settings.exaggeration)
             if section is None:
-                part.reason = part.reason or NO_PROFILE
+                part.reason = builder.reason
                 ledger.skip(part.reason)
                 skip_sections(skipped, [part])
                 feedback.pushInfo(f"Section {part.label}: no page ({part.reason}).")
                 continue
+            _report_empty(part.label, settings.inputs, section, feedback)
             sections.append(section)
-            page_number = self._page(layout, len(pages), settings.page_size)
-            scale = add_page(layout, page_number, settings.page_size, section)
-            pages.append(part.label)
+            ledger.written += 1
+            feedback.setProgress(40.0 * len(sections) / max(len(parts), 1))
+        return sections
+
+    def _layout(self, layout, builder, parts, sections, settings, feedback):
+        """The pages (overview first when asked for); returns their labels and
+        the layers each page draws, as (group name, layers)."""
+        block = settings.title_block
+        count = len(sections) + settings.overview
+        pages, layer_sets = [], []
+        if settings.overview:
+            layers = self._overview(layout, builder, parts, sections, settings)
+            pages.append("overview")
+            layer_sets.append(("Overview", layers))
+        for section in sections:
+            stop_if_cancelled(feedback)
+            subject = (
+                f"Section {section.label}–{section.label}′ · {section.start_name} "
+                f"{section.start_azimuth:03.0f}° to {section.end_name} {section.end_azimuth:03.0f}°"
+            )
+            add_section_page(
+                layout,
+                _page(layout, len(pages), settings.page_size),
+                settings.page_size,
+                section,
+                TitleBlock(
+                    subject=subject,
+                    scale=scale_statement(section.scale, section.exaggeration),
+                    sheet=f"{len(pages) + 1} of {count}",
+                    **block,
+                ),
+                settings.lines.sourceCrs(),
+            )
+            pages.append(section.label)
+            layer_sets.append(
+                (f"Section {section.label}", section.section_layers + section.location_layers[:2])
+            )
             box = section.extent
             feedback.pushInfo(
-                f"Section {part.label}: page {len(pages)}, scale 1:{scale:,.0f}, view chainage "
+                f"Section {section.label}: page {len(pages)}, scale {format_scale(section.scale)} "
+                f"(1:{section.scale:.0f}), view chainage "
                 f"{box.xMinimum():.1f}…{box.xMaximum():.1f}, exaggerated elevation "
                 f"{box.yMinimum():.1f}…{box.yMaximum():.1f}."
             )
-            ledger.written += 1
-            feedback.setProgress(80.0 * len(pages) / max(len(parts), 1))
-        return sections, pages
+            feedback.setProgress(40.0 + 40.0 * len(pages) / count)
+        return pages, layer_sets
 
     @staticmethod
-    def _add_to_project(project, layout, sections, feedback):
+    def _overview(layout, builder, parts, sections, settings):
+        """The first page: every section line on the map; returns the layers
+        made for it."""
+        crs = settings.lines.sourceCrs()
+        drawn = [part for part in parts if part.coords is not None]
+        extent = QgsRectangle()
+        line_layers = []
+        for part in drawn:
+            extent.combineExtentWith(part.geometry.boundingBox())
+            line_layers.append(
+                line_on_map(
+                    part.geometry, crs, f"Section line {part.label}", styles.section_line_renderer()
+                )
+            )
+        page_numbers = {section.label: index + 2 for index, section in enumerate(sections)}
+        listing = [
+            f"{s.label}–{s.label}′   {s.length / 1000:.2f} km   {format_scale(s.scale)}   "
+            f"page {page_numbers[s.label]}"
+            for s in sections
+        ]
+        made = [builder.ends(drawn)] + line_layers
+        add_overview_page(
+            layout,
+            _page(layout, 0, settings.page_size),
+            settings.page_size,
+            made + list(settings.map_layers),
+            extent,
+            crs,
+            TitleBlock(
+                subject="Index of sections",
+                scale="Each section's scale on its own page",
+                sheet=f"1 of {len(sections) + 1}",
+                **settings.title_block,
+            ),
+            listing,
+        )
+        return made
+
+    @staticmethod
+    def _add_to_project(project, layout, layer_sets, feedback):
         """The layout, and the per-section layers it draws (in a group left
-        unticked), added to the project for editing."""
+        unticked, a subgroup per page), added to the project for editing;
+        ``layer_sets`` are (subgroup name, layers)."""
         manager = project.layoutManager()
         layout.setName(
             manager.generateUniqueTitle() if manager.layoutByName(layout.name()) else layout.name()
         )
         group = project.layerTreeRoot().addGroup(f"Sheet layers: {layout.name()}")
         group.setItemVisibilityChecked(False)
-        for section in sections:
-            for layer in section.section_layers + section.location_layers[:1]:
+        for name, layers in layer_sets:
+            subgroup = group.addGroup(name)
+            for layer in layers:
                 project.addMapLayer(layer, False)
-                group.addLayer(layer)
+                subgroup.addLayer(layer)
         manager.addLayout(layout)
         feedback.pushInfo(f"Layout '{layout.name()}' added to the project.")
-
-    @staticmethod
-    def _page(layout, index, page_size):
-        collection = layout.pageCollection()
-        if index >= collection.pageCount():
-            page = QgsLayoutItemPage(layout)
-            collection.addPage(page)
-        collection.page(index).setPageSize(QgsLayoutSize(*page_size))
-        return index
 
     @staticmethod
     def _export(layout, pages, output, suffix):
@@ -288,6 +447,8 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         if suffix == ".pdf":
             settings = QgsLayoutExporter.PdfExportSettings()
             settings.rasterizeWholeImage = False
+            # Text stays text: searchable, selectable, and crisp at any zoom.
+            settings.textRenderFormat = TEXT_AS_TEXT
             result = exporter.exportToPdf(output, settings)
             _check(result, exporter, output)
             return [output]
@@ -319,139 +480,40 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         return files
 
 
-class SheetBuilder:
-    """Turns section lines and the section-view layers into sheet pages;
-    used by the algorithm and by scripts that build a project."""
-
-    def __init__(self, profile, inputs, map_layers, lines_crs, title, label_dips, feedback):
-        self.profile = profile
-        self.inputs = inputs
-        self.map_layers = list(map_layers)
-        self.lines_crs = lines_crs
-        self.title = title
-        self.label_dips = label_dips
-        self.feedback = feedback
-        self.strip_renderer_units = _units(inputs.get(INTERVALS))
-
-    def section(self, part):
-        """The SheetSection of a section line part; None without a profile."""
-        if part.coords is None:
-            return None
-        ground = next(self.profile.getFeatures(section_filter(part.label)), None)
-        if ground is None:
-            return None
-        ve_field = self.profile.fields().lookupField(F.EXAGGERATION)
-        ve = plain(ground[F.EXAGGERATION]) if ve_field >= 0 else None
-        exaggeration = 1.0 if ve is None else float(ve)
-        layers = self._layers(part.label, exaggeration)
-        self._report_empty(part.label, layers)
-        present = [layer for layer in layers.values() if layer is not None]
-        start, end = end_names(part.coords)
-        line = line_on_map(
-            part.geometry,
-            self.lines_crs,
-            f"Section line {part.label}",
-            styles.section_line_renderer(),
-        )
-        return SheetSection(
-            label=part.label,
-            title=self.title,
-            exaggeration=exaggeration,
-            extent=_extent(present, ground),
-            start_name=start,
-            end_name=end,
-            section_layers=present,
-            legend_layers=[
-                layer for layer in present if layer.featureCount() and layer.name() != "Collars"
-            ],
-            location_layers=[line] + self.map_layers,
-            location_extent=_around(part.geometry.boundingBox()),
-            location_crs=self.lines_crs,
-            label_dips=self.label_dips,
-        )
-
-    def _layers(self, label, exaggeration):
-        """The section's own styled layers, by role (None: no such input)."""
-        inputs = self.inputs
-        holes = copy_section(
-            inputs.get(BOREHOLES), label, "Boreholes", "LineString", styles.hole_renderer()
-        )
-        layers = {
-            "collars": collar_points(holes, "Collars", styles.collar_renderer()),
-            "ticks": copy_section(
-                inputs.get(TICKS), label, "Dip ticks", "LineString", styles.tick_renderer()
-            ),
-            "crossings": crossings_in_section(
-                inputs.get(CROSSINGS),
-                label,
-                exaggeration,
-                "Contacts and boundaries",
-                styles.crossing_renderer(),
-            ),
-            "holes": holes,
-            "ground": copy_section(
-                self.profile,
-                label,
-                "Ground surface",
-                "MultiLineString",
-                styles.profile_renderer(),
-            ),
-            "strip": copy_section(
-                inputs.get(INTERVALS),
-                label,
-                "Geology strip",
-                "LineString",
-                styles.unit_strip_renderer(self.strip_renderer_units, F.UNIT),
-            ),
-        }
-        return layers
-
-    def _report_empty(self, label, layers):
-        """A log line for each input given that shows nothing on this section."""
-        inputs = self.inputs
-        for name, given in (
-            ("ticks", TICKS),
-            ("crossings", CROSSINGS),
-            ("holes", BOREHOLES),
-            ("strip", INTERVALS),
-        ):
-            layer = layers[name]
-            if inputs.get(given) is not None and (layer is None or not layer.featureCount()):
-                self.feedback.pushInfo(f"Section {label}: nothing in {given} for this section.")
-
-
-def _units(layer):
-    if layer is None or layer.fields().lookupField(F.UNIT) < 0:
-        return []
-    values = layer.uniqueValues(layer.fields().lookupField(F.UNIT))
-    return sorted({str(v) for v in map(plain, values) if v is not None and str(v) != ""})
-
-
-def _extent(layers, ground):
-    box = QgsRectangle(ground.geometry().boundingBox())
-    for layer in layers:
-        if layer.featureCount():
-            box.combineExtentWith(layer.extent())
-    x0, x1 = padded(box.xMinimum(), box.xMaximum(), 0.03)
-    y0, y1 = padded(box.yMinimum(), box.yMaximum(), 0.12)
-    return QgsRectangle(x0, y0, x1, y1)
-
-
-def _around(box):
-    grow = 0.35 * max(box.width(), box.height())
-    return QgsRectangle(
-        box.xMinimum() - grow, box.yMinimum() - grow, box.xMaximum() + grow, box.yMaximum() + grow
-    )
-
-
 def _check(result, exporter, target):
     if result != EXPORT_SUCCESS:
-        raise ParameterProblem(
-            OUTPUT,
-            f"the sheet could not be written to {target} "
-            f"({exporter.errorFile() or 'export error'}).",
+        raise QgsProcessingException(
+            f"OUTPUT: the sheet could not be written to {target} "
+            f"({exporter.errorFile() or 'export error'})."
         )
 
 
 def _safe(label):
     return "".join(ch if ch.isalnum() or ch in "-_" else "_" for ch in label)
+
+
+def _page(layout, index, page_size):
+    collection = layout.pageCollection()
+    if index >= collection.pageCount():
+        collection.addPage(QgsLayoutItemPage(layout))
+    collection.page(index).setPageSize(QgsLayoutSize(*page_size))
+    return index
+
+
+def _crs_text(crs):
+    return f"{crs.authid()} · {crs.description()}" if crs.authid() else crs.description()
+
+
+def _sources(lines, inputs, map_layers):
+    """Names of the layers the sheet was drawn from, lines first."""
+    layers = [lines] + list(inputs.values()) + list(map_layers)
+    return list(dict.fromkeys(_source_name(layer) for layer in layers if layer is not None))
+
+
+def _source_name(layer):
+    """A layer's name, or for a layer of a multi-layer file 'layer (file)'."""
+    parts = QgsProviderRegistry.instance().decodeUri(layer.providerType(), layer.source())
+    inner, path = parts.get("layerName"), parts.get("path")
+    if inner and path:
+        return f"{inner} ({Path(path).name})"
+    return layer.name()

@@ -47,10 +47,10 @@ from .framework.base import (
 )
 from .framework.ledger import RunLedger
 from .framework.run_guard import stop_if_cancelled
-from .inputs.attitudes import AttitudeSettings, add_attitude_parameters, geometry_reason
+from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.section_lines import crs_wkt, read_section_parts, section_label, working_crs
 from .outputs import fields as F
-from .outputs.geometry_io import add_features, add_qgis_features, to_qgis
+from .outputs.feature_writer import write_rows
 from .outputs.skipped import write_skipped
 
 ATTITUDES = "ATTITUDES"
@@ -147,7 +147,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         xy = np.column_stack(
             transformer(crs_wkt(points.sourceCrs()), work_wkt)(rows.xyz[:, 0], rows.xyz[:, 1])
         )
-        reasons = np.array([geometry_reason(g) for g in rows.geometries], dtype=object)
+        reasons = rows.geometry_reasons
         reasons = np.where(reasons == "", rows.reasons, reasons)
         dip_direction = settings.to_grid(rows.dip_direction, xy, work_wkt, rows.declination)
         areas = self._areas(areas_source, parameters, work_crs, context, feedback, skipped_rows)
@@ -257,16 +257,14 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         kept = np.flatnonzero(result["n"] >= MIN_COUNT)
         columns = {name: result[name][kept] for name in F.STRUCTURAL_TREND.names[1:]}
         columns[F.AREA] = [labels[k] for k in kept]
-        rows = F.STRUCTURAL_TREND.rows(columns)
-        geometries = []
-        for k in kept:
+        geometries = np.full(len(kept), None, dtype=object)
+        for i, k in enumerate(kept):
             line = suggested[k]
             if line is not None:
                 coords = shapely.get_coordinates(line)
-                line = to_qgis(shapely.linestrings(np.column_stack(to_out(*coords.T))))
-            geometries.append(line)
+                geometries[i] = shapely.linestrings(np.column_stack(to_out(*coords.T)))
             feedback.pushInfo(_area_summary(labels[k], result, k, suggested[k]))
-        add_qgis_features(sink, geometries, rows)
+        write_rows(sink, F.STRUCTURAL_TREND.qgs_fields(), geometries, columns)
 
     def _check_lines(self, parameters, context, feedback, lines, work_crs, attitudes, areas, out):
         xy, dip_direction, dip, reasons = attitudes
@@ -321,28 +319,26 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         ledger.written += len(parts)
         sink = sinks[OUTPUT_LINES][0]
         if sink is not None:
-            rows = F.LINES_CHECKED.rows(
-                {
-                    F.SECTION: [p.label for p in parts],
-                    F.AREA: [labels[a] if a >= 0 else None for a in area],
-                    F.LINE_AZIMUTH: line_az,
-                    F.BEST_AZIMUTH: best,
-                    F.MISFIT: off,
-                    F.NEAR_COUNT: n_near,
-                    F.OBLIQUE_COUNT: n_oblique,
-                    F.ADVICE: texts,
-                }
-            )
+            columns = {
+                F.SECTION: [p.label for p in parts],
+                F.AREA: [labels[a] if a >= 0 else None for a in area],
+                F.LINE_AZIMUTH: line_az,
+                F.BEST_AZIMUTH: best,
+                F.MISFIT: off,
+                F.NEAR_COUNT: n_near,
+                F.OBLIQUE_COUNT: n_oblique,
+                F.ADVICE: texts,
+            }
             mapped = [shapely.linestrings(np.column_stack(to_out(*p.coords.T))) for p in parts]
-            add_features(sink, np.array(mapped, dtype=object), rows)
+            write_rows(sink, F.LINES_CHECKED.qgs_fields(), np.array(mapped, dtype=object), columns)
 
     @staticmethod
     def _write_skipped(sink, skipped_rows, ledger):
         for _, _, reason in skipped_rows:
             ledger.skip(reason)
         tables, fids, reasons = zip(*skipped_rows) if skipped_rows else ((), (), ())
-        rows = F.SKIPPED_TREND_ROWS.rows({F.TABLE: tables, F.SOURCE_FID: fids, F.REASON: reasons})
-        write_skipped(sink, [None] * len(rows), rows)
+        columns = {F.TABLE: tables, F.SOURCE_FID: fids, F.REASON: reasons}
+        write_skipped(sink, F.SKIPPED_TREND_ROWS.qgs_fields(), None, columns)
 
 
 def _extent(xy):

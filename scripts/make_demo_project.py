@@ -2,9 +2,11 @@
 
     python scripts/make_demo_project.py [DEMO_DIR]     (default: demo/)
 
-Writes ``tarrowgill.qgz`` — the demo map styled with Sectionwright's unit
-colours, the section-view layers, and one print layout per section, ready
-to edit — and ``sections.pdf`` with one page per section.
+Writes ``sections.pdf`` — an overview page and one sheet per section — and
+``tarrowgill.qgz``: the demo map styled with Sectionwright's unit colours,
+the section-view layers, the sections standing as a 3-D fence over the DEM
+(layers with 3-D symbols, for View ▸ New 3D Map View), and the sheets'
+print layout with the layers it draws, ready to edit.
 """
 
 import gc
@@ -47,25 +49,87 @@ def section_view_crossings(gpkg):
     data = None
 
 
+def fence_renderer(colours=None, field=None, default="#2b2b2b", width=3.0):
+    """A 3-D renderer for a fence layer: lines drawn at their own Z
+    (altitude clamping absolute), one colour, or one per value of ``field``."""
+    import qgis._3d as q3d
+    from qgis.core import Qgis
+    from qgis.PyQt.QtGui import QColor
+
+    absolute = getattr(getattr(Qgis, "AltitudeClamping", None), "Absolute", None)
+    if absolute is None:
+        absolute = q3d.Qgs3DTypes.AltClampAbsolute
+
+    def symbol(colour):
+        line = q3d.QgsLine3DSymbol()
+        line.setRenderAsSimpleLines(True)
+        line.setWidth(width)
+        line.setAltitudeClamping(absolute)
+        material = q3d.QgsPhongMaterialSettings()
+        material.setAmbient(QColor(colour))
+        material.setDiffuse(QColor(colour))
+        # setMaterial became setMaterialSettings in QGIS 3.24.
+        (getattr(line, "setMaterialSettings", None) or line.setMaterial)(material)
+        return line
+
+    if not colours:
+        return q3d.QgsVectorLayer3DRenderer(symbol(default))
+    root = q3d.QgsRuleBased3DRenderer.Rule(None)
+    for value, colour in colours.items():
+        root.appendChild(
+            q3d.QgsRuleBased3DRenderer.Rule(symbol(colour.name()), f"\"{field}\" = '{value}'")
+        )
+    return q3d.QgsRuleBased3DRenderer(root)
+
+
+def keep_memory_layers(project, gpkg):
+    """The sheet's helper layers (hole names, dip labels, end letters …)
+    live in memory; written to a GeoPackage and pointed at it, the saved
+    project keeps them."""
+    from qgis.core import QgsVectorFileWriter
+
+    if gpkg.exists():
+        gpkg.unlink()
+    for index, layer in enumerate(
+        [layer for layer in project.mapLayers().values() if layer.providerType() == "memory"]
+    ):
+        table = f"sheet_{index:03d}"
+        options = QgsVectorFileWriter.SaveVectorOptions()
+        options.driverName = "GPKG"
+        options.layerName = table
+        if gpkg.exists():
+            options.actionOnExistingFile = (
+                QgsVectorFileWriter.ActionOnExistingFile.CreateOrOverwriteLayer
+            )
+        error = QgsVectorFileWriter.writeAsVectorFormatV3(
+            layer, str(gpkg), project.transformContext(), options
+        )[0]
+        if error != QgsVectorFileWriter.WriterError.NoError:
+            raise RuntimeError(f"could not keep {layer.name()} in {gpkg}")
+        renderer, labeling = layer.renderer().clone(), layer.labeling()
+        labeling = labeling.clone() if labeling is not None else None
+        layer.setDataSource(f"{gpkg}|layername={table}", layer.name(), "ogr")
+        layer.setRenderer(renderer)
+        if labeling is not None:
+            layer.setLabeling(labeling)
+            layer.setLabelsEnabled(True)
+
+
 def main(demo):
     app, provider = start_qgis()  # keep both alive
     import processing
+    import qgis.core
     from qgis.core import (
         QgsCoordinateReferenceSystem,
-        QgsPrintLayout,
         QgsProcessingContext,
-        QgsProcessingFeatureSource,
         QgsProcessingFeedback,
         QgsProject,
         QgsRasterLayer,
         QgsVectorLayer,
     )
 
-    from sectionwright.algorithms.inputs.section_lines import read_section_parts, working_crs
-    from sectionwright.algorithms.outputs import styles
+    from sectionwright.algorithms.outputs import sheet_styles, styles
     from sectionwright.algorithms.outputs.section_space import section_crs
-    from sectionwright.algorithms.sectionsheet import PAGE_SIZES, SheetBuilder
-    from sectionwright.algorithms.sheet.page import add_page
 
     world, results = demo / "tarrowgill.gpkg", demo / "sections.gpkg"
     section_view_crossings(results)
@@ -85,8 +149,12 @@ def main(demo):
         group.addLayer(layer)
         return layer
 
+    def values(layer, field):
+        return [str(v) for v in layer.uniqueValues(layer.fields().lookupField(field))]
+
     root = project.layerTreeRoot()
     map_group = root.addGroup("Tarrowgill map")
+    fence_group = root.addGroup("Sections in 3-D (fence, for the 3-D map view)")
     view_group = root.addGroup("Section views (x = chainage, y = elevation × 2)")
     sections = add(
         world, "sections", "Section lines", map_group, renderer=styles.section_line_renderer()
@@ -99,12 +167,26 @@ def main(demo):
         renderer=styles.contact_renderer("type"),
     )
     units = add(world, "units", "Units", map_group)
-    units.setRenderer(
-        styles.unit_fill_renderer(
-            [str(v) for v in units.uniqueValues(units.fields().lookupField("unit"))], "unit"
-        )
-    )
-    add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
+    units.setRenderer(styles.unit_fill_renderer(values(units, "unit"), "unit"))
+    dem = add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
+    add(results, "profile_line", "Profile lines (3-D, M = chainage)", map_group)
+    colours = sheet_styles.palette(values(units, "unit"))
+    for layer_name, name, renderer in (
+        ("fence_ground", "Ground (3-D)", fence_renderer(width=2.0)),
+        ("fence_strip", "Geology strip (3-D)", fence_renderer(colours, "unit", width=6.0)),
+        ("fence_boreholes", "Boreholes (3-D)", fence_renderer(width=2.0)),
+        ("fence_intervals", "Logged intervals (3-D)", fence_renderer(colours, "code", width=5.0)),
+        ("fence_form_lines", "Form lines (3-D)", fence_renderer(default="#5e5e5e", width=1.5)),
+        ("fence_axes", "Axial surfaces (3-D)", fence_renderer(default="#8e2b1f", width=1.5)),
+    ):
+        fence = add(results, layer_name, name, fence_group)
+        fence.setRenderer3D(renderer)
+    # QGIS 3.26+ keeps the 3-D view's terrain in the project; 3.22 in the view.
+    terrain_provider = getattr(qgis.core, "QgsRasterDemTerrainProvider", None)
+    if terrain_provider is not None:
+        terrain = terrain_provider()
+        terrain.setLayer(dem)
+        project.elevationProperties().setTerrainProvider(terrain)
     trend_group = root.addGroup("Structural trend and dip domains")
     add(
         results,
@@ -115,7 +197,7 @@ def main(demo):
     )
     add(results, "trend_lines", "Section lines checked against the trend", trend_group)
     add(results, "attitude_domains", "Attitudes with dip domains", trend_group)
-    add(results, "domains", "Dip domains", trend_group)
+    domains = add(results, "domains", "Dip domains", trend_group)
     engineering = section_crs()
     view = {}
     for layer_name, name, renderer in (
@@ -124,24 +206,18 @@ def main(demo):
         ("attitude_ticks", "Dip ticks", styles.tick_renderer()),
         ("crossings_view", "Contacts and boundaries", styles.crossing_renderer()),
         ("boreholes", "Boreholes", styles.hole_renderer()),
+        ("borehole_intervals", "Logged intervals", None),
         ("form_lines", "Form lines (kink construction)", styles.form_line_renderer("kind")),
         ("axial_surfaces", "Axial surfaces", styles.axis_renderer()),
     ):
         view[layer_name] = add(results, layer_name, name, view_group, renderer=renderer)
         view[layer_name].setCrs(engineering)
     strip = view["geology_strip"]
-    strip.setRenderer(
-        styles.unit_strip_renderer(
-            [str(v) for v in strip.uniqueValues(strip.fields().lookupField("unit"))], "unit"
-        )
-    )
-    inputs = {
-        "INTERVALS": strip,
-        "TICKS": view["attitude_ticks"],
-        "CROSSINGS": view["crossings_view"],
-        "BOREHOLES": view["boreholes"],
-    }
+    strip.setRenderer(styles.unit_strip_renderer(values(strip, "unit"), "unit"))
+    view["borehole_intervals"].setRenderer(sheet_styles.hole_interval_renderer(colours, "code"))
 
+    context = QgsProcessingContext()
+    context.setProject(project)
     pdf = demo / "sections.pdf"
     processing.run(
         "sectionwright:sectionsheet",
@@ -149,58 +225,42 @@ def main(demo):
             "INPUT": sections,
             "LINE_ID_FIELD": "name",
             "PROFILE": view["profile_section"],
+            "INTERVALS": strip,
+            "TICKS": view["attitude_ticks"],
+            "CROSSINGS": view["crossings_view"],
+            "BOREHOLES": view["boreholes"],
+            "BOREHOLE_INTERVALS": view["borehole_intervals"],
+            "FORM_LINES": view["form_lines"],
+            "AXES": view["axial_surfaces"],
+            "DOMAINS": domains,
             "MAP_LAYERS": [contacts, units],
             "TITLE": "Tarrowgill — demo sections",
+            "AUTHOR": "Sectionwright demo",
+            "OVERVIEW": True,
+            "ADD_LAYOUT": True,
             "OUTPUT": str(pdf),
-            **inputs,
         },
+        context=context,
+        feedback=QgsProcessingFeedback(),
     )
-
-    feedback = QgsProcessingFeedback()
-    context = QgsProcessingContext()
-    context.setProject(project)
-    source = QgsProcessingFeatureSource(sections, context)
-    parts = read_section_parts(
-        source, "name", working_crs(source, context, feedback), context, feedback
-    )
-    builder = SheetBuilder(
-        view["profile_section"],
-        inputs,
-        [contacts, units],
-        sections.crs(),
-        "Tarrowgill — demo sections",
-        True,
-        feedback,
-    )
-    sheet_group = root.addGroup("Sheet layers (one set per section)")
-    sheet_group.setItemVisibilityChecked(False)
-    page_size = PAGE_SIZES[1][1]
-    for part in parts:
-        section = builder.section(part)
-        # The location map's line as a filtered view of the section lines, so
-        # that the saved project keeps it.
-        line = sections.clone()
-        line.setSubsetString(f"\"name\" = '{part.label}'")
-        line.setName(f"Section line {part.label}")
-        section.location_layers[0] = line
-        group = sheet_group.addGroup(f"Section {part.label}")
-        for layer in section.section_layers + [line]:
-            project.addMapLayer(layer, False)
-            group.addLayer(layer)
-        layout = QgsPrintLayout(project)
-        layout.initializeDefaults()
-        layout.setName(f"Section {part.label}")
-        layout.pageCollection().page(0).setPageSize("A3", 1)  # landscape
-        add_page(layout, 0, page_size, section)
-        project.layoutManager().addLayout(layout)
+    keep_memory_layers(project, demo / "sheet_layers.gpkg")
     project.write()
-    print(f"Project with {len(parts)} layouts: {project.fileName()}")
+    layouts = project.layoutManager().layouts()
+    print(
+        f"Project with {len(layouts)} layout of "
+        f"{layouts[0].pageCollection().pageCount()} pages: {project.fileName()}"
+    )
     print(f"Section sheets: {pdf}", flush=True)
+    print(
+        "3-D: View ▸ New 3D Map View shows the fence layers at their true elevations; "
+        "on QGIS 3.22 choose the DEM as terrain in the view's configuration.",
+        flush=True,
+    )
     # Close every data source (GeoPackages checkpoint their journals), then
     # leave without QGIS's own teardown, which crashes in some releases
     # (3.40) when layouts and layers are destroyed at interpreter exit.
     project.clear()
-    del view, inputs, builder, sections, contacts, units, strip, source, context
+    del view, sections, contacts, units, strip, context
     gc.collect()
     os._exit(0)
 

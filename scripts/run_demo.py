@@ -7,7 +7,9 @@ section line through qgis_process — the topographic profile, the attitudes
 carried onto the sections and their dip domains, the map geology along them,
 the boreholes, the structural trend with the section azimuth it
 recommends, and the form lines below the ground with the thickness check —
-writes ``sections.gpkg`` and prints a short summary per section.
+writes ``sections.gpkg`` and prints a short summary per section; then
+stands every section view up along its line in 3-D (``sectionsin3d``: the
+``fence_*`` layers) for QGIS's 3-D map view.
 """
 
 import sys
@@ -31,7 +33,7 @@ def run_profile(world, out):
             "DEM": f"{world}/dem.tif",
             "STEP": 10,
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "profile_points"),
+            "OUTPUT_LINE": headless.gpkg_layer(out, "profile_line"),
             "OUTPUT_SECTION": headless.gpkg_layer(out, "profile_section"),
             "SKIPPED": headless.gpkg_layer(out, "profile_skipped"),
         },
@@ -144,6 +146,35 @@ def run_boreholes(world, out):
     )
 
 
+# Section views stood up along their lines for the 3-D view: (section-view
+# layer, its fence layer), all in sections.gpkg.
+FENCES = (
+    ("profile_section", "fence_ground"),
+    ("geology_strip", "fence_strip"),
+    ("boreholes", "fence_boreholes"),
+    ("borehole_intervals", "fence_intervals"),
+    ("form_lines", "fence_form_lines"),
+    ("axial_surfaces", "fence_axes"),
+)
+
+
+def run_fences(world, out):
+    """sectionsin3d on every section view; one report per fence layer."""
+    return [
+        headless.run(
+            "sectionwright:sectionsin3d",
+            {
+                "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
+                "LINE_ID_FIELD": "name",
+                "SECTION_LAYER": f"{out}|layername={view}",
+                "OUTPUT": headless.gpkg_layer(out, fence),
+            },
+            world / ".headless-qgis",
+        )
+        for view, fence in FENCES
+    ]
+
+
 def run_formlines(world, out):
     """Needs the profile, attitudes and geology steps' layers in ``out``."""
     return headless.run(
@@ -173,9 +204,21 @@ def count_by_section(layer, condition=lambda feature: True):
     return counts
 
 
+def vertices_by_section(layer):
+    """Samples with an elevation: the vertices of each draped profile line."""
+    counts = {}
+    for feature in layer:
+        lines = feature.GetGeometryRef()
+        vertices = sum(
+            lines.GetGeometryRef(i).GetPointCount() for i in range(lines.GetGeometryCount())
+        )
+        counts[feature.GetField("section")] = vertices
+    return counts
+
+
 def print_summary(out):
     data = ogr.Open(str(out))
-    samples = count_by_section(data.GetLayerByName("profile_points"))
+    samples = vertices_by_section(data.GetLayerByName("profile_line"))
     attitudes = data.GetLayerByName("attitudes")
     carried = count_by_section(attitudes)
     flagged = count_by_section(attitudes, lambda f: bool(f.GetField("flags")))
@@ -244,6 +287,17 @@ def main(out_dir):
                 line for line in report["log"]["info"] if line.startswith(("Summary:", "Skipped:"))
             )
         )
+    fences = run_fences(world, out)
+    written = sum(
+        int(line.split("written=")[1].split()[0])
+        for report in fences
+        for line in report["log"]["info"]
+        if line.startswith("Summary:")
+    )
+    print(
+        f"Sections in 3-D: {written} features in {len(fences)} fence layers "
+        f"({', '.join(fence for _, fence in FENCES)})"
+    )
     print_summary(out)
     print(f"\nResults in {out} (section view layers at vertical exaggeration 2).")
     print("Sections are interpretations: have them checked by a qualified geologist.")

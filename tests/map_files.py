@@ -60,6 +60,7 @@ class MapFiles:
     dem: Optional[Path]
     counts: dict  # features per layer
     parts: int  # section line parts (a null or empty geometry counts as one)
+    made: dict = field(default_factory=dict)  # algorithm -> its results on this map
 
     def layer(self, name):
         return f"{self.gpkg}|layername={name}"

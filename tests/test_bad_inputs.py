@@ -178,7 +178,7 @@ CASES = {
     "profile: an unwritable output path": Case(
         "profile",
         "error",
-        "Profile points (map): the output cannot be written there",
+        "Profile points (map, one per sample): the output cannot be written there",
         {"OUTPUT": "/proc/sectionwright/points.gpkg"},
     ),
     "profile: a section line with no geometry": Case(

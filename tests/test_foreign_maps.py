@@ -296,6 +296,7 @@ def check_run(run, world, scratch):
         message = str(refused)
     else:
         check_result(run, world, feedback, result)
+        world.made[run.algorithm.split(":")[1]] = result  # what later runs build on
         return
     gc.collect()  # the failed run's context points at feedback: freed while it lives
     assert message and "Traceback" not in message, f"{run.algorithm}: {message}"

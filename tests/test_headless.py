@@ -4,6 +4,7 @@ as the demo command runs them."""
 import sys
 from pathlib import Path
 
+import numpy as np
 import pytest
 from osgeo import ogr
 
@@ -24,11 +25,18 @@ def test_profile_runs_headless_and_writes_a_geopackage(demo_dir, tmp_path):
     data = ogr.Open(str(out))
     sections = {f.GetField("section") for f in data.GetLayerByName("profile_section")}
     assert sorted(sections) == ["A", "B", "C", "D"]
-    points = data.GetLayerByName("profile_points")
-    assert points.GetGeomType() == ogr.wkbPoint25D
-    assert points.GetFeatureCount() > 4 * 7000 / 10
-    for feature in points:
-        assert feature.GetGeometryRef().GetZ() == feature.GetField("elev")
+    assert data.GetLayerByName("profile_points") is None  # only when asked for
+    lines = data.GetLayerByName("profile_line")
+    assert lines.GetGeomType() == ogr.wkbMultiLineStringZM
+    assert lines.GetFeatureCount() == 4
+    for feature in lines:
+        geometry = feature.GetGeometryRef()
+        parts = [geometry.GetGeometryRef(i) for i in range(geometry.GetGeometryCount())]
+        z = np.array([p.GetZ(i) for p in parts for i in range(p.GetPointCount())])
+        m = np.array([p.GetM(i) for p in parts for i in range(p.GetPointCount())])
+        assert len(z) > 7000 / 10
+        assert z.min() == feature.GetField("min_elev") and z.max() == feature.GetField("max_elev")
+        assert m[0] == 0 and np.all(np.diff(m) > 0) and m[-1] == feature.GetField("length")
 
 
 def test_attitudes_run_headless(demo_dir, tmp_path):

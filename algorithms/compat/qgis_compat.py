@@ -48,6 +48,8 @@ LINE_STRING = _scoped("WkbType", "LineString", "QgsWkbTypes.LineString")
 LINE_STRING_Z = _scoped("WkbType", "LineStringZ", "QgsWkbTypes.LineStringZ")
 NO_GEOMETRY = _scoped("WkbType", "NoGeometry", "QgsWkbTypes.NoGeometry")
 MULTI_LINE_STRING = _scoped("WkbType", "MultiLineString", "QgsWkbTypes.MultiLineString")
+LINE_STRING_ZM = _scoped("WkbType", "LineStringZM", "QgsWkbTypes.LineStringZM")
+MULTI_LINE_STRING_ZM = _scoped("WkbType", "MultiLineStringZM", "QgsWkbTypes.MultiLineStringZM")
 
 SOURCE_LINES = _scoped("ProcessingSourceType", "VectorLine", "QgsProcessing.TypeVectorLine")
 SOURCE_POINTS = _scoped("ProcessingSourceType", "VectorPoint", "QgsProcessing.TypeVectorPoint")
@@ -55,6 +57,9 @@ SOURCE_POLYGONS = _scoped(
     "ProcessingSourceType", "VectorPolygon", "QgsProcessing.TypeVectorPolygon"
 )
 SOURCE_ANY_VECTOR = _scoped("ProcessingSourceType", "Vector", "QgsProcessing.TypeVector")
+SOURCE_ANY_GEOMETRY = _scoped(
+    "ProcessingSourceType", "VectorAnyGeometry", "QgsProcessing.TypeVectorAnyGeometry"
+)
 
 NUMBER_DOUBLE = _scoped(
     "ProcessingNumberParameterType", "Double", "QgsProcessingParameterNumber.Double"
@@ -82,6 +87,16 @@ EXPORT_SUCCESS = QgsLayoutExporter.ExportResult.Success
 LEGEND_TITLE = _scoped("LegendComponent", "Title", "QgsLegendStyle.Style.Title")
 LEGEND_GROUP = _scoped("LegendComponent", "Subgroup", "QgsLegendStyle.Style.Subgroup")
 LEGEND_ITEM = _scoped("LegendComponent", "SymbolLabel", "QgsLegendStyle.Style.SymbolLabel")
+FILL_COLOUR_PROPERTY = _scoped(
+    "Property",
+    "FillColor",
+    "QgsSymbolLayer.PropertyFillColor",
+    qgis_namespace=qgis.core.QgsSymbolLayer,
+)
+LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", "QgsPalLayerSettings.AroundPoint")
+OBSTACLE_WHOLE_POLYGON = _scoped(
+    "LabelObstacleType", "PolygonWhole", "QgsLabelObstacleSettings.ObstacleType.PolygonWhole"
+)
 CRITICAL = _scoped("MessageLevel", "Critical", "Qgis.Critical")
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", "QgsUnitTypes.DistanceMeters")

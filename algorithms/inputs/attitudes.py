@@ -5,6 +5,7 @@ from dataclasses import dataclass, field
 from typing import List
 
 import numpy as np
+import shapely
 from qgis.core import (
     QgsFeatureRequest,
     QgsProcessingParameterEnum,
@@ -23,6 +24,7 @@ from ..core.attitudes import (
     read_attitudes,
 )
 from ..core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
+from ..core.wkb import from_wkb
 from ..framework.base import DECLINATION, NORTH_REFERENCE
 from ..framework.run_guard import ParameterProblem, stop_if_cancelled
 
@@ -96,6 +98,7 @@ class AttitudeRows:
     dip: np.ndarray = None
     declination: np.ndarray = None
     reasons: np.ndarray = None
+    geometry_reasons: np.ndarray = None  # "" where the geometry is a usable point
 
     def __len__(self):
         return len(self.fids)
@@ -131,8 +134,7 @@ class AttitudeSettings:
             if source.fields().lookupField(name) < 0:
                 raise ParameterProblem(parameter, f"the attitude layer has no field {name!r}.")
         wanted = list(dict.fromkeys(chosen.values()))  # one field may serve twice
-        raw = {name: [] for name in wanted}
-        xyz = []
+        wkbs = []
         total = max(source.featureCount(), 1)
         features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
         for number, feature in enumerate(features):
@@ -141,12 +143,15 @@ class AttitudeSettings:
             rows.attributes.append(feature.attributes())
             geometry = feature.geometry()
             rows.geometries.append(geometry)
-            xyz.append(_point_xyz(geometry))
-            for name in wanted:
-                raw[name].append(plain(feature[name]))
+            wkbs.append(bytes(geometry.asWkb()) or None)
             if number % 1000 == 0:
                 feedback.setProgress(progress_share * number / total)
-        rows.xyz = np.array(xyz, dtype=float).reshape(-1, 3)
+        rows.xyz, rows.geometry_reasons = point_positions(wkbs)
+        indices = [source.fields().lookupField(name) for name in wanted]
+        raw = {
+            name: [plain(attributes[index]) for attributes in rows.attributes]
+            for name, index in zip(wanted, indices)
+        }
         get = raw.get
         rows.dip_direction, rows.dip, rows.reasons = read_attitudes(
             self.convention,
@@ -177,24 +182,34 @@ class AttitudeSettings:
         return self.north in (TRUE, MAGNETIC)
 
 
-def _point_xyz(geometry):
-    """(x, y, z) of a point geometry; NaN for null, empty or multi-part."""
-    if geometry is None or geometry.isNull() or geometry.isEmpty():
-        return (np.nan, np.nan, np.nan)
-    parts = list(geometry.constParts())
-    if len(parts) != 1:
-        return (np.nan, np.nan, np.nan)
-    point = parts[0]
-    z = point.z() if point.is3D() else np.nan
-    return (point.x(), point.y(), z)
+def point_positions(wkbs):
+    """(x, y, z) per WKB (NaN z where 2-D) and why a geometry cannot be an
+    attitude's position ("" where it can): null, empty, or a multi-point of
+    more than one part. Vectorised; the positions of refused ones are NaN.
 
-
-def geometry_reason(geometry):
-    """Why a feature's geometry cannot be used as an attitude's position."""
-    if geometry is None or geometry.isNull():
-        return "null geometry"
-    if geometry.isEmpty():
-        return "empty geometry"
-    if len(list(geometry.constParts())) != 1:
-        return "multi-part point"
-    return ""
+    >>> wkb = shapely.to_wkb(shapely.from_wkt(["POINT Z (1 2 3)", "MULTIPOINT (4 5)",
+    ...     "POINT EMPTY", "MULTIPOINT (1 1, 2 2)"]), output_dimension=3).tolist()
+    >>> xyz, reasons = point_positions(wkb + [None])
+    >>> xyz[:2].tolist(), reasons.tolist()
+    ([[1.0, 2.0, 3.0], [4.0, 5.0, nan]], ['', '', 'empty geometry', 'multi-part point', \
+'null geometry'])
+    """
+    geometries = np.array([None] * len(wkbs), dtype=object)
+    present = np.array([w is not None for w in wkbs], dtype=bool)
+    geometries[present] = from_wkb([w for w in wkbs if w is not None])
+    parts = shapely.get_num_geometries(geometries)
+    single = np.where(
+        shapely.get_type_id(geometries) == shapely.GeometryType.MULTIPOINT,
+        shapely.get_geometry(geometries, 0),
+        geometries,
+    )
+    empty = present & shapely.is_empty(geometries)
+    reasons = np.select(
+        [~present, empty, present & (parts != 1)],
+        ["null geometry", "empty geometry", "multi-part point"],
+        "",
+    ).astype(object)
+    usable = reasons == ""
+    xyz = np.full((len(wkbs), 3), np.nan)
+    xyz[usable] = shapely.get_coordinates(single[usable], include_z=True)
+    return xyz, reasons

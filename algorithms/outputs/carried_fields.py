@@ -10,7 +10,7 @@ NEVER_CARRIED = {"fid"}
 class CarriedFields:
     """The source fields kept (minus keys and names the computed fields
     replace) followed by the fields of the ``computed`` schema. Like a
-    schema it gives ``qgs_fields()`` and ``rows(columns)``."""
+    schema it gives ``qgs_fields()``; ``columns`` names the source's values."""
 
     def __init__(self, source_fields, computed):
         computed_lower = {n.lower() for n in computed.names}
@@ -44,15 +44,6 @@ class CarriedFields:
         }
         columns.update(computed_columns)
         return columns
-
-    def rows(self, columns):
-        """Attribute rows in field order; source values as read, computed
-        ones through their schema (NaN as NULL)."""
-        kept = [columns[name] for name in self.kept_names]
-        computed = self.computed.rows(columns)
-        if not kept:
-            return computed
-        return [list(source) + values for source, values in zip(zip(*kept), computed)]
 
     def log_replaced(self, feedback, layer_name):
         if self.replaced:

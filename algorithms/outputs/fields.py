@@ -70,13 +70,13 @@ PROFILE_POINTS = Schema(
     Field(X, REAL, "map x in the lines' CRS"),
     Field(Y, REAL, "map y in the lines' CRS"),
 )
-PROFILE_SECTIONS = Schema(
+PROFILE_LINES = Schema(
     _SECTION,
     Field(LENGTH, REAL, "length of the section line (its last chainage)"),
     Field(MIN_ELEVATION, REAL, "lowest ground elevation"),
     Field(MAX_ELEVATION, REAL, "highest ground elevation"),
-    _EXAGGERATION,
 )
+PROFILE_SECTIONS = PROFILE_LINES + Schema(_EXAGGERATION)
 
 ORIENTATION = Schema(
     Field(DIP_DIRECTION, REAL, "dip direction, grid azimuth"),
@@ -273,3 +273,7 @@ SKIPPED_FORM_LINE_ROWS = Schema(
     _SOURCE_FID,
     _REASON,
 )
+
+# The section sheet's own map layers: the end letters A, A′ of a line.
+END_LETTER = "end"
+SHEET_ENDS = Schema(Field(END_LETTER, TEXT, "end letter of a section line: A, or A′ at its end"))

@@ -1,10 +1,9 @@
-"""Geometries handed to QGIS: shapely arrays in one step (WKB), not vertex
-by vertex, and QgsGeometry as they come."""
+"""Geometries handed to QGIS as WKB, not vertex by vertex (features are
+written by ``feature_writer.write_rows``)."""
 
 import numpy as np
-from qgis.core import QgsFeature, QgsGeometry
+from qgis.core import QgsGeometry
 
-from ..compat.qgis_compat import FAST_INSERT
 from ..core.wkb import to_wkb
 
 WKB_POINT_Z = 1001  # ISO
@@ -25,33 +24,3 @@ def points_z(x, y, z):
     records["type"] = WKB_POINT_Z
     records["xyz"] = np.column_stack((x, y, z))
     return [record.tobytes() for record in records]
-
-
-def add_features(sink, geometries, attributes):
-    """Features from an array of shapely geometries (encoded in one call) and
-    their attribute rows."""
-    add_wkb_features(sink, to_wkb(geometries).tolist(), attributes)
-
-
-def add_wkb_features(sink, wkbs, attributes):
-    """Features from WKB geometries and their attribute rows."""
-    for wkb, values in zip(wkbs, attributes):
-        feature = QgsFeature()
-        geometry = QgsGeometry()
-        geometry.fromWkb(wkb)
-        feature.setGeometry(geometry)
-        feature.setAttributes(values)
-        sink.addFeature(feature, FAST_INSERT)
-
-
-def add_qgis_features(sink, geometries, attributes):
-    """Features from QgsGeometry objects (None: no geometry) and their
-    attribute rows."""
-    features = []
-    for geometry, values in zip(geometries, attributes):
-        feature = QgsFeature()
-        if geometry is not None:
-            feature.setGeometry(geometry)
-        feature.setAttributes(values)
-        features.append(feature)
-    sink.addFeatures(features, FAST_INSERT)

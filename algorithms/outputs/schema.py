@@ -1,10 +1,9 @@
 """The shape of an output: its fields' names, kinds and meanings, declared
-once (in ``fields.py``) and turned into ``QgsFields`` and attribute rows
-from here."""
+once (in ``fields.py``) and turned into ``QgsFields`` here; rows are filled
+by name from columns (``feature_writer.write_rows``)."""
 
 from dataclasses import dataclass
 
-import numpy as np
 from qgis.core import QgsField, QgsFields
 
 from ..compat.qgis_compat import DOUBLE, LONG, STRING
@@ -32,8 +31,6 @@ class Schema:
     >>> schema = Schema(Field("section", TEXT, "label"), Field("elev", REAL, "metres"))
     >>> schema.names
     ('section', 'elev')
-    >>> schema.rows({"elev": np.array([12.5, np.nan]), "section": ["A", "A"]})
-    [['A', 12.5], ['A', None]]
     """
 
     def __init__(self, *fields):
@@ -61,26 +58,3 @@ class Schema:
         for field in self.fields:
             fields.append(field.qgs_field())
         return fields
-
-    def rows(self, columns):
-        """Attribute rows in field order from ``columns`` ({name: values},
-        one column per field, equally long), NaN and None as NULL."""
-        return [
-            list(row) for row in zip(*(attribute_values(columns[f.name], f.kind) for f in self))
-        ]
-
-
-def attribute_values(values, kind=REAL):
-    """Plain Python values QGIS takes as attributes: numpy scalars unwrapped,
-    NaN and None as None (NULL).
-
-    >>> attribute_values(np.array([1.5, np.nan]))
-    [1.5, None]
-    >>> attribute_values([3, None], INTEGER), attribute_values(["a", None], TEXT)
-    ([3, None], ['a', None])
-    """
-    if kind == TEXT:
-        return [None if v is None else str(v) for v in values]
-    if kind == INTEGER:
-        return [None if v is None or v != v else int(v) for v in values]
-    return [None if v is None or v != v else float(v) for v in np.asarray(values, float).tolist()]

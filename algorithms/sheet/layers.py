@@ -1,16 +1,20 @@
 """The features of one section, copied out of the section-view layers into
 small styled layers for its sheet."""
 
+import numpy as np
 from qgis.core import (
     QgsExpression,
     QgsFeature,
     QgsFeatureRequest,
+    QgsFields,
     QgsGeometry,
     QgsPointXY,
+    QgsRectangle,
     QgsVectorLayer,
 )
 
 from ..compat.null import plain
+from ..core.sheet_scale import domain_panels
 from ..outputs import fields as F
 from ..outputs.section_space import is_section_view, section_crs
 
@@ -95,4 +99,88 @@ def collar_points(holes, name, renderer):
         features.append(copy)
     layer.dataProvider().addFeatures(features)
     layer.setRenderer(renderer)
+    return layer
+
+
+def keep_out_zone(source, half_width, name):
+    """Polygons a ``half_width`` (map units) either side of every feature of
+    ``source``: the ground strip as it is drawn, for labels to stay off."""
+    if source is None:
+        return None
+    layer = _memory_layer("Polygon", name, QgsFields(), section_crs())
+    zones = []
+    for feature in source.getFeatures():
+        if not feature.hasGeometry():
+            continue
+        zone = QgsFeature()
+        zone.setGeometry(feature.geometry().buffer(half_width, 4))
+        zones.append(zone)
+    layer.dataProvider().addFeatures(zones)
+    return layer
+
+
+def domain_bar(domains, label, top, height, min_width, name, renderer):
+    """The dip domains of section ``label`` (rows of the domains table) as
+    panels along the top of the view, hanging ``height`` below ``top``
+    (section-view units), meeting half-way between neighbours
+    (``core.sheet_scale.domain_panels``); None without a usable table."""
+    needed = (F.SECTION, F.DOMAIN, F.FROM_CHAINAGE, F.TO_CHAINAGE)
+    if domains is None or any(domains.fields().lookupField(n) < 0 for n in needed):
+        return None
+    layer = _memory_layer("Polygon", name, domains.fields(), section_crs())
+    rows = []
+    for row in domains.getFeatures(section_filter(label)):
+        start, end = plain(row[F.FROM_CHAINAGE]), plain(row[F.TO_CHAINAGE])
+        if start is not None and end is not None:
+            rows.append((min(float(start), float(end)), float(end), row))
+    rows.sort(key=lambda r: r[0])
+    panels = []
+    if rows:
+        lefts, rights = domain_panels(
+            np.array([r[0] for r in rows]), np.array([r[1] for r in rows]), min_width
+        )
+        for (_, _, row), left, right in zip(rows, lefts, rights):
+            panel = QgsFeature(row)
+            panel.setGeometry(QgsGeometry.fromRect(QgsRectangle(left, top - height, right, top)))
+            panels.append(panel)
+    layer.dataProvider().addFeatures(panels)
+    layer.setRenderer(renderer)
+    return layer
+
+
+def line_ends(parts, crs, name, renderer):
+    """The two ends of each section line on the map, lettered A and A′ (the
+    section's own label and its primed form)."""
+    fields = F.SHEET_ENDS.qgs_fields()
+    layer = _memory_layer("Point", name, fields, crs)
+    points = []
+    for part in parts:
+        vertices = [v for v in part.geometry.constGet().vertices()] if part.geometry else []
+        if len(vertices) < 2:
+            continue
+        for vertex, letter in ((vertices[0], part.label), (vertices[-1], f"{part.label}′")):
+            point = QgsFeature(fields)
+            point.setGeometry(QgsGeometry.fromPointXY(QgsPointXY(vertex.x(), vertex.y())))
+            point.setAttributes([letter])
+            points.append(point)
+    layer.dataProvider().addFeatures(points)
+    layer.setRenderer(renderer)
+    return layer
+
+
+def tick_anchors(ticks, name):
+    """The centre of each dip tick (where the attitude sits on the section),
+    to hang its dip label on."""
+    if ticks is None:
+        return None
+    layer = _memory_layer("Point", name, ticks.fields(), section_crs())
+    anchors = []
+    for feature in ticks.getFeatures():
+        geometry = feature.geometry()
+        if geometry is None or geometry.isEmpty():
+            continue
+        anchor = QgsFeature(feature)
+        anchor.setGeometry(geometry.interpolate(geometry.length() / 2.0))
+        anchors.append(anchor)
+    layer.dataProvider().addFeatures(anchors)
     return layer

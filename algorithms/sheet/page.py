@@ -1,133 +1,60 @@
-"""One section's page of a print layout: section view with true-elevation
-axes, end directions, legend, location map, scale bar and caution."""
+"""The pages of a section sheet.
 
-from dataclasses import dataclass, field
-from typing import List
+A section page: the section view across the top at its standard scale,
+with chainage below and true elevation on both sides, the ends lettered
+with their compass directions; under it the scale line; along the foot
+the location map, the legend and the title block. An overview page: every
+section line on one map, a list of the sections, the title block.
+"""
 
 from qgis.core import (
-    QgsExpression,
-    QgsLayoutItemLabel,
     QgsLayoutItemLegend,
     QgsLayoutItemMap,
     QgsLayoutItemMapGrid,
-    QgsLayoutItemScaleBar,
-    QgsLayoutMeasurement,
     QgsLayoutPoint,
     QgsLayoutSize,
-    QgsPalLayerSettings,
     QgsRectangle,
-    QgsTextFormat,
-    QgsVectorLayerSimpleLabeling,
 )
 from qgis.PyQt.QtCore import Qt
-from qgis.PyQt.QtGui import QColor, QFont
+from qgis.PyQt.QtGui import QColor
 
 from ..compat.qgis_compat import (
-    LABEL_HORIZONTAL,
-    LABEL_OVER_POINT,
     LEGEND_GROUP,
     LEGEND_ITEM,
     LEGEND_TITLE,
-    UNIT_METERS,
-    set_label_text,
     set_legend_text,
 )
-from ..core.sheet_scale import nice_step
-from ..outputs import fields as F
-from ..outputs.styles import GRID, INK
+from ..core.sheet_scale import format_scale, nice_step
+from ..outputs.styles import GRID
+from .location import add_map, scale_bar
+from .text import label, text_format
+from .title_block import add_title_block
 
-CAUTION = (
-    "Interpretation: to be checked by a qualified geologist under local codes and "
-    "licensed practice before it guides drilling, excavation or slope decisions."
-)
-MARGIN = 12.0  # mm
-BOTTOM_BAND = 84.0  # mm under the section view: axis title, scale bar, location, legend
-LOCATION = (78.0, 56.0)  # mm, the location map
-FONT = "Sans Serif"
-
-
-@dataclass
-class SheetSection:
-    """What one page shows."""
-
-    label: str
-    title: str
-    exaggeration: float
-    extent: QgsRectangle  # section view, exaggerated units
-    start_name: str
-    end_name: str
-    section_layers: List = field(default_factory=list)  # top to bottom
-    legend_layers: List = field(default_factory=list)
-    location_layers: List = field(default_factory=list)
-    location_extent: QgsRectangle = None
-    location_crs: object = None
-    label_dips: bool = False
+MARGIN = 8.0  # mm round the page
+AXIS_ROOM = 14.0  # mm each side of the view for elevation labels
+HEAD = 12.0  # mm above the view: the end letters and directions
+FOOT = 20.0  # mm under the view: chainage labels, axis title, scale line
+TITLE_BLOCK = (0.3, 105.0)  # width: share of the page's width, at least so many mm
+GAP = 6.0  # mm between the items of the bottom band
 
 
-def _font(size, bold=False, italic=False):
-    font = QFont(FONT)
-    font.setPointSizeF(size)
-    font.setBold(bold)
-    font.setItalic(italic)
-    return font
+def band_height(page_size):
+    """Height (mm) of the bottom band: location map, legend, title block."""
+    return max(66.0, 0.27 * page_size[1])
 
 
-def _text_format(size, bold=False, italic=False, colour=INK):
-    text = QgsTextFormat()
-    text.setFont(_font(size, bold, italic))
-    text.setSize(size)
-    text.setColor(QColor(colour))
-    return text
+def title_block_width(page_width):
+    share, least = TITLE_BLOCK
+    return max(share * page_width, least)
 
 
-def _place(item, page, x, y, width, height):
-    item.attemptResize(QgsLayoutSize(width, height))
-    item.attemptMove(QgsLayoutPoint(x, y), page=page)
-
-
-def _label(
-    layout,
-    page,
-    text,
-    x,
-    y,
-    width,
-    height,
-    size=9,
-    bold=False,
-    italic=False,
-    align=Qt.AlignmentFlag.AlignLeft,
-    rotation=0.0,
-):
-    item = QgsLayoutItemLabel(layout)
-    item.setText(text)
-    set_label_text(item, _text_format(size, bold, italic))
-    item.setHAlign(align)
-    item.setVAlign(Qt.AlignmentFlag.AlignVCenter)
-    layout.addLayoutItem(item)
-    _place(item, page, x, y, width, height)
-    if rotation:
-        item.setItemRotation(rotation, adjustPosition=False)
-    return item
-
-
-def fitted_size(extent, width, height):
-    """Largest (width, height) in mm with the extent's aspect inside a box,
-    so that one metre is as long across as up (the exaggeration is in the
-    data, not in the drawing)."""
-    aspect = extent.width() / max(extent.height(), 1e-9)
-    if width / height > aspect:
-        return height * aspect, height
-    return width, width / aspect
-
-
-def section_view_box(page_size, extent):
-    """(x, y, width, height) in mm of the section view on its page."""
+def view_box(page_size):
+    """(width, height) in mm the section view may take on its page."""
     width, height = page_size
-    box_w = width - 2 * MARGIN - 18
-    box_h = height - (MARGIN + 22) - MARGIN - BOTTOM_BAND
-    map_w, map_h = fitted_size(extent, box_w, box_h)
-    return MARGIN + 14, MARGIN + 22, map_w, map_h
+    return (
+        width - 2 * MARGIN - 2 * AXIS_ROOM,
+        height - 2 * MARGIN - HEAD - FOOT - band_height(page_size) - GAP,
+    )
 
 
 def grid_expression(exaggeration):
@@ -139,11 +66,19 @@ def grid_expression(exaggeration):
     )
 
 
+def scale_statement(scale, exaggeration):
+    return (
+        f"Horizontal {format_scale(scale)} · vertical {format_scale(scale / exaggeration)} · "
+        f"vertical exaggeration ×{exaggeration:g}"
+    )
+
+
 def _add_grid(section_map, section):
     grid = QgsLayoutItemMapGrid("axes", section_map)
     extent = section.extent
     grid.setIntervalX(nice_step(extent.width()))
-    grid.setIntervalY(nice_step(extent.height() / section.exaggeration, 6) * section.exaggeration)
+    true_height = extent.height() / section.exaggeration
+    grid.setIntervalY(nice_step(true_height, 6) * section.exaggeration)
     grid.setStyle(QgsLayoutItemMapGrid.GridStyle.Solid)
     symbol = grid.lineSymbol()
     symbol.setColor(QColor(GRID))
@@ -151,12 +86,13 @@ def _add_grid(section_map, section):
     grid.setAnnotationEnabled(True)
     grid.setAnnotationFormat(QgsLayoutItemMapGrid.AnnotationFormat.CustomFormat)
     grid.setAnnotationExpression(grid_expression(section.exaggeration))
-    grid.setAnnotationTextFormat(_text_format(7))
+    grid.setAnnotationTextFormat(text_format(7))
+    sides = QgsLayoutItemMapGrid.BorderSide
     for side, shown in (
-        (QgsLayoutItemMapGrid.BorderSide.Left, True),
-        (QgsLayoutItemMapGrid.BorderSide.Bottom, True),
-        (QgsLayoutItemMapGrid.BorderSide.Right, False),
-        (QgsLayoutItemMapGrid.BorderSide.Top, False),
+        (sides.Left, True),
+        (sides.Right, True),
+        (sides.Bottom, True),
+        (sides.Top, False),
     ):
         grid.setAnnotationDisplay(
             QgsLayoutItemMapGrid.DisplayMode.ShowAll
@@ -165,179 +101,197 @@ def _add_grid(section_map, section):
             side,
         )
         grid.setAnnotationPosition(QgsLayoutItemMapGrid.AnnotationPosition.OutsideMapFrame, side)
-    grid.setAnnotationDirection(
-        QgsLayoutItemMapGrid.AnnotationDirection.Horizontal, QgsLayoutItemMapGrid.BorderSide.Left
-    )
+    for side in (sides.Left, sides.Right):
+        grid.setAnnotationDirection(QgsLayoutItemMapGrid.AnnotationDirection.Horizontal, side)
     grid.setAnnotationFrameDistance(1.2)
     grid.setFrameStyle(QgsLayoutItemMapGrid.FrameStyle.ExteriorTicks)
     grid.setFrameWidth(1.2)
     section_map.grids().addGrid(grid)
-    return grid
 
 
-def _label_layer(layer, expression, size, placement):
-    settings = QgsPalLayerSettings()
-    settings.fieldName = expression
-    settings.isExpression = True
-    text = _text_format(size)
-    halo = text.buffer()
-    halo.setEnabled(True)
-    halo.setSize(0.6)
-    halo.setColor(QColor("#ffffff"))
-    text.setBuffer(halo)
-    settings.setFormat(text)
-    settings.placement = placement
-    settings.dist = 0.8
-    layer.setLabeling(QgsVectorLayerSimpleLabeling(settings))
-    layer.setLabelsEnabled(True)
-
-
-def _layer(section, name):
-    return next((layer for layer in section.section_layers if layer.name() == name), None)
-
-
-def add_page(layout, page, page_size, section):
-    """Every item of ``section``'s sheet on page ``page`` of ``layout``;
-    returns the scale of the section view."""
-    width, height = page_size
-    _add_titles(layout, page, width, section)
-    map_x, map_y, map_w, map_h = section_view_box(page_size, section.extent)
-    section_map = _add_section_view(layout, page, section, (map_x, map_y, map_w, map_h))
-    _add_axis_titles(layout, page, section, (map_x, map_y, map_w, map_h))
-    _add_scale_bar(layout, page, section, section_map, map_x, map_y + map_h + 14)
-    band_y = map_y + map_h + 30
-    _add_location(layout, page, section, MARGIN, band_y)
-    _add_legend(layout, page, section, MARGIN + LOCATION[0] + 12, band_y - 7)
-    _label(
-        layout, page, CAUTION, MARGIN, height - MARGIN - 6, width - 2 * MARGIN, 6, 7.5, italic=True
-    )
-    return section_map.scale()
-
-
-def _add_titles(layout, page, width, section):
-    _label(layout, page, section.title, MARGIN, MARGIN - 4, width - 2 * MARGIN, 9, 15, True)
-    _label(
-        layout,
-        page,
-        f"Section {section.label}–{section.label}′ · vertical exaggeration "
-        f"×{section.exaggeration:g} · chainage and true elevation in metres",
-        MARGIN,
-        MARGIN + 5,
-        width - 2 * MARGIN,
-        6,
-        9,
+def section_frame_position(page_size, section):
+    """(x, y) in mm of the section view's upper left corner: centred across
+    the page, and down the space left above the bottom band."""
+    box_w, box_h = view_box(page_size)
+    width, height = section.frame
+    return (
+        MARGIN + AXIS_ROOM + (box_w - width) / 2,
+        MARGIN + HEAD + (box_h - height) / 2,
     )
 
 
-def _add_section_view(layout, page, section, box):
-    """The section view map with its labelled layers and true-elevation grid."""
-    ticks = _layer(section, "Dip ticks")
-    if section.label_dips and ticks is not None:
-        dip = QgsExpression.quotedColumnRef(F.APPARENT_DIP)
-        _label_layer(ticks, f"format_number({dip}, 0) || '°'", 6.5, LABEL_HORIZONTAL)
-    collars = _layer(section, "Collars")
-    if collars is not None:
-        _label_layer(collars, QgsExpression.quotedColumnRef(F.HOLE), 7, LABEL_OVER_POINT)
+def add_section_page(layout, page, page_size, section, block, map_crs):
+    """Every item of ``section``'s sheet on page ``page``; returns the
+    section view's map item."""
+    x, y = section_frame_position(page_size, section)
+    width, height = section.frame
     section_map = QgsLayoutItemMap(layout)
-    section_map.setCrs(section.section_layers[0].crs() if section.section_layers else None)
+    section_map.setCrs(section.section_layers[0].crs())
     section_map.setLayers(section.section_layers)
     section_map.setKeepLayerSet(True)
     section_map.setFrameEnabled(True)
     layout.addLayoutItem(section_map)
-    _place(section_map, page, *box)
+    section_map.attemptResize(QgsLayoutSize(width, height))
+    section_map.attemptMove(QgsLayoutPoint(x, y), page=page)
     section_map.setExtent(section.extent)
+    section_map.setScale(section.scale)
     _add_grid(section_map, section)
-    return section_map
-
-
-def _add_axis_titles(layout, page, section, box):
-    """End names above the view, axis titles beside it."""
-    map_x, map_y, map_w, map_h = box
-    _label(
-        layout, page, f"{section.label}   {section.start_name}", map_x, map_y - 8, 40, 6, 11, True
-    )
-    _label(
-        layout,
-        page,
-        f"{section.end_name}   {section.label}′",
-        map_x + map_w - 40,
-        map_y - 8,
-        40,
-        6,
-        11,
-        True,
-        align=Qt.AlignmentFlag.AlignRight,
-    )
-    _label(
+    _add_ends(layout, page, section, x, y, width)
+    label(
         layout,
         page,
         "Chainage (m)",
-        map_x,
-        map_y + map_h + 7,
-        map_w,
-        5,
-        8,
+        (x, y + height + 5.5, width, 4.5),
+        7.5,
         align=Qt.AlignmentFlag.AlignHCenter,
     )
-    _label(
+    # A rotated label turns about its upper left corner; both sit out in
+    # the margin, clear of the longest elevation numbers.
+    for corner, rotation in (
+        ((x - AXIS_ROOM - 2.0, y + height / 2 + 15.0), -90.0),
+        ((x + width + AXIS_ROOM + 2.0, y + height / 2 - 15.0), 90.0),
+    ):
+        label(
+            layout,
+            page,
+            "Elevation (m)",
+            (*corner, 30, 4),
+            7.5,
+            align=Qt.AlignmentFlag.AlignHCenter,
+            rotation=rotation,
+        )
+    _section_scale_line(layout, page, section_map, section, x, y + height + 11.0)
+    _add_band(layout, page, page_size, section, block, map_crs)
+    return section_map
+
+
+def _add_ends(layout, page, section, x, y, width):
+    """The end letters with the compass point and azimuth each end faces."""
+    for text, direction, anchor, align in (
+        (section.label, f"{section.start_name} {section.start_azimuth:03.0f}°", x, "left"),
+        (
+            f"{section.label}′",
+            f"{section.end_name} {section.end_azimuth:03.0f}°",
+            x + width,
+            "right",
+        ),
+    ):
+        if align == "left":
+            label(layout, page, text, (anchor, y - HEAD + 1, 14, 8), 14, bold=True)
+            label(layout, page, direction, (anchor + 12, y - HEAD + 2.5, 40, 6), 8.5)
+        else:
+            label(
+                layout,
+                page,
+                text,
+                (anchor - 14, y - HEAD + 1, 14, 8),
+                14,
+                bold=True,
+                align=Qt.AlignmentFlag.AlignRight,
+            )
+            label(
+                layout,
+                page,
+                direction,
+                (anchor - 52, y - HEAD + 2.5, 40, 6),
+                8.5,
+                align=Qt.AlignmentFlag.AlignRight,
+            )
+
+
+def _section_scale_line(layout, page, section_map, section, x, y):
+    bar = scale_bar(
+        layout, page, section_map, x, y, 4, nice_step(section.extent.width() / 4.0, 4), 1.6
+    )
+    label(
         layout,
         page,
-        "Elevation (m)",
-        map_x - 14,
-        map_y + map_h / 2 + 20,
-        40,
-        5,
+        scale_statement(section.scale, section.exaggeration),
+        (x + bar.rect().width() + 6, y, 150, 7),
         8,
-        align=Qt.AlignmentFlag.AlignHCenter,
-        rotation=-90.0,
+        bold=True,
     )
 
 
-def _add_scale_bar(layout, page, section, section_map, x, y):
-    scale_bar = QgsLayoutItemScaleBar(layout)
-    scale_bar.setStyle("Single Box")
-    scale_bar.setLinkedMap(section_map)
-    scale_bar.setUnits(UNIT_METERS)
-    scale_bar.setUnitLabel("m")
-    scale_bar.setNumberOfSegments(2)
-    scale_bar.setNumberOfSegmentsLeft(0)
-    scale_bar.setUnitsPerSegment(nice_step(section.extent.width(), 10))
-    scale_bar.setHeight(2.0)
-    scale_bar.setTextFormat(_text_format(7))
-    layout.addLayoutItem(scale_bar)
-    scale_bar.attemptMove(QgsLayoutPoint(x, y), page=page)
-    scale_bar.refresh()
+def _band_boxes(page_size):
+    """(location map, legend, title block) boxes of the bottom band."""
+    width, height = page_size
+    band = band_height(page_size)
+    top = height - MARGIN - band
+    block_w = title_block_width(width)
+    map_w = 1.15 * (band - 12)
+    location = (MARGIN, top + 7, map_w, band - 16)
+    block = (width - MARGIN - block_w, top, block_w, band)
+    legend_x = MARGIN + map_w + GAP
+    legend = (legend_x, top, width - MARGIN - block_w - GAP - legend_x, band)
+    return location, legend, block
 
 
-def _add_location(layout, page, section, x, y):
-    _label(layout, page, "Location", x, y - 7, LOCATION[0], 6, 9, True)
-    location = QgsLayoutItemMap(layout)
-    if section.location_crs is not None:
-        location.setCrs(section.location_crs)
-    location.setLayers(section.location_layers)
-    location.setKeepLayerSet(True)
-    location.setFrameEnabled(True)
-    location.setFrameStrokeWidth(QgsLayoutMeasurement(0.3))
-    layout.addLayoutItem(location)
-    _place(location, page, x, y, *LOCATION)
-    if section.location_extent is not None:
-        location.zoomToExtent(section.location_extent)
+def _add_band(layout, page, page_size, section, block, map_crs):
+    location, legend, title = _band_boxes(page_size)
+    add_map(layout, page, location, section.location_layers, section.location_extent, map_crs)
+    _add_legend(layout, page, section.legend_layers, legend)
+    add_title_block(layout, page, title, block)
 
 
-def _add_legend(layout, page, section, x, y):
+def _add_legend(layout, page, layers, box):
+    """Legend with each layer's entries kept together in one column."""
+    x, y, width, height = box
     legend = QgsLayoutItemLegend(layout)
     legend.setTitle("Legend")
     legend.setAutoUpdateModel(False)
     root = legend.model().rootGroup()
     root.removeAllChildren()
-    for layer in section.legend_layers:
+    for layer in layers:
         root.addLayer(layer)
-    set_legend_text(legend, LEGEND_TITLE, _text_format(9, True))
-    set_legend_text(legend, LEGEND_GROUP, _text_format(8, True))
-    set_legend_text(legend, LEGEND_ITEM, _text_format(7.5))
-    legend.setSymbolWidth(9)
-    legend.setColumnCount(3)
-    legend.setSplitLayer(True)
+    set_legend_text(legend, LEGEND_TITLE, text_format(9, True))
+    set_legend_text(legend, LEGEND_GROUP, text_format(7.5, True))
+    set_legend_text(legend, LEGEND_ITEM, text_format(7))
+    legend.setSymbolWidth(8)
+    legend.setSymbolHeight(3.2)
+    legend.setSplitLayer(False)
+    legend.setEqualColumnWidth(False)
+    legend.setColumnCount(max(2, int(width // 30)))
+    legend.setColumnSpace(4)
+    legend.setFrameEnabled(False)
+    legend.setResizeToContents(True)
     layout.addLayoutItem(legend)
     legend.attemptMove(QgsLayoutPoint(x, y), page=page)
     legend.adjustBoxSize()
+    return legend
+
+
+def add_overview_page(layout, page, page_size, layers, extent, crs, block, listing):
+    """Every section line on one map, the list of sections, the title block."""
+    width, height = page_size
+    block_w = title_block_width(width)
+    band = band_height(page_size)
+    map_box = (MARGIN, MARGIN + 8, width - 2 * MARGIN - block_w - GAP, height - 2 * MARGIN - 16)
+    add_map(layout, page, map_box, layers, _padded(extent), crs, 11.0, "Section lines")
+    list_top = MARGIN + 8
+    label(
+        layout,
+        page,
+        "Sections",
+        (width - MARGIN - block_w, list_top - 6.5, block_w, 6),
+        9,
+        bold=True,
+    )
+    label(
+        layout,
+        page,
+        "\n".join(listing),
+        (width - MARGIN - block_w, list_top, block_w, height - 2 * MARGIN - band - 16),
+        8,
+        valign=Qt.AlignmentFlag.AlignTop,
+    )
+    add_title_block(
+        layout, page, (width - MARGIN - block_w, height - MARGIN - band, block_w, band), block
+    )
+
+
+def _padded(box):
+    grow = 0.08 * max(box.width(), box.height())
+    return QgsRectangle(
+        box.xMinimum() - grow, box.yMinimum() - grow, box.xMaximum() + grow, box.yMaximum() + grow
+    )

@@ -291,7 +291,7 @@ def test_same_results_with_null_as_none(provider, tmp_path, request, case):
 
 def test_sheet_layers_leave_null_elevations_and_units_out(provider, request):
     from sectionwright.algorithms.outputs.styles import crossing_renderer
-    from sectionwright.algorithms.sectionsheet import _units
+    from sectionwright.algorithms.sheet.builder import unit_names
     from sectionwright.algorithms.sheet.layers import crossings_in_section
 
     def drawn():
@@ -305,7 +305,7 @@ def test_sheet_layers_leave_null_elevations_and_units_out(provider, request):
             geometry_type="None",
         )
         layer = crossings_in_section(crossings, "EW", 2.0, "Crossings", crossing_renderer())
-        return [f.geometry().asWkt(3) for f in layer.getFeatures()], _units(units)
+        return [f.geometry().asWkt(3) for f in layer.getFeatures()], unit_names(units, "unit")
 
     as_qvariant = drawn()
     assert as_qvariant == (["Point (100 800)"], ["SST"])

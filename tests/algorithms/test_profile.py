@@ -10,7 +10,11 @@ from pyproj import Transformer
 from qgis.core import QgsProcessingException, QgsVectorLayer
 from scipy import ndimage
 
-from sectionwright.algorithms.compat.qgis_compat import MULTI_LINE_STRING, POINT_Z
+from sectionwright.algorithms.compat.qgis_compat import (
+    MULTI_LINE_STRING,
+    MULTI_LINE_STRING_ZM,
+    POINT_Z,
+)
 
 ORIGIN_X, ORIGIN_Y = 431000.0, 5127000.0
 GT = (ORIGIN_X, 10.0, 0.0, ORIGIN_Y + 2000.0, 0.0, -10.0)  # 200 x 200 cells of 10 m
@@ -27,6 +31,7 @@ def run_profile(lines, dem, feedback=None, **extra):
         "DEM": dem,
         "STEP": 25.0,
         "OUTPUT": "memory:",
+        "OUTPUT_LINE": "memory:",
         "OUTPUT_SECTION": "memory:",
         "SKIPPED": "memory:",
     }
@@ -208,6 +213,41 @@ def test_nodata_gives_null_and_a_gap_in_the_section(provider, tmp_path):
     assert nulls and min(nulls) >= 795.0 and max(nulls) <= 1105.0
     section = next(result["OUTPUT_SECTION"].getFeatures())
     assert section.geometry().constGet().numGeometries() == 2
+    line = next(result["OUTPUT_LINE"].getFeatures()).geometry().constGet()
+    assert line.numGeometries() == 2
+    assert line.geometryN(0).pointN(line.geometryN(0).numPoints() - 1).m() < min(nulls)
+    assert line.geometryN(1).pointN(0).m() > max(nulls)
+
+
+def test_the_line_is_the_samples_draped_with_chainage_as_m(provider, plane_dem):
+    result = run_profile(line_layer([KINKED]), plane_dem)
+    samples = by_section(result["OUTPUT"])["L0"]
+    line = next(result["OUTPUT_LINE"].getFeatures())
+    vertices = list(line.geometry().vertices())
+    assert len(vertices) == len(samples)
+    for vertex, sample in zip(vertices, samples):
+        assert (vertex.x(), vertex.y()) == (sample["x"], sample["y"])
+        assert vertex.z() == pytest.approx(sample["elev"], abs=1e-9)
+        assert vertex.m() == pytest.approx(sample["chainage"], abs=1e-9)
+        # The plane itself, as test_plane_dem_is_reproduced_exactly checks.
+        assert vertex.z() == pytest.approx(plane(vertex.x(), vertex.y()), abs=1e-6)
+    section = next(result["OUTPUT_SECTION"].getFeatures())
+    for name in ("section", "length", "min_elev", "max_elev"):
+        assert line[name] == section[name]
+    assert line.fields().names() == ["section", "length", "min_elev", "max_elev"]
+
+
+def test_the_points_are_made_only_when_asked_for(provider, plane_dem):
+    parameters = {
+        "INPUT": line_layer([KINKED]),
+        "LINE_ID_FIELD": "name",
+        "DEM": plane_dem,
+        "STEP": 25.0,
+        "OUTPUT_SECTION": "memory:",
+    }
+    result = processing.run("sectionwright:profile", parameters)
+    assert "OUTPUT" not in result
+    assert result["OUTPUT_LINE"].featureCount() == 1  # made although not named
 
 
 def test_bad_lines_go_to_skipped_with_reasons(provider, plane_dem):
@@ -267,6 +307,7 @@ def test_the_input_layer_is_not_modified(provider, demo_dir):
 def test_output_geometry_types(provider, plane_dem):
     result = run_profile(line_layer([KINKED]), plane_dem)
     assert result["OUTPUT"].wkbType() == POINT_Z
+    assert result["OUTPUT_LINE"].wkbType() == MULTI_LINE_STRING_ZM
     assert result["OUTPUT_SECTION"].wkbType() == MULTI_LINE_STRING
 
 

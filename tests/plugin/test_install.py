@@ -57,6 +57,7 @@ def test_zip_installs_and_registers_the_provider(profile):
         "sectionwright:projectattitudes",
         "sectionwright:projectboreholes",
         "sectionwright:sectionsheet",
+        "sectionwright:sectionsin3d",
         "sectionwright:structuraltrend",
     ]
     assert report["unloaded"]
