@@ -3,7 +3,6 @@
 from collections import defaultdict
 
 import numpy as np
-import shapely
 from qgis.core import (
     QgsCoordinateTransform,
     QgsFeature,
@@ -17,7 +16,7 @@ from qgis.core import (
 from .compat.null import plain
 from .compat.qgis_compat import FAST_INSERT, NO_GEOMETRY, SOURCE_ANY_GEOMETRY
 from .core.section_to_map import place_on_map
-from .core.wkb import from_wkb
+from .core.wkb import from_wkb, to_wkb
 from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
 from .framework.run_guard import stop_if_cancelled
@@ -119,7 +118,7 @@ class SectionsIn3dAlgorithm(SectionwrightAlgorithm):
             stop_if_cancelled(feedback)
             section_view = from_wkb([bytes(f.geometry().asWkb()) for f in features])
             placed = place_on_map(by_label[label].coords, section_view, exaggeration)
-            wkbs = shapely.to_wkb(placed, output_dimension=3)
+            wkbs = to_wkb(placed)
             for feature, wkb in zip(features, wkbs):
                 if wkb is None:
                     skip(feature, label, NO_GEOMETRY_REASON)
