@@ -35,7 +35,6 @@ from .outputs import fields as F
 from .outputs.feature_writer import write_rows
 from .outputs.section_space import is_section_view, section_crs
 from .outputs.skipped import write_skipped
-from .outputs.styles import RendererStyler, axis_renderer, form_line_renderer
 
 ATTITUDES = "ATTITUDES"
 CROSSINGS = "CROSSINGS"
@@ -215,7 +214,6 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         self._write_skipped(sinks[SKIPPED][0], skipped)
         ledger.close()
         feedback.setProgress(100)
-        self._style(context, sinks)
         return sink_results(sinks)
 
     # Reading
@@ -454,17 +452,6 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         return self.open_sinks(
             parameters, context, specs, required=(OUTPUT, OUTPUT_AXES, OUTPUT_THICKNESS)
         )
-
-    def _style(self, context, sinks):
-        self.stylers = []  # kept alive until QGIS has loaded the layers
-        for name, make in (
-            (OUTPUT, lambda: form_line_renderer(F.KIND)),
-            (OUTPUT_AXES, axis_renderer),
-        ):
-            layer_id = sinks[name][1]
-            if context.willLoadLayerOnCompletion(layer_id):
-                self.stylers.append(RendererStyler(make))
-                context.layerToLoadOnCompletionDetails(layer_id).setPostProcessor(self.stylers[-1])
 
     @staticmethod
     def _write_skipped(sink, skipped):

@@ -27,7 +27,6 @@ from .core.profile import profile_samples, section_runs
 from .core.trace_fit import plane_fits, trace_windows
 from .framework.base import (
     INPUT,
-    LINE_ID_FIELD,
     SKIPPED,
     UNIT_FIELD,
     UNITS,
@@ -47,7 +46,6 @@ from .outputs.feature_writer import write_rows
 from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_sections
-from .outputs.styles import UnitStripStyler
 
 CONTACTS = "CONTACTS"
 CONTACT_TYPE_FIELD = "CONTACT_TYPE_FIELD"
@@ -93,9 +91,10 @@ class GeologySettings:
     def read(cls, algorithm, parameters, context):
         text = lambda name: algorithm.parameterAsString(parameters, name, context)  # noqa: E731
         number = lambda name: algorithm.parameterAsDouble(parameters, name, context)  # noqa: E731
+        lines = algorithm.source(parameters, INPUT, context)
         return cls(
-            lines=algorithm.source(parameters, INPUT, context),
-            id_field=text(LINE_ID_FIELD),
+            lines=lines,
+            id_field=algorithm.label_field(parameters, context, lines),
             dem=algorithm.dem(parameters, context),
             z_factor=number(Z_FACTOR),
             units=algorithm.optional_source(parameters, UNITS, context),
@@ -135,10 +134,10 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
                 optional=True,
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterDistance(
                 TRACE_WINDOW,
-                tr("Contact attitude from its trace within (0: off)"),
+                tr("Contact attitude from its trace within (lines' CRS units; 0 = off)"),
                 defaultValue=0.0,
                 parentParameterName=INPUT,
                 minValue=0.0,
@@ -193,7 +192,6 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
             sinks, usable, sampled, geology, to_map, settings.exaggeration, feedback
         )
         ledger.close()
-        self._style(context, sinks[OUTPUT_INTERVALS][1], units)
         return sink_results(sinks)
 
     def _sinks(self, parameters, context, lines):
@@ -333,11 +331,6 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
             int(i): (dip_direction[k], dip[k], alpha[k], rms[k], bool(ill[k]))
             for k, i in enumerate(wanted)
         }
-
-    def _style(self, context, layer_id, units):
-        if context.willLoadLayerOnCompletion(layer_id):
-            self.styler = UnitStripStyler(units, F.UNIT)
-            context.layerToLoadOnCompletionDetails(layer_id).setPostProcessor(self.styler)
 
 
 def _position(coords, chainage):

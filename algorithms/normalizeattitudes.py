@@ -1,9 +1,12 @@
 """sectionwright:normalizeattitudes — one clean notation for a mixed notebook."""
 
 import numpy as np
-from qgis.core import QgsProcessingParameterFeatureSink, QgsProcessingParameterFeatureSource
+from qgis.core import (
+    QgsProcessingParameterFeatureSink,
+    QgsProcessingParameterFeatureSource,
+)
 
-from .compat.qgis_compat import SOURCE_ANY_VECTOR
+from .compat.qgis_compat import SOURCE_ANY_VECTOR, SOURCE_POINTS
 from .core.orientation import strike_from_dip_direction
 from .framework.base import SKIPPED, SectionwrightAlgorithm, sink_results
 from .framework.ledger import RunLedger
@@ -28,7 +31,7 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         self.addParameter(
             QgsProcessingParameterFeatureSource(
-                INPUT, self.tr("Attitudes (points or a table)"), [SOURCE_ANY_VECTOR]
+                INPUT, self.tr("Attitudes (points or a table)"), [SOURCE_POINTS, SOURCE_ANY_VECTOR]
             )
         )
         add_attitude_parameters(self, INPUT)

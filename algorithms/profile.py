@@ -23,7 +23,6 @@ from .core.profile import draped_runs, profile_samples, section_runs
 from .framework.base import (
     DEM,
     INPUT,
-    LINE_ID_FIELD,
     SKIPPED,
     VERTICAL_EXAGGERATION,
     Z_FACTOR,
@@ -61,9 +60,10 @@ class ProfileSettings:
 
     @classmethod
     def read(cls, algorithm, parameters, context):
+        lines = algorithm.source(parameters, INPUT, context)
         return cls(
-            lines=algorithm.source(parameters, INPUT, context),
-            id_field=algorithm.parameterAsString(parameters, LINE_ID_FIELD, context),
+            lines=lines,
+            id_field=algorithm.label_field(parameters, context, lines),
             dem=algorithm.dem(parameters, context),
             band=algorithm.parameterAsInt(parameters, DEM_BAND, context),
             z_factor=algorithm.parameterAsDouble(parameters, Z_FACTOR, context),
@@ -85,7 +85,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         self.add_section_line_parameters()
         self.add_dem_parameter()
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterBand(
                 DEM_BAND,
                 self.tr("DEM band"),
@@ -98,7 +98,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         self.addParameter(
             QgsProcessingParameterDistance(
                 STEP,
-                self.tr("Sampling step (0: the DEM's cell size)"),
+                self.tr("Sampling step (lines' CRS units; 0 = the DEM's cell size)"),
                 defaultValue=0.0,
                 parentParameterName=INPUT,
                 minValue=0.0,

@@ -19,7 +19,6 @@ from .core.projection import SectionNetwork
 from .core.ticks import tick_segments
 from .framework.base import (
     INPUT,
-    LINE_ID_FIELD,
     MAX_DISTANCE,
     SKIPPED,
     UNIT_FIELD,
@@ -84,10 +83,11 @@ class ProjectAttitudesSettings:
         require_map_crs(
             points.sourceCrs(), ATTITUDES, "the attitudes", "the attitude points on the map"
         )
+        lines = algorithm.source(parameters, INPUT, context)
         return cls(
-            lines=algorithm.source(parameters, INPUT, context),
+            lines=lines,
             points=points,
-            id_field=parameters.get(LINE_ID_FIELD) or "",
+            id_field=algorithm.label_field(parameters, context, lines),
             attitudes=AttitudeSettings(algorithm, parameters, context),
             carry=CarryOptions(
                 method=algorithm.parameterAsEnum(parameters, PROJECTION, context),
@@ -125,16 +125,16 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             )
         )
         add_attitude_parameters(self, ATTITUDES)
-        self.add_max_distance_parameter("Maximum distance from the section")
+        self.add_max_distance_parameter("Maximum distance from the section (lines' CRS units)")
         self._add_projection_parameters()
         self.add_dem_parameter("DEM (elevation of points without Z, and of the ground)", True)
         self.add_unit_parameters()
         self._add_uncertainty_parameters()
         self.add_exaggeration_parameter()
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 TICK_LENGTH,
-                tr("Tick length in the section view (0: automatic)"),
+                tr("Tick length (section-view metres, 0 = automatic)"),
                 NUMBER_DOUBLE,
                 defaultValue=0.0,
                 minValue=0.0,
@@ -149,20 +149,20 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
                 PROJECTION, tr("Projection"), options=[tr(p) for p in PROJECTIONS], defaultValue=0
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 PLUNGE_TREND,
-                tr("Plunge trend (degrees)"),
+                tr("Plunge trend (degrees; only for projection along a plunge)"),
                 NUMBER_DOUBLE,
                 defaultValue=0.0,
                 minValue=0.0,
                 maxValue=360.0,
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 PLUNGE,
-                tr("Plunge (degrees)"),
+                tr("Plunge (degrees below horizontal; only for projection along a plunge)"),
                 NUMBER_DOUBLE,
                 defaultValue=0.0,
                 minValue=0.0,
@@ -177,7 +177,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
             (DIP_UNCERTAINTY, "Dip uncertainty, one standard deviation (degrees)", 2.0, 45.0),
             (STRIKE_UNCERTAINTY, "Strike uncertainty, one standard deviation (degrees)", 5.0, 90.0),
         ):
-            self.addParameter(
+            self.add_advanced(
                 QgsProcessingParameterNumber(
                     name, tr(label), NUMBER_DOUBLE, defaultValue=default, minValue=0.0, maxValue=top
                 )

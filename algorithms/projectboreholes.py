@@ -32,7 +32,6 @@ from .core.projection import SectionNetwork, nearest_points
 from .framework.base import (
     DECLINATION,
     INPUT,
-    LINE_ID_FIELD,
     MAX_DISTANCE,
     NORTH_REFERENCE,
     SKIPPED,
@@ -137,7 +136,7 @@ class BoreholeSettings:
                 raise ParameterProblem(name, "choose the field of the collar layer.")
         settings = cls(
             lines=lines,
-            id_field=algorithm.parameterAsString(parameters, LINE_ID_FIELD, context),
+            id_field=algorithm.label_field(parameters, context, lines),
             collars=collars,
             surveys=table(SURVEYS, SURVEY_FIELDS),
             intervals=table(INTERVALS, INTERVAL_FIELDS),
@@ -196,9 +195,9 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             "Downhole surveys (table)",
             (
                 (SURVEY_HOLE_FIELD, "Survey hole id field"),
-                (SURVEY_DEPTH_FIELD, "Survey depth field"),
-                (SURVEY_AZIMUTH_FIELD, "Survey azimuth field"),
-                (SURVEY_INCLINATION_FIELD, "Survey inclination field"),
+                (SURVEY_DEPTH_FIELD, "Survey depth field (metres along the hole)"),
+                (SURVEY_AZIMUTH_FIELD, "Survey azimuth field (degrees)"),
+                (SURVEY_INCLINATION_FIELD, "Survey inclination field (degrees below horizontal)"),
             ),
         )
         self._add_table(
@@ -206,14 +205,16 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             "Intervals: lithology, unit … (table)",
             (
                 (INTERVAL_HOLE_FIELD, "Interval hole id field"),
-                (INTERVAL_FROM_FIELD, "From field"),
-                (INTERVAL_TO_FIELD, "To field"),
+                (INTERVAL_FROM_FIELD, "From field (metres along the hole)"),
+                (INTERVAL_TO_FIELD, "To field (metres along the hole)"),
                 (INTERVAL_CODE_FIELD, "Code field"),
             ),
         )
         self.add_north_parameters()
         self.add_dem_parameter("DEM (elevation of collars without Z)", optional=True)
-        self.add_max_distance_parameter("Maximum distance of a collar from the section")
+        self.add_max_distance_parameter(
+            "Maximum distance of a collar from the section (lines' CRS units)"
+        )
         self.add_exaggeration_parameter()
         for name, label, kind, optional in (
             (OUTPUT, "Boreholes (section view)", SOURCE_LINES, False),

@@ -35,10 +35,11 @@ from .compat.qgis_compat import (
     advanced,
 )
 from .core.sheet_scale import format_scale
-from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
+from .framework.base import INPUT, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
 from .framework.run_guard import stop_if_cancelled
 from .inputs.section_lines import read_section_parts, working_crs
+from .inputs.section_views import section_view_layers, sheet_inputs
 from .outputs import fields as F
 from .outputs import styles
 from .outputs.section_space import is_section_view
@@ -114,10 +115,15 @@ class SheetSettings:
 
         lines = algorithm.source(parameters, INPUT, context)
         profile = algorithm.parameterAsVectorLayer(parameters, PROFILE, context)
-        if profile is None or profile.fields().lookupField(F.SECTION) < 0:
+        if (
+            profile is None
+            or profile.fields().lookupField(F.SECTION) < 0
+            or not is_section_view(profile.crs())
+        ):
             raise QgsProcessingException(
                 f"{label(PROFILE)}: give the section-view profile made by Topographic "
-                f"profile (it needs a '{F.SECTION}' field)."
+                f"profile (a layer in the section view with a '{F.SECTION}' field), not the "
+                "map's section lines."
             )
         output = algorithm.parameterAsFileOutput(parameters, OUTPUT, context)
         inputs = {PROFILE: profile}
@@ -127,7 +133,7 @@ class SheetSettings:
         title = algorithm.parameterAsString(parameters, TITLE, context)
         return cls(
             lines=lines,
-            id_field=algorithm.parameterAsString(parameters, LINE_ID_FIELD, context),
+            id_field=algorithm.label_field(parameters, context, lines),
             inputs=inputs,
             exaggeration=_exaggeration(inputs, label, feedback),
             map_layers=map_layers,
@@ -151,6 +157,10 @@ class SheetSettings:
             output=output,
             suffix=_checked_suffix(output, label(OUTPUT)),
         )
+
+
+def _layer_id(layer):
+    return layer.id() if layer is not None else None
 
 
 def _checked_suffix(output, label):
@@ -210,14 +220,22 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
     def initAlgorithm(self, config=None):
         tr = self.tr
         self.add_section_line_parameters()
+        # The project's section-view layers as defaults, so that the dialog
+        # does not offer the map's own lines first.
+        found = sheet_inputs(section_view_layers())
         self.addParameter(
             QgsProcessingParameterVectorLayer(
-                PROFILE, tr("Profile (section view, from Topographic profile)"), [SOURCE_LINES]
+                PROFILE,
+                tr("Profile (section view, from Topographic profile)"),
+                [SOURCE_LINES],
+                defaultValue=_layer_id(found.get(PROFILE)),
             )
         )
         for name, label, kind in SECTION_VIEW_INPUTS:
             self.addParameter(
-                QgsProcessingParameterVectorLayer(name, tr(label), [kind], optional=True)
+                QgsProcessingParameterVectorLayer(
+                    name, tr(label), [kind], defaultValue=_layer_id(found.get(name)), optional=True
+                )
             )
         self.addParameter(
             QgsProcessingParameterMultipleLayers(
@@ -483,7 +501,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
 def _check(result, exporter, target):
     if result != EXPORT_SUCCESS:
         raise QgsProcessingException(
-            f"OUTPUT: the sheet could not be written to {target} "
+            f"Section sheets: the sheet could not be written to {target} "
             f"({exporter.errorFile() or 'export error'})."
         )
 

@@ -115,6 +115,21 @@ def keep_memory_layers(project, gpkg):
             layer.setLabelsEnabled(True)
 
 
+def name_sheet_layers_by_section(project):
+    """The sheet's per-section copies named after their section ("Boreholes,
+    section B"): the dialogs' layer lists show every layer of the project.
+    The sheet's legends keep the names they were drawn with."""
+    import re
+
+    for layer in project.mapLayers().values():
+        found = re.search(
+            r"\"section\" = '([^']*)'",
+            layer.subsetString() if hasattr(layer, "subsetString") else "",
+        )
+        if found and not layer.name().endswith(f"section {found.group(1)}"):
+            layer.setName(f"{layer.name()}, section {found.group(1)}")
+
+
 def main(demo):
     app, provider = start_qgis()  # keep both alive
     import processing
@@ -125,17 +140,31 @@ def main(demo):
         QgsProcessingFeedback,
         QgsProject,
         QgsRasterLayer,
+        QgsReferencedRectangle,
         QgsVectorLayer,
     )
 
     from sectionwright.algorithms.outputs import sheet_styles, styles
+    from sectionwright.algorithms.outputs.output_styles import SECTION_VIEW_GROUP, apply_style
     from sectionwright.algorithms.outputs.section_space import section_crs
 
     world, results = demo / "tarrowgill.gpkg", demo / "sections.gpkg"
     section_view_crossings(results)
+    processing.run(
+        "sectionwright:normalizeattitudes",
+        {
+            "INPUT": f"{world}|layername=attitudes",
+            "CONVENTION": 3,
+            "TEXT_FIELD": "attitude",
+            "OUTPUT": f"ogr:dbname='{results}' table=\"attitudes_clean\" (geom)",
+        },
+    )
     project = QgsProject()
     project.setFileName(str(demo / "tarrowgill.qgz"))
     project.setCrs(QgsCoordinateReferenceSystem("EPSG:32633"))
+    # Planar measures: an ellipsoid would make QGIS look for a transform from
+    # the section view to geographic coordinates, and there is none.
+    project.setEllipsoid("NONE")
 
     def add(path, layer_name, name, group, provider_name="ogr", renderer=None):
         layer = (
@@ -152,10 +181,20 @@ def main(demo):
     def values(layer, field):
         return [str(v) for v in layer.uniqueValues(layer.fields().lookupField(field))]
 
+    def add_result(layer_name, name, group, algorithm_id, output_name):
+        layer = add(results, layer_name, name, group)
+        apply_style(layer, algorithm_id, output_name)
+        return layer
+
     root = project.layerTreeRoot()
     map_group = root.addGroup("Tarrowgill map")
+    results_group = root.addGroup("Results on the map")
+    data_group = root.addGroup("Field and drilling data")
     fence_group = root.addGroup("Sections in 3-D (fence, for the 3-D map view)")
-    view_group = root.addGroup("Section views (x = chainage, y = elevation × 2)")
+    # Section-view layers are drawn by the section viewer, not by the map
+    # canvas (whose CRS is the map's): their group is left unticked.
+    view_group = root.addGroup(SECTION_VIEW_GROUP)
+    view_group.setItemVisibilityChecked(False)
     sections = add(
         world, "sections", "Section lines", map_group, renderer=styles.section_line_renderer()
     )
@@ -169,7 +208,22 @@ def main(demo):
     units = add(world, "units", "Units", map_group)
     units.setRenderer(styles.unit_fill_renderer(values(units, "unit"), "unit"))
     dem = add(demo / "dem.tif", None, "DEM", map_group, provider_name="gdal")
-    add(results, "profile_line", "Profile lines (3-D, M = chainage)", map_group)
+
+    # Every demo input, so that each step can be rerun from its dialog.
+    attitudes = add(world, "attitudes", "Attitudes (field notebook)", data_group)
+    attitudes.setRenderer(styles.profile_point_renderer())
+    add(world, "collars", "Collars", data_group, renderer=styles.collar_renderer())
+    add(world, "surveys", "Downhole surveys", data_group)
+    add(world, "intervals", "Logged intervals", data_group)
+    for layer_name, name, algorithm_id, output_name in (
+        ("profile_line", "Profile lines (3-D, M = chainage)", "profile", "OUTPUT_LINE"),
+        ("attitudes_clean", "Attitudes (strike and dip)", "normalizeattitudes", "OUTPUT"),
+        ("attitudes", "Attitudes carried to the sections", "projectattitudes", "OUTPUT"),
+        ("attitude_connectors", "Carried from … to", "projectattitudes", "OUTPUT_CONNECTORS"),
+        ("geology_crossings", "Geology crossings", "geologycrossings", "OUTPUT"),
+        ("borehole_traces", "Borehole traces", "projectboreholes", "OUTPUT_TRACES"),
+    ):
+        add_result(layer_name, name, results_group, algorithm_id, output_name)
     colours = sheet_styles.palette(values(units, "unit"))
     for layer_name, name, renderer in (
         ("fence_ground", "Ground (3-D)", fence_renderer(width=2.0)),
@@ -188,32 +242,28 @@ def main(demo):
         terrain.setLayer(dem)
         project.elevationProperties().setTerrainProvider(terrain)
     trend_group = root.addGroup("Structural trend and dip domains")
-    add(
-        results,
-        "trend",
-        "Suggested section line (structural trend)",
-        trend_group,
-        renderer=styles.section_line_renderer(),
-    )
-    add(results, "trend_lines", "Section lines checked against the trend", trend_group)
-    add(results, "attitude_domains", "Attitudes with dip domains", trend_group)
+    for layer_name, name, algorithm_id, output_name in (
+        ("trend", "Suggested section line (structural trend)", "structuraltrend", "OUTPUT"),
+        ("trend_lines", "Lines checked against the trend", "structuraltrend", "OUTPUT_LINES"),
+        ("attitude_domains", "Attitudes with dip domains", "dipdomains", "OUTPUT"),
+    ):
+        add_result(layer_name, name, trend_group, algorithm_id, output_name)
     domains = add(results, "domains", "Dip domains", trend_group)
     engineering = section_crs()
     view = {}
-    for layer_name, name, renderer in (
-        ("profile_section", "Ground surface", styles.profile_renderer()),
-        ("geology_strip", "Geology strip", None),
-        ("attitude_ticks", "Dip ticks", styles.tick_renderer()),
-        ("crossings_view", "Contacts and boundaries", styles.crossing_renderer()),
-        ("boreholes", "Boreholes", styles.hole_renderer()),
-        ("borehole_intervals", "Logged intervals", None),
-        ("form_lines", "Form lines (kink construction)", styles.form_line_renderer("kind")),
-        ("axial_surfaces", "Axial surfaces", styles.axis_renderer()),
+    for layer_name, name, algorithm_id, output_name in (
+        ("attitude_ticks", "Dip ticks", "projectattitudes", "OUTPUT_TICKS"),
+        ("crossings_view", "Contacts and boundaries", "geologycrossings", "OUTPUT"),
+        ("boreholes", "Boreholes", "projectboreholes", "OUTPUT"),
+        ("borehole_intervals", "Logged intervals", "projectboreholes", "OUTPUT_INTERVALS"),
+        ("form_lines", "Form lines (kink construction)", "formlines", "OUTPUT"),
+        ("axial_surfaces", "Axial surfaces", "formlines", "OUTPUT_AXES"),
+        ("profile_section", "Ground surface", "profile", "OUTPUT_SECTION"),
+        ("geology_strip", "Geology strip", "geologycrossings", "OUTPUT_INTERVALS"),
     ):
-        view[layer_name] = add(results, layer_name, name, view_group, renderer=renderer)
+        view[layer_name] = add_result(layer_name, name, view_group, algorithm_id, output_name)
         view[layer_name].setCrs(engineering)
     strip = view["geology_strip"]
-    strip.setRenderer(styles.unit_strip_renderer(values(strip, "unit"), "unit"))
     view["borehole_intervals"].setRenderer(sheet_styles.hole_interval_renderer(colours, "code"))
 
     context = QgsProcessingContext()
@@ -244,6 +294,11 @@ def main(demo):
         feedback=QgsProcessingFeedback(),
     )
     keep_memory_layers(project, demo / "sheet_layers.gpkg")
+    name_sheet_layers_by_section(project)
+    # Opened, the project shows the map around the section lines.
+    around = sections.extent()
+    around.grow(0.08 * max(around.width(), around.height()))
+    project.viewSettings().setDefaultViewExtent(QgsReferencedRectangle(around, sections.crs()))
     project.write()
     layouts = project.layoutManager().layouts()
     print(

@@ -60,3 +60,21 @@ def demo_dir(tmp_path_factory):
     import make_demo
 
     return make_demo.make(tmp_path_factory.mktemp("tarrowgill"))
+
+
+@pytest.fixture(scope="session")
+def demo_project(tmp_path_factory):
+    """The demo command's two steps (run_demo.py, make_demo_project.py) on a
+    fresh folder, once per session: the folder with tarrowgill.qgz."""
+    import subprocess
+
+    folder = tmp_path_factory.mktemp("demo_project")
+    for script in ("run_demo.py", "make_demo_project.py"):
+        done = subprocess.run(
+            [sys.executable, str(ROOT / "scripts" / script), str(folder)],
+            capture_output=True,
+            text=True,
+            timeout=600,
+        )
+        assert done.returncode == 0, done.stderr[-3000:]
+    return folder

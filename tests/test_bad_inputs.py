@@ -141,7 +141,8 @@ CASES = {
     "profile: a label field the lines lack": Case(
         "profile",
         "error",
-        "Section label field (empty: feature id): the section lines have no field 'nosuch'.",
+        "Section label field (empty: name, label, section or id, else feature id): "
+        "the section lines have no field 'nosuch'.",
         {"LINE_ID_FIELD": "nosuch"},
     ),
     "profile: a vector layer as DEM": Case("profile", "error", "DEM: ", {"DEM": layer("units")}),
@@ -166,7 +167,8 @@ CASES = {
     "profile: a negative step": Case(
         "profile",
         "error",
-        "Sampling step (0: the DEM's cell size): -10 is not allowed; the value must be at least 0.",
+        "Sampling step (lines' CRS units; 0 = the DEM's cell size): -10 is not allowed; "
+        "the value must be at least 0.",
         {"STEP": -10.0},
     ),
     "profile: VE 0": Case(
@@ -216,14 +218,14 @@ CASES = {
     "projectattitudes: no azimuth field for the convention": Case(
         "projectattitudes",
         "error",
-        "Azimuth field (dip direction or strike): attitudes written as "
+        "Azimuth field (dip direction or strike, degrees): attitudes written as "
         "'Dip direction / dip' need this field",
         {"AZIMUTH_FIELD": ""},
     ),
     "projectattitudes: a dip field the layer lacks": Case(
         "projectattitudes",
         "error",
-        "Dip field: the attitude layer has no field 'nosuch'.",
+        "Dip field (degrees): the attitude layer has no field 'nosuch'.",
         {"DIP_FIELD": "nosuch"},
     ),
     "projectattitudes: a text field read as dips": Case(
@@ -267,13 +269,14 @@ CASES = {
     "projectattitudes: a negative maximum distance": Case(
         "projectattitudes",
         "error",
-        "Maximum distance from the section: -1 is not allowed",
+        "Maximum distance from the section (lines' CRS units): -1 is not allowed",
         {"MAX_DISTANCE": -1.0},
     ),
     "projectattitudes: plunge of 90": Case(
         "projectattitudes",
         "error",
-        "Plunge (degrees): 90 is not allowed; the value must be at least 0 and at most 89.9.",
+        "Plunge (degrees below horizontal; only for projection along a plunge): 90 is not "
+        "allowed; the value must be at least 0 and at most 89.9.",
         {"PLUNGE": 90.0},
     ),
     "projectattitudes: units without a unit field": Case(
@@ -335,7 +338,7 @@ CASES = {
     "geologycrossings: a negative trace window": Case(
         "geologycrossings",
         "error",
-        "Contact attitude from its trace within (0: off): -5 is not allowed",
+        "Contact attitude from its trace within (lines' CRS units; 0 = off): -5 is not allowed",
         {"TRACE_WINDOW": -5.0},
     ),
     # projectboreholes
@@ -351,7 +354,7 @@ CASES = {
     "projectboreholes: a survey field not chosen": Case(
         "projectboreholes",
         "error",
-        "Survey depth field: choose the field of the surveys table.",
+        "Survey depth field (metres along the hole): choose the field of the surveys table.",
         {"SURVEY_DEPTH_FIELD": ""},
     ),
     "projectboreholes: depth zero": Case(

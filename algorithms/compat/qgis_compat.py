@@ -68,6 +68,7 @@ NUMBER_DOUBLE = _scoped(
 TEXT_AS_TEXT = _scoped("TextRenderFormat", "AlwaysText", "QgsRenderContext.TextFormatAlwaysText")
 LABEL_OVER_POINT = _scoped("LabelPlacement", "OverPoint", "QgsPalLayerSettings.OverPoint")
 LABEL_HORIZONTAL = _scoped("LabelPlacement", "Horizontal", "QgsPalLayerSettings.Horizontal")
+LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", "QgsPalLayerSettings.AroundPoint")
 FAST_INSERT = QgsFeatureSink.Flag.FastInsert
 SKIP_GEOMETRY_CHECKS = _scoped(
     "ProcessingFeatureSourceFlag",
@@ -98,21 +99,12 @@ OBSTACLE_WHOLE_POLYGON = _scoped(
     "LabelObstacleType", "PolygonWhole", "QgsLabelObstacleSettings.ObstacleType.PolygonWhole"
 )
 CRITICAL = _scoped("MessageLevel", "Critical", "Qgis.Critical")
+INFO = _scoped("MessageLevel", "Info", "Qgis.Info")
 
 UNIT_METERS = _scoped("DistanceUnit", "Meters", "QgsUnitTypes.DistanceMeters")
 WKT2_2019 = _scoped(
     "CrsWktVariant", "Wkt2_2019", "QgsCoordinateReferenceSystem.WktVariant.WKT2_2019"
 )
-
-POINT_GEOMETRY = _scoped("GeometryType", "Point", "QgsWkbTypes.PointGeometry")
-LINE_GEOMETRY = _scoped("GeometryType", "Line", "QgsWkbTypes.LineGeometry")
-POLYGON_GEOMETRY = _scoped("GeometryType", "Polygon", "QgsWkbTypes.PolygonGeometry")
-NULL_GEOMETRY = _scoped("GeometryType", "Null", "QgsWkbTypes.NullGeometry")
-
-
-def geometry_type(wkb_type):
-    return QgsWkbTypes.geometryType(wkb_type)
-
 
 def enum_number(value):
     """The number of an enum member, plain int or scoped enum alike."""
@@ -153,3 +145,24 @@ def advanced(parameter):
     """The parameter, marked as rarely changed (under Advanced parameters)."""
     parameter.setFlags(parameter.flags() | ADVANCED)
     return parameter
+
+
+_GEOMETRY_KINDS = {
+    _scoped("GeometryType", "Point", "QgsWkbTypes.PointGeometry"): "point",
+    _scoped("GeometryType", "Line", "QgsWkbTypes.LineGeometry"): "line",
+    _scoped("GeometryType", "Polygon", "QgsWkbTypes.PolygonGeometry"): "polygon",
+}
+
+
+def geometry_kind(layer):
+    """ "point", "line", "polygon" or "none" (a table) for a vector layer or
+    a feature source."""
+    return _GEOMETRY_KINDS.get(QgsWkbTypes.geometryType(layer.wkbType()), "none")
+
+
+def save_default_style(layer, name, description):
+    """Saves the layer's style into its data source as the default style:
+    saveStyleToDatabaseV2 from 3.40 on (the old call is deprecated there)."""
+    if hasattr(layer, "saveStyleToDatabaseV2"):
+        return layer.saveStyleToDatabaseV2(name, description, True, "")
+    return layer.saveStyleToDatabase(name, description, True, "")

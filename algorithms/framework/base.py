@@ -19,20 +19,20 @@ from qgis.core import (
 from qgis.PyQt.QtCore import QCoreApplication
 
 from ..compat.qgis_compat import (
-    LINE_GEOMETRY,
-    NULL_GEOMETRY,
     NUMBER_DOUBLE,
-    POINT_GEOMETRY,
-    POLYGON_GEOMETRY,
+    SOURCE_ANY_VECTOR,
     SOURCE_LINES,
     SOURCE_POINTS,
     SOURCE_POLYGONS,
+    advanced,
     enum_number,
-    geometry_type,
+    geometry_kind,
 )
 from ..core.north import GRID
+from ..inputs.section_lines import OBVIOUS_LABEL_FIELDS, obvious_label_field
+from ..outputs.output_styles import StyleOnLoad, geopackage_of, save_default_style, style_for
 from .help import help_text
-from .run_guard import OutputRecord, ParameterProblem
+from .run_guard import OutputRecord, ParameterProblem, destination_asked
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"
@@ -48,17 +48,20 @@ DECLINATION = "DECLINATION"
 
 NORTH_REFERENCES = ["Grid north (as stored)", "True north", "Magnetic north"]
 
-# What a source parameter filtered to one geometry accepts, in words.
+# What a source parameter filtered to one geometry accepts: the geometry
+# kind (compat.geometry_kind) and its words. "Any vector" beside a geometry
+# filter adds plain tables (a dialog offers them too).
 GEOMETRY_NEEDED = {
-    enum_number(SOURCE_POINTS): (POINT_GEOMETRY, "points"),
-    enum_number(SOURCE_LINES): (LINE_GEOMETRY, "lines"),
-    enum_number(SOURCE_POLYGONS): (POLYGON_GEOMETRY, "polygons"),
+    enum_number(SOURCE_POINTS): ("point", "a layer of points"),
+    enum_number(SOURCE_LINES): ("line", "a layer of lines"),
+    enum_number(SOURCE_POLYGONS): ("polygon", "a layer of polygons"),
+    enum_number(SOURCE_ANY_VECTOR): ("none", "a table"),
 }
-GEOMETRY_NAMES = {
-    POINT_GEOMETRY: "points",
-    LINE_GEOMETRY: "lines",
-    POLYGON_GEOMETRY: "polygons",
-    NULL_GEOMETRY: "no geometry (a plain table)",
+GEOMETRY_HELD = {
+    "point": "points",
+    "line": "lines",
+    "polygon": "polygons",
+    "none": "no geometry (a plain table)",
 }
 
 
@@ -89,12 +92,15 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         take its output back; a destination that cannot be written is an
         error naming the output by its label."""
         record = self.__dict__.setdefault("output_record", OutputRecord())
-        record.before_sink(self.parameterAsOutputLayer(parameters, name, context))
+        record.before_sink(destination_asked(parameters.get(name), context))
         try:
             sink, sink_id = super().parameterAsSink(parameters, name, context, *args, **kwargs)
         except QgsProcessingException as error:
             raise ParameterProblem(name, f"the output cannot be written there ({error}).")
         record.add(sink)
+        if sink is not None:
+            # Where each output went, for its style (postProcessAlgorithm).
+            self.__dict__.setdefault("destinations", {})[name] = sink_id
         return sink, sink_id
 
     def required_sink(self, parameters, name, context, *args, **kwargs):
@@ -122,6 +128,31 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     def shortHelpString(self):
         return self.tr(help_text(self.ALGORITHM_ID))
 
+    def postProcessAlgorithm(self, context, feedback):  # noqa: N802 (QGIS API)
+        """Styles the outputs (algorithms/outputs/output_styles.py): on load
+        into the project, and inside every GeoPackage written."""
+        for layer_id in context.layersToLoadOnCompletion():
+            # The details by reference: layersToLoadOnCompletion() is a copy.
+            details = context.layerToLoadOnCompletionDetails(layer_id)
+            if style_for(self.name(), details.outputName) is not None:
+                details.setPostProcessor(StyleOnLoad.kept(self.name(), details.outputName))
+        for name, destination in self.__dict__.get("destinations", {}).items():
+            if geopackage_of(destination) and style_for(self.name(), name) is not None:
+                save_default_style(destination, self.name(), name)
+        return {}
+
+    def label_field(self, parameters, context, source):
+        """The field that labels the sections: the one chosen, else the
+        lines' obvious one (``name``, ``label``, ``section``, ``id``), else
+        none (labels are feature ids)."""
+        if parameters.get(LINE_ID_FIELD):
+            return self.parameterAsString(parameters, LINE_ID_FIELD, context)
+        return obvious_label_field(source.fields().names()) or ""
+
+    def add_advanced(self, parameter):
+        """Adds a rarely changed parameter, folded under "Advanced"."""
+        self.addParameter(advanced(parameter))
+
     def add_section_line_parameters(self, label="Section lines", optional=False):
         self.addParameter(
             QgsProcessingParameterFeatureSource(
@@ -131,7 +162,9 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         self.addParameter(
             QgsProcessingParameterField(
                 LINE_ID_FIELD,
-                self.tr("Section label field (empty: feature id)"),
+                self.tr("Section label field (empty: name, label, section or id, else feature id)"),
+                # Pre-selected in the dialog when the lines have it.
+                defaultValue=OBVIOUS_LABEL_FIELDS[0],
                 parentLayerParameterName=INPUT,
                 optional=True,
             )
@@ -159,13 +192,12 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
             for number in map(enum_number, self.parameterDefinition(name).dataTypes())
             if number in GEOMETRY_NEEDED
         ]
-        held = geometry_type(source.wkbType())
-        if needed and held not in [kind for kind, _ in needed]:
+        kinds = [kind for kind, _ in needed]
+        held = geometry_kind(source)
+        if kinds and kinds != ["none"] and held not in kinds:
             wanted = " or ".join(words for _, words in needed)
             raise ParameterProblem(
-                name,
-                f"this layer holds {GEOMETRY_NAMES.get(held, 'unknown geometry')}; "
-                f"choose a layer of {wanted}.",
+                name, f"this layer holds {GEOMETRY_HELD[held]}; choose {wanted}."
             )
 
     def checkParameterValues(self, parameters, context):
@@ -206,7 +238,7 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         self.addParameter(QgsProcessingParameterRasterLayer(DEM, self.tr(label), optional=optional))
 
     def add_z_factor_parameter(self):
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 Z_FACTOR,
                 self.tr("Z factor (DEM values × factor = metres)"),
@@ -239,7 +271,7 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     def add_north_parameters(self):
         """NORTH_REFERENCE and DECLINATION, as every algorithm reading azimuths has them."""
         tr = self.tr
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterEnum(
                 NORTH_REFERENCE,
                 tr("Azimuths are measured from"),
@@ -247,7 +279,7 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
                 defaultValue=GRID,
             )
         )
-        self.addParameter(
+        self.add_advanced(
             QgsProcessingParameterNumber(
                 DECLINATION,
                 tr("Magnetic declination (degrees, east positive)"),
@@ -305,7 +337,9 @@ def _guarded(process_algorithm):
     def processAlgorithm(self, parameters, context, feedback):
         self.output_record = OutputRecord()
         try:
-            return process_algorithm(self, parameters, context, feedback)
+            results = process_algorithm(self, parameters, context, feedback)
+            self.output_record.release()
+            return results
         except BaseException as error:
             self.output_record.withdraw()
             if isinstance(error, ParameterProblem):

@@ -10,7 +10,13 @@ by its label, as the dialog shows it.
 from pathlib import Path
 
 from osgeo import gdal
-from qgis.core import QgsDataSourceUri, QgsProcessingException
+from qgis.core import (
+    QgsDataSourceUri,
+    QgsProcessing,
+    QgsProcessingException,
+    QgsProcessingOutputLayerDefinition,
+    QgsProperty,
+)
 from qgis.PyQt import sip
 
 CANCELLED = "Cancelled: the run stopped and wrote no output."
@@ -40,6 +46,19 @@ def stop_if_cancelled(feedback):
     """Raises RunCancelled once the user has pressed Cancel."""
     if feedback is not None and feedback.isCanceled():
         raise RunCancelled()
+
+
+def destination_asked(value, context):
+    """The destination a sink parameter's value names, as text, or None for
+    a temporary output. Read without parameterAsOutputLayer, which for a
+    value bound for a project already registers a layer to load."""
+    if isinstance(value, QgsProcessingOutputLayerDefinition):
+        value = value.sink
+    if isinstance(value, QgsProperty):
+        value, _ = value.valueAsString(context.expressionContext(), "")
+    if not isinstance(value, str) or value in ("", QgsProcessing.TEMPORARY_OUTPUT):
+        return None
+    return value
 
 
 def destination_file(destination):
@@ -77,6 +96,12 @@ class OutputRecord:
     def add(self, sink):
         if sink is not None:
             self.sinks.append(sink)
+
+    def release(self):
+        """Lets go of the sinks of a finished run, so that they close now,
+        before Processing hands their layers to the project (a sink kept
+        past that point writes into a layer it no longer owns)."""
+        self.sinks = []
 
     def withdraw(self):
         """Closes every sink and removes what the run wrote."""

@@ -64,8 +64,8 @@ def add_attitude_parameters(algorithm, parent):
         )
     )
     for name, label in (
-        (AZIMUTH_FIELD, "Azimuth field (dip direction or strike)"),
-        (DIP_FIELD, "Dip field"),
+        (AZIMUTH_FIELD, "Azimuth field (dip direction or strike, degrees)"),
+        (DIP_FIELD, "Dip field (degrees)"),
         (QUADRANT_FIELD, "Dip quadrant field (N, NE, E …)"),
         (TEXT_FIELD, "Attitude text field (e.g. 120/40, N30E 40SE)"),
     ):
@@ -75,7 +75,7 @@ def add_attitude_parameters(algorithm, parent):
             )
         )
     algorithm.add_north_parameters()
-    algorithm.addParameter(
+    algorithm.add_advanced(
         QgsProcessingParameterField(
             DECLINATION_FIELD,
             tr("Declination field (overrides the value where set)"),

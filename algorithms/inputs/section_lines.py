@@ -138,3 +138,13 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
             else:
                 sections.append(SectionPart(part_label, feature.id(), geometry, coords))
     return sections
+
+
+OBVIOUS_LABEL_FIELDS = ("name", "label", "section", "id")
+
+
+def obvious_label_field(field_names):
+    """The field that plainly labels section lines (``name``, ``label``,
+    ``section``, ``id`` … in that order, any case), or None."""
+    by_lower = {name.lower(): name for name in field_names}
+    return next((by_lower[n] for n in OBVIOUS_LABEL_FIELDS if n in by_lower), None)

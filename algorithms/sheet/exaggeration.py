@@ -41,3 +41,4 @@ def common_exaggeration(named_layers):
             "mixed ones would put features at wrong elevations."
         )
     return distinct.pop() if distinct else None
+

@@ -243,7 +243,8 @@ def _add_legend(layout, page, layers, box):
     root = legend.model().rootGroup()
     root.removeAllChildren()
     for layer in layers:
-        root.addLayer(layer)
+        # The name as drawn now, whatever the layer is renamed to later.
+        root.addLayer(layer).setCustomProperty("legend/title-label", layer.name())
     set_legend_text(legend, LEGEND_TITLE, text_format(9, True))
     set_legend_text(legend, LEGEND_GROUP, text_format(7.5, True))
     set_legend_text(legend, LEGEND_ITEM, text_format(7))

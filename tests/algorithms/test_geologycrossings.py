@@ -8,7 +8,7 @@ import shapely
 from feedback import LogFeedback
 from layers import attributes, line_layer, plane_raster, point_layer
 from pyproj import Transformer
-from qgis.core import QgsVectorLayer
+from qgis.core import QgsProcessingContext, QgsVectorLayer
 
 
 def run(demo_dir, feedback=None, **extra):
@@ -273,13 +273,16 @@ def test_bad_geology_input(provider, demo_dir, tmp_path):
 
 
 def test_unit_colours_are_applied_when_loaded(provider, demo_result):
-    from sectionwright.algorithms.outputs.styles import UNIT_COLOURS, UnitStripStyler
+    from sectionwright.algorithms.outputs.output_styles import StyleOnLoad
+    from sectionwright.algorithms.outputs.styles import UNIT_COLOURS
 
     layer = demo_result["OUTPUT_INTERVALS"]
-    UnitStripStyler(["ASH", "BRS"], "unit").postProcessLayer(layer, None, None)
+    StyleOnLoad("geologycrossings", "OUTPUT_INTERVALS").postProcessLayer(
+        layer, QgsProcessingContext(), None
+    )
     renderer = layer.renderer()
     assert renderer.classAttribute() == "unit"
     values = [c.value() for c in renderer.categories()]
-    assert values == ["ASH", "BRS", ""]
+    assert values == ["ASH", "BRS", "COL", "DNG", "HWM", ""]
     colours = [c.symbol().symbolLayer(1).color().name() for c in renderer.categories()[:2]]
     assert colours == list(UNIT_COLOURS[:2])

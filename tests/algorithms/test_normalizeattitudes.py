@@ -89,3 +89,19 @@ def test_numeric_conventions_and_bad_values(provider):
         "dip out of range",
         "missing azimuth",
     ]
+
+
+def test_a_line_layer_is_refused_by_its_label(provider):
+    from layers import line_layer
+    from qgis.core import QgsProcessingException
+
+    lines = line_layer(["LINESTRING (0 0, 1 1)"])
+    with pytest.raises(
+        QgsProcessingException,
+        match="Attitudes \\(points or a table\\): this layer holds lines; "
+        "choose a layer of points or a table",
+    ):
+        processing.run(
+            "sectionwright:normalizeattitudes",
+            {"INPUT": lines, "CONVENTION": 3, "TEXT_FIELD": "name", "OUTPUT": "memory:"},
+        )

@@ -277,7 +277,7 @@ def test_bad_lines_go_to_skipped_with_reasons(provider, plane_dem):
 
 
 def test_missing_band_and_non_raster_are_clear_errors(provider, plane_dem, demo_dir):
-    with pytest.raises(QgsProcessingException, match="DEM band: "):
+    with pytest.raises(QgsProcessingException, match="DEM band"):
         run_profile(line_layer([KINKED]), plane_dem, DEM_BAND=5)
     with pytest.raises(QgsProcessingException, match="DEM"):
         run_profile(line_layer([KINKED]), f"{demo_dir}/tarrowgill.gpkg|layername=units")

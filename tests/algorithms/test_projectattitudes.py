@@ -367,5 +367,5 @@ def test_points_in_other_crs_including_geographic(provider):
 
 def test_a_missing_field_for_the_convention_is_a_clear_error(provider):
     line = line_layer([EAST_WEST], names=["EW"])
-    with pytest.raises(QgsProcessingException, match="Attitude text field "):
+    with pytest.raises(QgsProcessingException, match="Attitude text field"):
         run(line, numeric_points([(X0, Y0, 1, 1)]), CONVENTION=3)

@@ -532,3 +532,35 @@ def test_different_exaggerations_are_an_error_naming_the_layers(demo_layers, tmp
     assert "different vertical exaggerations" in message
     assert "Form lines" in message and "formlines_out" in message and "×3" in message
     assert "Profile" in message and "×2" in message
+
+
+def test_ticks_at_another_exaggeration_are_refused_naming_the_layers(
+    demo_layers, demo_dir, tmp_path
+):
+    ticks_at_1 = processing.run(
+        "sectionwright:projectattitudes",
+        {
+            "INPUT": demo_layers["INPUT"],
+            "LINE_ID_FIELD": "name",
+            "ATTITUDES": f"{demo_dir}/tarrowgill.gpkg|layername=attitudes",
+            "CONVENTION": 3,
+            "TEXT_FIELD": "attitude",
+            "MAX_DISTANCE": 500,
+            "DEM": f"{demo_dir}/dem.tif",
+            "VERTICAL_EXAGGERATION": 1,
+            "OUTPUT": "memory:",
+            "OUTPUT_TICKS": "memory:",
+        },
+    )["OUTPUT_TICKS"]
+    with pytest.raises(QgsProcessingException) as refused:
+        sheet(dict(demo_layers, TICKS=ticks_at_1), tmp_path / "mixed.pdf")
+    message = str(refused.value)
+    assert "different vertical exaggerations" in message
+    assert "Dip ticks (section view)" in message and "×1" in message
+    assert "Profile (section view, from Topographic profile)" in message and "×2" in message
+    assert not (tmp_path / "mixed.pdf").exists()
+
+
+def test_the_map_lines_are_refused_as_the_profile(demo_layers, tmp_path):
+    with pytest.raises(QgsProcessingException, match="Profile .*not the map's section lines"):
+        sheet(dict(demo_layers, PROFILE=demo_layers["INPUT"]), tmp_path / "lines.pdf")

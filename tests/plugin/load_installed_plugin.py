@@ -1,7 +1,11 @@
 """Run in a fresh interpreter by test_install.py: loads the installed plugin
 from a throwaway profile with qgis.utils, as QGIS does, and prints JSON.
 
-    python load_installed_plugin.py PROFILE_DIR [--without shapely]
+    python load_installed_plugin.py PROFILE_DIR [--without shapely] [--run-profile WORLD_DIR]
+
+With ``--run-profile`` it also runs ``sectionwright:profile`` on the demo
+world's sections and DEM and reports the run's summary line and the numpy
+and shapely it ran with.
 """
 
 import importlib.abc
@@ -22,6 +26,39 @@ class Refuse(importlib.abc.MetaPathFinder):
         if fullname.split(".")[0] == self.name:
             raise ImportError(f"No module named '{fullname}'")
         return None
+
+
+def run_profile(world):
+    import numpy
+    import processing
+    import shapely
+    from qgis.core import QgsProcessingFeedback
+
+    class Log(QgsProcessingFeedback):
+        lines = []
+
+        def pushInfo(self, info):  # noqa: N802 (QGIS API)
+            self.lines.append(info)
+
+    feedback = Log()
+    processing.run(
+        "sectionwright:profile",
+        {
+            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
+            "LINE_ID_FIELD": "name",
+            "DEM": f"{world}/dem.tif",
+            "STEP": 50,
+            "OUTPUT": "TEMPORARY_OUTPUT",
+            "OUTPUT_SECTION": "TEMPORARY_OUTPUT",
+        },
+        feedback=feedback,
+    )
+    return {
+        "summary": next((line for line in feedback.lines if line.startswith("Summary:")), None),
+        "numpy": numpy.__version__,
+        "shapely": shapely.__version__,
+        "shapely_file": shapely.__file__,
+    }
 
 
 def main():
@@ -62,6 +99,8 @@ def main():
         "algorithms": sorted(a.id() for a in provider.algorithms()) if provider else [],
         "messages": messages,
     }
+    if "--run-profile" in sys.argv and provider is not None:
+        report.update(run_profile(Path(sys.argv[sys.argv.index("--run-profile") + 1])))
     qgis.utils.unloadPlugin("sectionwright")
     report["unloaded"] = registry.providerById("sectionwright") is None
     print(json.dumps(report))

@@ -1,47 +1,6 @@
 """The plugin zip installs into a throwaway profile and loads as QGIS loads it."""
 
-import json
-import os
-import subprocess
-import sys
-import zipfile
-from pathlib import Path
-
-import pytest
-
-ROOT = Path(__file__).resolve().parents[2]
-sys.path.insert(0, str(ROOT / "scripts"))
-import build_zip  # noqa: E402
-
-
-@pytest.fixture(scope="module")
-def profile(tmp_path_factory):
-    """A throwaway QGIS profile with the zip unpacked into its plugins folder,
-    as "Install from ZIP" does."""
-    profile = tmp_path_factory.mktemp("profile")
-    archive = build_zip.build(profile / "sectionwright.zip")
-    with zipfile.ZipFile(archive) as z:
-        assert {n.split("/")[0] for n in z.namelist()} == {"sectionwright"}
-        z.extractall(profile / "python" / "plugins")
-    return profile
-
-
-def load(profile, *extra):
-    env = dict(os.environ, QT_QPA_PLATFORM="offscreen")
-    done = subprocess.run(
-        [
-            sys.executable,
-            str(Path(__file__).with_name("load_installed_plugin.py")),
-            str(profile),
-            *extra,
-        ],
-        capture_output=True,
-        text=True,
-        env=env,
-        timeout=120,
-    )
-    assert done.returncode == 0, done.stderr
-    return json.loads(done.stdout.strip().splitlines()[-1])
+from installed_plugin import load
 
 
 def test_zip_installs_and_registers_the_provider(profile):

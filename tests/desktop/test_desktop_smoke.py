@@ -1,0 +1,77 @@
+"""Desktop QGIS for real (scripts/desktop_smoke.py): the `qgis` program on
+an X server, a throwaway profile, the plugin installed from the built zip,
+the demo project opened by a start-up script that records every message-bar
+and log message, opens the section viewer and a dialog, and leaves."""
+
+import shutil
+import sys
+from pathlib import Path
+
+import pytest
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[2] / "scripts"))
+import desktop_smoke  # noqa: E402
+
+pytestmark = pytest.mark.skipif(
+    not (shutil.which("qgis") and shutil.which("Xvfb") and shutil.which("import")),
+    reason="needs the qgis program, Xvfb and ImageMagick (.ci/run installs them)",
+)
+CRITICAL = 2
+
+
+@pytest.fixture(scope="module")
+def report(demo_project, tmp_path_factory):
+    work = tmp_path_factory.mktemp("desktop")
+    result = desktop_smoke.run(demo_project / "tarrowgill.qgz", work, work / "screenshots")
+    log = "\n".join(
+        f"[{m['source']} {m['tag'] or '-'} level {m['level']} at {m['seconds']} s] "
+        f"{m['message'].splitlines()[0] if m['message'] else ''}"
+        for m in result["messages"]
+    )
+    print(f"Desktop message log:\n{log}")
+    return result
+
+
+def test_the_plugin_is_active_and_the_map_opens_at_the_sections(report):
+    assert "sectionwright" in report["plugins"]
+    x0, y0, x1, y1 = report["canvas_extent"]
+    # The demo's section lines lie within about 12 km × 8 km.
+    assert 5_000 < x1 - x0 < 30_000 and 3_000 < y1 - y0 < 30_000
+    assert report["canvas_crs"] == "EPSG:32633"
+    drawn = [row for row in report["layers"] if row["in_canvas"]]
+    assert {"Section lines", "Units", "Attitudes (strike and dip)"} <= {r["name"] for r in drawn}
+    assert all(r["crs"] != "Section view" for r in drawn)
+
+
+def test_the_viewer_shows_the_sections(report):
+    assert report["viewer"] == {"sections": ["A", "B", "C", "D"], "shown": "B"}
+
+
+def test_outputs_run_from_the_desktop_load_styled_and_section_views_hidden(report):
+    from sectionwright.algorithms.outputs.output_styles import SECTION_VIEW_GROUP
+
+    added = {row["name"]: row for row in report["run_and_load"]}
+    section = added.pop("Profile (section view)")
+    assert section["group"] == SECTION_VIEW_GROUP and not section["visible"]
+    assert added and all(row["visible"] for row in added.values()), added
+
+
+def test_no_error_from_the_plugin_or_python(report):
+    errors = [
+        m
+        for m in report["messages"]
+        if m["level"] >= CRITICAL and "transform" not in m["message"].lower()
+    ]
+    assert errors == []
+
+
+@pytest.mark.xfail(
+    reason="open: QGIS logs 'No transform available between Section view and …' whenever "
+    "a map in the section view is given a render context (QgsRenderContext::fromMapSettings "
+    "sets its QgsDistanceArea's source CRS, which needs a transform to geographic "
+    "coordinates; an engineering CRS has none): the sheets' scale bars while the project "
+    "loads, and the viewer's canvas",
+    strict=False,
+)
+def test_no_error_message_at_all(report):
+    assert [m["message"] for m in report["messages"] if m["level"] >= CRITICAL] == []
