@@ -28,7 +28,7 @@ from .framework.run_guard import stop_if_cancelled
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
 from .outputs.feature_writer import write_rows
-from .outputs.skipped import skip_features
+from .outputs.skipped import skip_refused
 
 ATTITUDES = "ATTITUDES"
 ANGLE_TOLERANCE = "ANGLE_TOLERANCE"
@@ -198,22 +198,14 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
             ),
             required=(OUTPUT, OUTPUT_DOMAINS),
         )
-        reasons = result["reasons"]
         ledger = RunLedger(feedback)
-        ledger.read = len(reasons)
-        for reason in reasons[reasons != ""]:
-            ledger.skip(reason)
-        bad = np.flatnonzero(reasons != "")
-        skip_features(
+        good = skip_refused(
+            ledger,
             sinks[SKIPPED][0],
             skipped_fields,
-            [rows["geometries"][i] for i in bad],
-            [rows["attributes"][i] for i in bad],
-            result["source_ids"][bad],
-            reasons[bad],
+            result["reasons"],
+            (rows["geometries"], rows["attributes"], result["source_ids"]),
         )
-        good = np.flatnonzero(reasons == "")
-        ledger.written = len(good)
         table = result["table"]
         columns = {
             F.DOMAIN: result["domain"][good],

@@ -16,7 +16,7 @@ from .inputs.section_lines import crs_wkt
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
 from .outputs.feature_writer import write_rows
-from .outputs.skipped import skip_features
+from .outputs.skipped import skip_refused
 
 INPUT = "INPUT"
 OUTPUT = "OUTPUT"
@@ -60,22 +60,15 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
             required=(OUTPUT,),
         )
         ledger = RunLedger(feedback)
-        ledger.read = len(rows)
-        for reason in reasons[reasons != ""]:
-            ledger.skip(reason)
-        bad = np.flatnonzero(reasons != "")
-        skip_features(
+        good = skip_refused(
+            ledger,
             sinks[SKIPPED][0],
             skipped_fields,
-            [rows.geometries[i] for i in bad],
-            [rows.attributes[i] for i in bad],
-            np.asarray(rows.fids)[bad],
-            reasons[bad],
+            reasons,
+            (rows.geometries, rows.attributes, rows.fids),
         )
         feedback.setProgress(75)
         stop_if_cancelled(feedback)
-        good = np.flatnonzero(reasons == "")
-        ledger.written = len(good)
         columns = {
             F.DIP_DIRECTION: dip_direction[good],
             F.DIP: rows.dip[good],

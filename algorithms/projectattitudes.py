@@ -39,7 +39,7 @@ from .outputs.carried_fields import CarriedFields
 from .outputs.feature_writer import line_wkbs, write_rows
 from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
-from .outputs.skipped import skip_features
+from .outputs.skipped import skip_refused
 
 ATTITUDES = "ATTITUDES"
 PROJECTION = "PROJECTION"
@@ -288,20 +288,8 @@ def _output_fields(points, feedback):
 def _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback):
     _, _, skipped_fields = fields
     ledger = RunLedger(feedback)
-    ledger.read = len(rows)
-    refused = np.flatnonzero(record["reason"] != "")
-    for reason in record["reason"][refused]:
-        ledger.skip(reason)
-    skip_features(
-        sinks[SKIPPED][0],
-        skipped_fields,
-        [rows.geometries[i] for i in refused],
-        [rows.attributes[i] for i in refused],
-        np.asarray(rows.fids)[refused],
-        record["reason"][refused],
-    )
-    carried = np.flatnonzero(record["reason"] == "")
-    ledger.written = len(carried)
+    features = (rows.geometries, rows.attributes, rows.fids)
+    carried = skip_refused(ledger, sinks[SKIPPED][0], skipped_fields, record["reason"], features)
     labels = np.array([p.label for p in parts] + [""], dtype=object)[record["line"]]
     stop_if_cancelled(feedback)
     to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
