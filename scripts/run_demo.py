@@ -22,20 +22,26 @@ sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent / "test_data"))
 import headless  # noqa: E402
 import make_demo  # noqa: E402
+import run_parameters as P  # noqa: E402
+
+
+def outputs(out, **layers):
+    """{output parameter: its layer in the GeoPackage ``out``}."""
+    return {parameter: headless.gpkg_layer(out, name) for parameter, name in layers.items()}
 
 
 def run_profile(world, out):
     return headless.run(
         "sectionwright:profile",
         {
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "DEM": f"{world}/dem.tif",
-            "STEP": 10,
+            **P.demo_profile(world),
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT_LINE": headless.gpkg_layer(out, "profile_line"),
-            "OUTPUT_SECTION": headless.gpkg_layer(out, "profile_section"),
-            "SKIPPED": headless.gpkg_layer(out, "profile_skipped"),
+            **outputs(
+                out,
+                OUTPUT_LINE="profile_line",
+                OUTPUT_SECTION="profile_section",
+                SKIPPED="profile_skipped",
+            ),
         },
     )
 
@@ -44,20 +50,16 @@ def run_attitudes(world, out):
     return headless.run(
         "sectionwright:projectattitudes",
         {
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
-            "CONVENTION": 3,
-            "TEXT_FIELD": "attitude",
-            "MAX_DISTANCE": 500,
-            "DEM": f"{world}/dem.tif",
-            "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
-            "UNIT_FIELD": "unit",
+            **P.demo_projectattitudes(world),
+            **P.demo_units(world),
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "attitudes"),
-            "OUTPUT_TICKS": headless.gpkg_layer(out, "attitude_ticks"),
-            "OUTPUT_CONNECTORS": headless.gpkg_layer(out, "attitude_connectors"),
-            "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped"),
+            **outputs(
+                out,
+                OUTPUT="attitudes",
+                OUTPUT_TICKS="attitude_ticks",
+                OUTPUT_CONNECTORS="attitude_connectors",
+                SKIPPED="attitudes_skipped",
+            ),
         },
     )
 
@@ -68,9 +70,12 @@ def run_domains(world, out):
         {
             "ATTITUDES": f"{out}|layername=attitudes",
             "ANGLE_TOLERANCE": 10,
-            "OUTPUT": headless.gpkg_layer(out, "attitude_domains"),
-            "OUTPUT_DOMAINS": headless.gpkg_layer(out, "domains"),
-            "SKIPPED": headless.gpkg_layer(out, "domains_skipped"),
+            **outputs(
+                out,
+                OUTPUT="attitude_domains",
+                OUTPUT_DOMAINS="domains",
+                SKIPPED="domains_skipped",
+            ),
         },
         world / ".headless-qgis",
     )
@@ -80,15 +85,8 @@ def run_trend(world, out):
     return headless.run(
         "sectionwright:structuraltrend",
         {
-            "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
-            "CONVENTION": 3,
-            "TEXT_FIELD": "attitude",
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "MAX_DISTANCE": 500,
-            "OUTPUT": headless.gpkg_layer(out, "trend"),
-            "OUTPUT_LINES": headless.gpkg_layer(out, "trend_lines"),
-            "SKIPPED": headless.gpkg_layer(out, "trend_skipped"),
+            **P.demo_structuraltrend(world),
+            **outputs(out, OUTPUT="trend", OUTPUT_LINES="trend_lines", SKIPPED="trend_skipped"),
         },
         world / ".headless-qgis",
     )
@@ -98,50 +96,32 @@ def run_geology(world, out):
     return headless.run(
         "sectionwright:geologycrossings",
         {
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "DEM": f"{world}/dem.tif",
-            "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
-            "UNIT_FIELD": "unit",
-            "CONTACTS": f"{world}/tarrowgill.gpkg|layername=contacts",
-            "CONTACT_TYPE_FIELD": "type",
+            **P.demo_geologycrossings(world),
             "TRACE_WINDOW": 1000,
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "geology_crossings"),
-            "OUTPUT_INTERVALS": headless.gpkg_layer(out, "geology_strip"),
-            "SKIPPED": headless.gpkg_layer(out, "geology_skipped"),
+            **outputs(
+                out,
+                OUTPUT="geology_crossings",
+                OUTPUT_INTERVALS="geology_strip",
+                SKIPPED="geology_skipped",
+            ),
         },
     )
 
 
 def run_boreholes(world, out):
-    table = f"{world}/tarrowgill.gpkg|layername="
     return headless.run(
         "sectionwright:projectboreholes",
         {
-            "INPUT": table + "sections",
-            "LINE_ID_FIELD": "name",
-            "COLLARS": table + "collars",
-            "HOLE_ID_FIELD": "hole_id",
-            "AZIMUTH_FIELD": "azimuth",
-            "INCLINATION_FIELD": "incl",
-            "DEPTH_FIELD": "depth",
-            "SURVEYS": table + "surveys",
-            "SURVEY_HOLE_FIELD": "hole_id",
-            "SURVEY_DEPTH_FIELD": "depth",
-            "SURVEY_AZIMUTH_FIELD": "azimuth",
-            "SURVEY_INCLINATION_FIELD": "incl",
-            "INTERVALS": table + "intervals",
-            "INTERVAL_HOLE_FIELD": "hole_id",
-            "INTERVAL_FROM_FIELD": "from_m",
-            "INTERVAL_TO_FIELD": "to_m",
-            "INTERVAL_CODE_FIELD": "unit",
-            "MAX_DISTANCE": 600,
+            **P.demo_projectboreholes(world),
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "boreholes"),
-            "OUTPUT_INTERVALS": headless.gpkg_layer(out, "borehole_intervals"),
-            "OUTPUT_TRACES": headless.gpkg_layer(out, "borehole_traces"),
-            "SKIPPED": headless.gpkg_layer(out, "boreholes_skipped"),
+            **outputs(
+                out,
+                OUTPUT="boreholes",
+                OUTPUT_INTERVALS="borehole_intervals",
+                OUTPUT_TRACES="borehole_traces",
+                SKIPPED="boreholes_skipped",
+            ),
         },
     )
 
@@ -164,10 +144,9 @@ def run_fences(world, out):
         headless.run(
             "sectionwright:sectionsin3d",
             {
-                "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-                "LINE_ID_FIELD": "name",
+                **P.demo_lines(world),
                 "SECTION_LAYER": f"{out}|layername={view}",
-                "OUTPUT": headless.gpkg_layer(out, fence),
+                **outputs(out, OUTPUT=fence),
             },
             world / ".headless-qgis",
         )
@@ -187,10 +166,13 @@ def run_formlines(world, out):
             "DEPTH": 1500,
             "SPACING": 50,
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "form_lines"),
-            "OUTPUT_AXES": headless.gpkg_layer(out, "axial_surfaces"),
-            "OUTPUT_THICKNESS": headless.gpkg_layer(out, "unit_thickness"),
-            "SKIPPED": headless.gpkg_layer(out, "form_lines_skipped"),
+            **outputs(
+                out,
+                OUTPUT="form_lines",
+                OUTPUT_AXES="axial_surfaces",
+                OUTPUT_THICKNESS="unit_thickness",
+                SKIPPED="form_lines_skipped",
+            ),
         },
         world / ".headless-qgis",
     )
