@@ -25,104 +25,80 @@ import make_demo  # noqa: E402
 import run_parameters as P  # noqa: E402
 
 
-def outputs(out, **layers):
-    """{output parameter: its layer in the GeoPackage ``out``}."""
-    return {parameter: headless.gpkg_layer(out, name) for parameter, name in layers.items()}
+def run_step(algorithm, parameters, out, work_dir=None, **layers):
+    """``sectionwright:algorithm`` through qgis_process, writing each output
+    of ``layers`` (output parameter = layer name) into the GeoPackage ``out``."""
+    outputs = {parameter: headless.gpkg_layer(out, name) for parameter, name in layers.items()}
+    return headless.run(f"sectionwright:{algorithm}", {**parameters, **outputs}, work_dir)
 
 
 def run_profile(world, out):
-    return headless.run(
-        "sectionwright:profile",
-        {
-            **P.demo_profile(world),
-            "VERTICAL_EXAGGERATION": 2,
-            **outputs(
-                out,
-                OUTPUT_LINE="profile_line",
-                OUTPUT_SECTION="profile_section",
-                SKIPPED="profile_skipped",
-            ),
-        },
+    return run_step(
+        "profile",
+        {**P.demo_profile(world), "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT_LINE="profile_line",
+        OUTPUT_SECTION="profile_section",
+        SKIPPED="profile_skipped",
     )
 
 
 def run_attitudes(world, out):
-    return headless.run(
-        "sectionwright:projectattitudes",
-        {
-            **P.demo_projectattitudes(world),
-            **P.demo_units(world),
-            "VERTICAL_EXAGGERATION": 2,
-            **outputs(
-                out,
-                OUTPUT="attitudes",
-                OUTPUT_TICKS="attitude_ticks",
-                OUTPUT_CONNECTORS="attitude_connectors",
-                SKIPPED="attitudes_skipped",
-            ),
-        },
+    return run_step(
+        "projectattitudes",
+        {**P.demo_projectattitudes(world), **P.demo_units(world), "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT="attitudes",
+        OUTPUT_TICKS="attitude_ticks",
+        OUTPUT_CONNECTORS="attitude_connectors",
+        SKIPPED="attitudes_skipped",
     )
 
 
 def run_domains(world, out):
-    return headless.run(
-        "sectionwright:dipdomains",
-        {
-            "ATTITUDES": f"{out}|layername=attitudes",
-            "ANGLE_TOLERANCE": 10,
-            **outputs(
-                out,
-                OUTPUT="attitude_domains",
-                OUTPUT_DOMAINS="domains",
-                SKIPPED="domains_skipped",
-            ),
-        },
+    return run_step(
+        "dipdomains",
+        {"ATTITUDES": f"{out}|layername=attitudes", "ANGLE_TOLERANCE": 10},
+        out,
         world / ".headless-qgis",
+        OUTPUT="attitude_domains",
+        OUTPUT_DOMAINS="domains",
+        SKIPPED="domains_skipped",
     )
 
 
 def run_trend(world, out):
-    return headless.run(
-        "sectionwright:structuraltrend",
-        {
-            **P.demo_structuraltrend(world),
-            **outputs(out, OUTPUT="trend", OUTPUT_LINES="trend_lines", SKIPPED="trend_skipped"),
-        },
+    return run_step(
+        "structuraltrend",
+        P.demo_structuraltrend(world),
+        out,
         world / ".headless-qgis",
+        OUTPUT="trend",
+        OUTPUT_LINES="trend_lines",
+        SKIPPED="trend_skipped",
     )
 
 
 def run_geology(world, out):
-    return headless.run(
-        "sectionwright:geologycrossings",
-        {
-            **P.demo_geologycrossings(world),
-            "TRACE_WINDOW": 1000,
-            "VERTICAL_EXAGGERATION": 2,
-            **outputs(
-                out,
-                OUTPUT="geology_crossings",
-                OUTPUT_INTERVALS="geology_strip",
-                SKIPPED="geology_skipped",
-            ),
-        },
+    return run_step(
+        "geologycrossings",
+        {**P.demo_geologycrossings(world), "TRACE_WINDOW": 1000, "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT="geology_crossings",
+        OUTPUT_INTERVALS="geology_strip",
+        SKIPPED="geology_skipped",
     )
 
 
 def run_boreholes(world, out):
-    return headless.run(
-        "sectionwright:projectboreholes",
-        {
-            **P.demo_projectboreholes(world),
-            "VERTICAL_EXAGGERATION": 2,
-            **outputs(
-                out,
-                OUTPUT="boreholes",
-                OUTPUT_INTERVALS="borehole_intervals",
-                OUTPUT_TRACES="borehole_traces",
-                SKIPPED="boreholes_skipped",
-            ),
-        },
+    return run_step(
+        "projectboreholes",
+        {**P.demo_projectboreholes(world), "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT="boreholes",
+        OUTPUT_INTERVALS="borehole_intervals",
+        OUTPUT_TRACES="borehole_traces",
+        SKIPPED="boreholes_skipped",
     )
 
 
@@ -141,14 +117,12 @@ FENCES = (
 def run_fences(world, out):
     """sectionsin3d on every section view; one report per fence layer."""
     return [
-        headless.run(
-            "sectionwright:sectionsin3d",
-            {
-                **P.demo_lines(world),
-                "SECTION_LAYER": f"{out}|layername={view}",
-                **outputs(out, OUTPUT=fence),
-            },
+        run_step(
+            "sectionsin3d",
+            {**P.demo_lines(world), "SECTION_LAYER": f"{out}|layername={view}"},
+            out,
             world / ".headless-qgis",
+            OUTPUT=fence,
         )
         for view, fence in FENCES
     ]
@@ -156,8 +130,8 @@ def run_fences(world, out):
 
 def run_formlines(world, out):
     """Needs the profile, attitudes and geology steps' layers in ``out``."""
-    return headless.run(
-        "sectionwright:formlines",
+    return run_step(
+        "formlines",
         {
             "ATTITUDES": f"{out}|layername=attitudes",
             "CROSSINGS": f"{out}|layername=geology_crossings",
@@ -166,15 +140,13 @@ def run_formlines(world, out):
             "DEPTH": 1500,
             "SPACING": 50,
             "VERTICAL_EXAGGERATION": 2,
-            **outputs(
-                out,
-                OUTPUT="form_lines",
-                OUTPUT_AXES="axial_surfaces",
-                OUTPUT_THICKNESS="unit_thickness",
-                SKIPPED="form_lines_skipped",
-            ),
         },
+        out,
         world / ".headless-qgis",
+        OUTPUT="form_lines",
+        OUTPUT_AXES="axial_surfaces",
+        OUTPUT_THICKNESS="unit_thickness",
+        SKIPPED="form_lines_skipped",
     )
 
 
