@@ -134,3 +134,8 @@ def demo_projectboreholes(world):
 
 def demo_structuraltrend(world):
     return {**demo_attitudes(world), **demo_lines(world)}
+
+
+def memory(*outputs):
+    """The outputs named, as temporary layers."""
+    return dict.fromkeys(outputs, "memory:")

@@ -55,6 +55,15 @@ def lines(m):
     return {"INPUT": m.layer("sections"), "LINE_ID_FIELD": "name"}
 
 
+def numeric_attitudes(m):
+    return {
+        "ATTITUDES": m.layer("attitudes"),
+        "CONVENTION": 0,
+        "AZIMUTH_FIELD": "dipdir",
+        "DIP_FIELD": "dip",
+    }
+
+
 def optional_layer(m, parameter, layer, **fields):
     return {parameter: m.layer(layer), **fields} if m.has(layer) else {}
 
@@ -78,10 +87,7 @@ register(
     ("sections", "attitudes"),
     lambda m, out, scratch: {
         **lines(m),
-        "ATTITUDES": m.layer("attitudes"),
-        "CONVENTION": 0,
-        "AZIMUTH_FIELD": "dipdir",
-        "DIP_FIELD": "dip",
+        **numeric_attitudes(m),
         "MAX_DISTANCE": 400.0,
         **({"DEM": m.dem_layer()} if m.dem else {}),
         **optional_layer(m, "UNITS", "units", UNIT_FIELD="unit"),
@@ -192,12 +198,9 @@ register(
     "structuraltrend",
     ("attitudes",),
     lambda m, out, scratch: {
-        "ATTITUDES": m.layer("attitudes"),
-        "CONVENTION": 0,
-        "AZIMUTH_FIELD": "dipdir",
-        "DIP_FIELD": "dip",
+        **numeric_attitudes(m),
         **optional_layer(m, "AREAS", "units", AREA_FIELD="unit"),
-        **({"INPUT": m.layer("sections"), "LINE_ID_FIELD": "name"} if m.has("sections") else {}),
+        **(lines(m) if m.has("sections") else {}),
         "MAX_DISTANCE": 400.0,
         "OUTPUT": out("OUTPUT"),
         "OUTPUT_LINES": out("OUTPUT_LINES"),

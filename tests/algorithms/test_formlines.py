@@ -5,6 +5,7 @@ import demo_world as W
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 import shapely
 from feedback import LogFeedback
 from layers import attributes, is_null, point_layer
@@ -17,39 +18,18 @@ VE = 2.0
 
 
 def _demo_inputs(demo_dir):
-    table = f"{demo_dir}/tarrowgill.gpkg|layername="
-    common = {"INPUT": table + "sections", "LINE_ID_FIELD": "name", "VERTICAL_EXAGGERATION": VE}
+    ve = {"VERTICAL_EXAGGERATION": VE}
     profile = processing.run(
         "sectionwright:profile",
-        dict(
-            common, DEM=f"{demo_dir}/dem.tif", STEP=10, OUTPUT="memory:", OUTPUT_SECTION="memory:"
-        ),
+        {**P.demo_profile(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_SECTION")},
     )
     attitudes = processing.run(
         "sectionwright:projectattitudes",
-        dict(
-            common,
-            ATTITUDES=table + "attitudes",
-            CONVENTION=3,
-            TEXT_FIELD="attitude",
-            MAX_DISTANCE=500,
-            DEM=f"{demo_dir}/dem.tif",
-            OUTPUT="memory:",
-            OUTPUT_TICKS="memory:",
-        ),
+        {**P.demo_projectattitudes(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_TICKS")},
     )
     crossings = processing.run(
         "sectionwright:geologycrossings",
-        dict(
-            common,
-            DEM=f"{demo_dir}/dem.tif",
-            UNITS=table + "units",
-            UNIT_FIELD="unit",
-            CONTACTS=table + "contacts",
-            CONTACT_TYPE_FIELD="type",
-            OUTPUT="memory:",
-            OUTPUT_INTERVALS="memory:",
-        ),
+        {**P.demo_geologycrossings(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_INTERVALS")},
     )
     return {
         "ATTITUDES": attitudes["OUTPUT"],
