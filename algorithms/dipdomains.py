@@ -24,10 +24,11 @@ from .core.attitudes import as_numbers
 from .core.domains import domain_table, representatives, segment, signed_apparent_dip
 from .framework.base import SKIPPED, SectionwrightAlgorithm, sink_results
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
 from .outputs.feature_writer import write_rows
-from .outputs.skipped import skip_features
+from .outputs.skipped import skip_refused
 
 ATTITUDES = "ATTITUDES"
 ANGLE_TOLERANCE = "ANGLE_TOLERANCE"
@@ -92,6 +93,7 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
         min_count = self.parameterAsInt(parameters, MIN_COUNT, context)
         rows = self._read(points, feedback)
         feedback.setProgress(40)
+        stop_if_cancelled(feedback)
 
         labels = np.array(
             [str(v).strip() if v is not None else "" for v in rows[F.SECTION]], dtype=object
@@ -116,9 +118,8 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
             min_count,
             source_ids,
         )
-        if feedback.isCanceled():
-            return {}
         feedback.setProgress(60)
+        stop_if_cancelled(feedback)
         group = np.full(len(domain), -1)
         _, group[good] = np.unique(
             code[good] * (domain.max(initial=0) + 1) + domain[good], return_inverse=True
@@ -164,8 +165,7 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
         for number, feature in enumerate(
             points.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
         ):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             attributes = feature.attributes()
             rows["attributes"].append(attributes)
             rows["geometries"].append(feature.geometry())
@@ -198,22 +198,14 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
             ),
             required=(OUTPUT, OUTPUT_DOMAINS),
         )
-        reasons = result["reasons"]
         ledger = RunLedger(feedback)
-        ledger.read = len(reasons)
-        for reason in reasons[reasons != ""]:
-            ledger.skip(reason)
-        bad = np.flatnonzero(reasons != "")
-        skip_features(
+        good = skip_refused(
+            ledger,
             sinks[SKIPPED][0],
             skipped_fields,
-            [rows["geometries"][i] for i in bad],
-            [rows["attributes"][i] for i in bad],
-            result["source_ids"][bad],
-            reasons[bad],
+            result["reasons"],
+            (rows["geometries"], rows["attributes"], result["source_ids"]),
         )
-        good = np.flatnonzero(reasons == "")
-        ledger.written = len(good)
         table = result["table"]
         columns = {
             F.DOMAIN: result["domain"][good],
@@ -228,6 +220,7 @@ class DipDomainsAlgorithm(SectionwrightAlgorithm):
             carried.columns([rows["attributes"][i] for i in good], columns),
         )
         feedback.setProgress(90)
+        stop_if_cancelled(feedback)
         rep = table["rep"]
         write_rows(
             sinks[OUTPUT_DOMAINS][0],

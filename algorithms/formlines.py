@@ -26,8 +26,10 @@ from .compat.qgis_compat import (
 from .core.bedding import exaggerated, ground_arrays
 from .core.formlines import construct
 from .core.thickness import bed_normals, thickness_changes, unit_thickness
+from .core.wkb import from_wkb
 from .framework.base import SKIPPED, VERTICAL_EXAGGERATION, SectionwrightAlgorithm, sink_results
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .inputs.tables import labels, read_columns
 from .outputs import fields as F
 from .outputs.feature_writer import write_rows
@@ -197,8 +199,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         )
         ledger.read = len(attitudes["fid"]) + len(crossings["fid"])
         for number, (label, data) in enumerate(sorted(sections.items())):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             if self._section(label, data, attitudes, crossings, settings, sinks, feedback):
                 ledger.written += len(data.attitudes) + len(data.contacts)
             else:
@@ -272,7 +273,7 @@ class FormLinesAlgorithm(SectionwrightAlgorithm):
         ):
             if section is None or geometry is None or geometry.isEmpty() or not ve:
                 continue
-            xy = shapely.get_coordinates(shapely.from_wkb(bytes(geometry.asWkb())))
+            xy = shapely.get_coordinates(from_wkb(bytes(geometry.asWkb())))
             x, z = ground_arrays(xy[:, 0], xy[:, 1] / float(ve))
             if len(x) >= 2:
                 grounds[section] = (x, z)

@@ -36,7 +36,9 @@ from .framework.base import (
     sink_results,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
+from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_features, read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
@@ -95,9 +97,9 @@ class GeologySettings:
             id_field=algorithm.label_field(parameters, context, lines),
             dem=algorithm.dem(parameters, context),
             z_factor=number(Z_FACTOR),
-            units=algorithm.parameterAsSource(parameters, UNITS, context),
+            units=algorithm.optional_source(parameters, UNITS, context),
             unit_field=text(UNIT_FIELD),
-            contacts=algorithm.parameterAsSource(parameters, CONTACTS, context),
+            contacts=algorithm.optional_source(parameters, CONTACTS, context),
             contact_type_field=text(CONTACT_TYPE_FIELD),
             window=number(TRACE_WINDOW),
             exaggeration=number(VERTICAL_EXAGGERATION),
@@ -173,11 +175,16 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         with bounded_gdal_cache():
             sampler = DemSampler(settings.dem, 1, settings.z_factor, work_crs)
             step = sampler.cell_size(usable[0].coords[0]) if usable else 1.0
-            intervals = [
-                self._intervals(p.coords, polygons, polygon_units, polygon_tree) for p in usable
-            ]
-            crossings = self._crossings(usable, intervals, contacts, kinds, contact_tree)
+            intervals = []
+            for part in usable:
+                stop_if_cancelled(feedback)
+                intervals.append(
+                    self._intervals(part.coords, polygons, polygon_units, polygon_tree)
+                )
+                feedback.setProgress(10.0 * len(intervals) / len(usable))
+            crossings = self._crossings(usable, intervals, contacts, kinds, contact_tree, feedback)
             sampled = self._sample(usable, intervals, crossings, step, sampler, feedback)
+            stop_if_cancelled(feedback)
             estimates = (
                 self._trace_attitudes(usable, crossings, contacts, settings.window, step, sampler)
                 if settings.window > 0
@@ -200,15 +207,13 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         return self.open_sinks(parameters, context, specs, required=(OUTPUT, OUTPUT_INTERVALS))
 
     def _sample(self, parts, intervals, crossings, step, sampler, feedback):
-        """[(chainage, xy, elevation)] per part, in order; shorter when
-        cancelled."""
+        """[(chainage, xy, elevation)] per part, in order."""
         jobs = self._sample_jobs(parts, intervals, crossings, step)
         sampled = []
         for (chainage, xy), elevation in sample_ahead(jobs, sampler):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             sampled.append((chainage, xy, elevation))
-            feedback.setProgress(70.0 * len(sampled) / max(len(parts), 1))
+            feedback.setProgress(20.0 + 40.0 * len(sampled) / max(len(parts), 1))
         return sampled
 
     @staticmethod
@@ -233,6 +238,14 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
     def _contacts(settings, work_crs, context, feedback):
         if settings.contacts is None:
             return np.empty(0, dtype=object), []
+        require_map_crs(
+            settings.contacts.sourceCrs(), CONTACTS, "the contacts", "the map's contact lines"
+        )
+        kind_field = settings.contact_type_field
+        if kind_field and settings.contacts.fields().lookupField(kind_field) < 0:
+            raise ParameterProblem(
+                CONTACT_TYPE_FIELD, f"the contacts layer has no field {kind_field!r}."
+            )
         contacts, kinds, unusable = read_features(
             settings.contacts, settings.contact_type_field, work_crs, context
         )
@@ -248,9 +261,11 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         return unit_intervals(coords, polygons, polygon_units, tree)
 
     @staticmethod
-    def _crossings(parts, intervals, contacts, kinds, contact_tree):
+    def _crossings(parts, intervals, contacts, kinds, contact_tree, feedback):
         crossings = []
         for index, (part, stretch) in enumerate(zip(parts, intervals)):
+            stop_if_cancelled(feedback)
+            feedback.setProgress(10.0 + 10.0 * index / len(parts))
             for chainage, before, after in zip(*boundary_crossings(stretch)):
                 crossings.append(
                     Crossing(index, float(chainage), UNIT_BOUNDARY, int(before), int(after))
@@ -344,7 +359,8 @@ def _write_sections(sinks, parts, sampled, geology, to_map, exaggeration, feedba
     by_section = {}
     for number, crossing in enumerate(crossings):
         by_section.setdefault(crossing.section, []).append((number, crossing))
-    for index, part in enumerate(parts[: len(sampled)]):
+    for index, part in enumerate(parts):
+        stop_if_cancelled(feedback)
         chainage, _, elevation = sampled[index]
         numbered = by_section.get(index, [])
         _write_crossings(
@@ -363,6 +379,7 @@ def _write_sections(sinks, parts, sampled, geology, to_map, exaggeration, feedba
             f"Section {part.label}: {len(intervals[index].unit)} interval(s), "
             f"{len(numbered)} crossing(s)."
         )
+        feedback.setProgress(70.0 + 30.0 * (index + 1) / len(parts))
     return len(sampled)
 
 

@@ -2,21 +2,21 @@
 
 import numpy as np
 from qgis.core import (
-    QgsProcessingException,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
 )
 
-from .compat.qgis_compat import SOURCE_ANY_VECTOR, SOURCE_POINTS, geometry_kind
+from .compat.qgis_compat import SOURCE_ANY_VECTOR, SOURCE_POINTS
 from .core.orientation import strike_from_dip_direction
 from .framework.base import SKIPPED, SectionwrightAlgorithm, sink_results
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.section_lines import crs_wkt
 from .outputs import fields as F
 from .outputs.carried_fields import CarriedFields
 from .outputs.feature_writer import write_rows
-from .outputs.skipped import skip_features
+from .outputs.skipped import skip_refused
 
 INPUT = "INPUT"
 OUTPUT = "OUTPUT"
@@ -42,14 +42,11 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
 
     def processAlgorithm(self, parameters, context, feedback):
         source = self.source(parameters, INPUT, context)
-        if geometry_kind(source) not in ("point", "none"):
-            raise QgsProcessingException(
-                f"{self.label_of(INPUT)}: give points or a table; a layer of "
-                f"{geometry_kind(source)}s does not hold attitudes."
-            )
         settings = AttitudeSettings(self, parameters, context)
         rows = settings.read(source, feedback, progress_share=50.0)
         dip_direction, reasons = self._grid(settings, source, rows, feedback)
+        feedback.setProgress(50)
+        stop_if_cancelled(feedback)
         output_fields = CarriedFields(source.fields(), F.ORIENTATION)
         skipped_fields = CarriedFields(source.fields(), F.SKIPPED_ROWS)
         crs = source.sourceCrs()
@@ -63,20 +60,15 @@ class NormalizeAttitudesAlgorithm(SectionwrightAlgorithm):
             required=(OUTPUT,),
         )
         ledger = RunLedger(feedback)
-        ledger.read = len(rows)
-        for reason in reasons[reasons != ""]:
-            ledger.skip(reason)
-        bad = np.flatnonzero(reasons != "")
-        skip_features(
+        good = skip_refused(
+            ledger,
             sinks[SKIPPED][0],
             skipped_fields,
-            [rows.geometries[i] for i in bad],
-            [rows.attributes[i] for i in bad],
-            np.asarray(rows.fids)[bad],
-            reasons[bad],
+            reasons,
+            (rows.geometries, rows.attributes, rows.fids),
         )
-        good = np.flatnonzero(reasons == "")
-        ledger.written = len(good)
+        feedback.setProgress(75)
+        stop_if_cancelled(feedback)
         columns = {
             F.DIP_DIRECTION: dip_direction[good],
             F.DIP: rows.dip[good],

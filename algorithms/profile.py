@@ -30,6 +30,7 @@ from .framework.base import (
     sink_results,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
@@ -148,8 +149,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         with bounded_gdal_cache():
             sampled = sample_ahead(self._sample_jobs(parts, step), sampler)
             for index, ((part, chainage, xy), elevation) in enumerate(sampled):
-                if feedback.isCanceled():
-                    break
+                stop_if_cancelled(feedback)
                 ledger.read += 1
                 if elevation is not None and np.isnan(elevation).all():
                     part.reason = "no DEM coverage"

@@ -5,7 +5,6 @@ from dataclasses import dataclass
 
 import numpy as np
 from qgis.core import (
-    QgsProcessingException,
     QgsProcessingParameterEnum,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
@@ -29,8 +28,10 @@ from .framework.base import (
     sink_results,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.dem import DemSampler, bounded_gdal_cache
+from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
@@ -38,7 +39,7 @@ from .outputs.carried_fields import CarriedFields
 from .outputs.feature_writer import line_wkbs, write_rows
 from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
-from .outputs.skipped import skip_features
+from .outputs.skipped import skip_refused
 
 ATTITUDES = "ATTITUDES"
 PROJECTION = "PROJECTION"
@@ -79,10 +80,9 @@ class ProjectAttitudesSettings:
     def read(cls, algorithm, parameters, context):
         number = lambda name: algorithm.parameterAsDouble(parameters, name, context)  # noqa: E731
         points = algorithm.source(parameters, ATTITUDES, context)
-        if not points.sourceCrs().isValid():
-            raise QgsProcessingException(
-                "Attitudes: the attitude layer has no coordinate reference system; set one."
-            )
+        require_map_crs(
+            points.sourceCrs(), ATTITUDES, "the attitudes", "the attitude points on the map"
+        )
         lines = algorithm.source(parameters, INPUT, context)
         return cls(
             lines=lines,
@@ -100,7 +100,7 @@ class ProjectAttitudesSettings:
             ),
             plunge_trend=number(PLUNGE_TREND),
             dem=algorithm.dem(parameters, context, required=False),
-            units=algorithm.parameterAsSource(parameters, UNITS, context),
+            units=algorithm.optional_source(parameters, UNITS, context),
             unit_field=algorithm.parameterAsString(parameters, UNIT_FIELD, context),
             tick_length=number(TICK_LENGTH),
         )
@@ -111,7 +111,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
     DISPLAY_NAME = "Project attitudes onto sections"
     OUTPUT_SCHEMAS = {
         OUTPUT: F.CARRIED_ATTITUDES,
-        OUTPUT_TICKS: F.CARRIED_ATTITUDES,
+        OUTPUT_TICKS: F.CARRIED_TICKS,
         OUTPUT_CONNECTORS: F.CARRIED_ATTITUDES,
         SKIPPED: F.SKIPPED_ROWS,
     }
@@ -212,6 +212,7 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         parts = _usable_parts(settings, work_crs, context, feedback)
         rows = settings.attitudes.read(settings.points, feedback)
         feedback.setProgress(30)
+        stop_if_cancelled(feedback)
         xy, record = self._carry(settings, parts, rows, work_crs, context, feedback)
         feedback.setProgress(60)
         fields = _output_fields(settings.points, feedback)
@@ -264,11 +265,11 @@ class ProjectAttitudesAlgorithm(SectionwrightAlgorithm):
         return xy, record
 
     def _sinks(self, parameters, context, settings, fields):
-        carried, skipped = fields
+        carried, ticks, skipped = fields
         points, lines_crs = settings.points, settings.lines.sourceCrs()
         specs = (
             (OUTPUT, carried.qgs_fields(), POINT_Z, lines_crs),
-            (OUTPUT_TICKS, carried.qgs_fields(), LINE_STRING, section_crs()),
+            (OUTPUT_TICKS, ticks.qgs_fields(), LINE_STRING, section_crs()),
             (OUTPUT_CONNECTORS, carried.qgs_fields(), LINE_STRING, lines_crs),
             (SKIPPED, skipped.qgs_fields(), points.wkbType(), points.sourceCrs()),
         )
@@ -280,47 +281,38 @@ def _output_fields(points, feedback):
     attitude layer's own."""
     carried = CarriedFields(points.fields(), F.CARRIED_ATTITUDES)
     carried.log_replaced(feedback, "the attitude layer")
-    return carried, CarriedFields(points.fields(), F.SKIPPED_ROWS)
+    ticks = CarriedFields(points.fields(), F.CARRIED_TICKS)
+    return carried, ticks, CarriedFields(points.fields(), F.SKIPPED_ROWS)
 
 
 def _write(sinks, fields, settings, parts, rows, record, xy, work_crs, feedback):
-    carried_fields, skipped_fields = fields
+    _, _, skipped_fields = fields
     ledger = RunLedger(feedback)
-    ledger.read = len(rows)
-    refused = np.flatnonzero(record["reason"] != "")
-    for reason in record["reason"][refused]:
-        ledger.skip(reason)
-    skip_features(
-        sinks[SKIPPED][0],
-        skipped_fields,
-        [rows.geometries[i] for i in refused],
-        [rows.attributes[i] for i in refused],
-        np.asarray(rows.fids)[refused],
-        record["reason"][refused],
-    )
-    carried = np.flatnonzero(record["reason"] == "")
-    ledger.written = len(carried)
+    features = (rows.geometries, rows.attributes, rows.fids)
+    carried = skip_refused(ledger, sinks[SKIPPED][0], skipped_fields, record["reason"], features)
     labels = np.array([p.label for p in parts] + [""], dtype=object)[record["line"]]
-    if not feedback.isCanceled():
-        to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
-        ticks = tick_segments(
-            record["chainage"],
-            record["elev"],
-            settings.carry.exaggeration,
-            record["plot_dip"],
-            record["sense"],
-            _tick_lengths(settings.tick_length, parts)[record["line"]],
-        )
-        geometry = (xy, ticks, to_map)
-        _write_carried(sinks, carried_fields, rows, record, labels, carried, geometry, feedback)
+    stop_if_cancelled(feedback)
+    to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
+    ticks = tick_segments(
+        record["chainage"],
+        record["elev"],
+        settings.carry.exaggeration,
+        record["plot_dip"],
+        record["sense"],
+        _tick_lengths(settings.tick_length, parts)[record["line"]],
+    )
+    geometry = (xy, ticks, to_map)
+    _write_carried(sinks, fields, (rows, record, labels, carried), geometry, settings, feedback)
     _log_sections(feedback, parts, labels[carried], record["flags"][carried])
     ledger.close()
 
 
-def _write_carried(sinks, carried_fields, rows, record, labels, carried, geometry, feedback):
-    """The three outputs of the carried attitudes, sharing their fields;
-    ``geometry`` is (working-CRS source positions, tick segments, the
-    transformation to the lines' CRS)."""
+def _write_carried(sinks, fields, carried_rows, geometry, settings, feedback):
+    """The three outputs of the carried attitudes, sharing their fields (the
+    ticks with the exaggeration besides); ``geometry`` is (working-CRS source
+    positions, tick segments, the transformation to the lines' CRS)."""
+    carried_fields, tick_fields, _ = fields
+    rows, record, labels, carried = carried_rows
     xy, ticks, to_map = geometry
     # The core's record is keyed by the output's field names.
     computed = {name: record[name][carried] for name in F.CARRIED_ATTITUDES.names if name in record}
@@ -329,14 +321,26 @@ def _write_carried(sinks, carried_fields, rows, record, labels, carried, geometr
     fields = carried_fields.qgs_fields()
     landing = np.column_stack(to_map(*record["landing_xy"][carried].T))
     elevation = record["elev"][carried]
-    drawn = np.flatnonzero(~np.isnan(elevation))
-    also = [(sinks[OUTPUT_TICKS][0], line_wkbs(ticks[carried][drawn]), drawn)]
+    also = []
     if sinks[OUTPUT_CONNECTORS][0] is not None:
         source = np.column_stack(to_map(*xy[carried].T))
-        connectors = line_wkbs(np.stack((source, landing), axis=1))
-        also.append((sinks[OUTPUT_CONNECTORS][0], connectors, np.arange(len(carried))))
+        # A point already on its line travels nowhere: a line of no length is no geometry.
+        moved = np.flatnonzero(np.any(source != landing, axis=1))
+        connectors = line_wkbs(np.stack((source[moved], landing[moved]), axis=1))
+        also.append((sinks[OUTPUT_CONNECTORS][0], connectors, moved))
     points = points_z(*landing.T, elevation)
     write_rows(sinks[OUTPUT][0], fields, points, columns, feedback, also)
+    stop_if_cancelled(feedback)
+    drawn = np.flatnonzero(~np.isnan(elevation))
+    tick_columns = {name: [values[i] for i in drawn] for name, values in columns.items()}
+    tick_columns[F.EXAGGERATION] = [settings.carry.exaggeration] * len(drawn)
+    write_rows(
+        sinks[OUTPUT_TICKS][0],
+        tick_fields.qgs_fields(),
+        line_wkbs(ticks[carried][drawn]),
+        tick_columns,
+        feedback,
+    )
 
 
 def _usable_parts(settings, work_crs, context, feedback):
@@ -346,7 +350,7 @@ def _usable_parts(settings, work_crs, context, feedback):
             feedback.pushInfo(f"Section line {part.label} ignored: {part.reason}.")
     usable = [p for p in parts if p.coords is not None]
     if not usable:
-        raise QgsProcessingException("INPUT: none of the section lines can be used.")
+        raise ParameterProblem(INPUT, "none of the section lines can be used (see the log).")
     return usable
 
 

@@ -6,7 +6,6 @@ import numpy as np
 import shapely
 from qgis.core import (
     QgsCoordinateReferenceSystem,
-    QgsProcessingException,
     QgsProcessingParameterFeatureSink,
     QgsProcessingParameterFeatureSource,
     QgsProcessingParameterField,
@@ -41,7 +40,9 @@ from .framework.base import (
     sink_results,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import ParameterProblem, stop_if_cancelled
 from .inputs.dem import DemSampler, bounded_gdal_cache
+from .inputs.map_crs import require_map_crs
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .inputs.tables import labels, lookup, read_columns
 from .outputs import fields as F
@@ -127,11 +128,12 @@ class BoreholeSettings:
 
         lines = algorithm.source(parameters, INPUT, context)
         collars = table(COLLARS, COLLAR_FIELDS, algorithm.source(parameters, COLLARS, context))
+        require_map_crs(
+            collars.source.sourceCrs(), COLLARS, "the collars", "the collar points on the map"
+        )
         for name in (HOLE_ID_FIELD, DEPTH_FIELD):
             if not collars.fields[COLLAR_FIELDS[name]]:
-                raise QgsProcessingException(
-                    f"{algorithm.label_of(name)}: choose the collar layer's field."
-                )
+                raise ParameterProblem(name, "choose the field of the collar layer.")
         settings = cls(
             lines=lines,
             id_field=algorithm.label_field(parameters, context, lines),
@@ -150,9 +152,8 @@ class BoreholeSettings:
         ):
             missing = [p for p, key in mapping.items() if not given.fields[key] and key != "code"]
             if given.source is not None and missing:
-                raise QgsProcessingException(
-                    f"{algorithm.label_of(missing[0])}: choose the "
-                    f"{given.name.lower()} table's field."
+                raise ParameterProblem(
+                    missing[0], f"choose the field of the {given.name.lower()} table."
                 )
         return settings
 
@@ -251,26 +252,37 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
             if p.coords is not None
         ]
         if not parts:
-            raise QgsProcessingException("Section lines: none of the section lines can be used.")
+            raise ParameterProblem(INPUT, "none of the section lines can be used (see the log).")
         network = SectionNetwork([p.coords for p in parts], 2 * max(settings.max_distance, 1e-9))
         skipped = []  # (table, hole, fid, depth, reason)
+        feedback.setProgress(5)
         holes = _read_collars(settings, work_crs, network, skipped)
+        feedback.setProgress(15)
+        stop_if_cancelled(feedback)
         surveys = _read_table(settings.surveys, holes)
+        feedback.setProgress(25)
+        stop_if_cancelled(feedback)
         intervals = _read_table(settings.intervals, holes)
+        feedback.setProgress(35)
+        stop_if_cancelled(feedback)
         stations = survey_stations(holes, surveys, skipped)
         valid_intervals = kept_intervals(holes, intervals, skipped)
-        feedback.setProgress(40)
+        feedback.setProgress(45)
+        stop_if_cancelled(feedback)
 
         drawn = np.flatnonzero(holes["reason"] == "")
         samples = drawn_samples(holes, stations, valid_intervals, drawn, DRAW_STEP)
+        feedback.setProgress(60)
+        stop_if_cancelled(feedback)
         sinks = self._sinks(parameters, context, settings.lines)
-        if not feedback.isCanceled():
-            to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
-            labels_of = np.array([p.label for p in parts], dtype=object)
-            ranges = _write_holes(
-                sinks, network, holes, samples, labels_of, to_map, valid_intervals, settings
-            )
-            _warn_wandering(holes, labels_of, *ranges, settings.max_distance, feedback)
+        to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
+        labels_of = np.array([p.label for p in parts], dtype=object)
+        ranges = _write_holes(
+            sinks, network, holes, samples, labels_of, to_map, valid_intervals, settings, feedback
+        )
+        _warn_wandering(holes, labels_of, *ranges, settings.max_distance, feedback)
+        feedback.setProgress(90)
+        stop_if_cancelled(feedback)
         self._account(sinks, skipped, holes, surveys, intervals, valid_intervals, feedback)
         feedback.setProgress(100)
         return sink_results(sinks)
@@ -315,9 +327,16 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
 # Reading ------------------------------------------------------------
 
 
+def _parameters_of(mapping):
+    """{column: the parameter choosing its field} of a {parameter: column} mapping."""
+    return {key: name for name, key in mapping.items()}
+
+
 def _read_collars(settings, work_crs, network, skipped):
     collars, names = settings.collars.source, settings.collars.fields
-    values, fids, geometries = read_columns(collars, names, "collar", with_geometry=True)
+    values, fids, geometries = read_columns(
+        collars, names, "collar", True, _parameters_of(COLLAR_FIELDS)
+    )
     ids = labels(values["hole"])
     depth, depth_why = as_numbers(values["depth"], "depth")
     inclination, incl_why = (
@@ -381,7 +400,10 @@ def _read_table(table, holes):
     if table.source is None:
         empty = {key: [] for key in table.fields}
         return dict(empty, fid=[], collar=np.empty(0, dtype=int), used=np.empty(0, bool))
-    values, fids, _ = read_columns(table.source, table.fields, table.name.lower())
+    mapping = SURVEY_FIELDS if table.name == SURVEYS else INTERVAL_FIELDS
+    values, fids, _ = read_columns(
+        table.source, table.fields, table.name.lower(), False, _parameters_of(mapping)
+    )
     values["hole"] = labels(values["hole"])
     values["fid"] = fids
     values["collar"] = lookup(values["hole"], holes["index"])
@@ -389,7 +411,7 @@ def _read_table(table, holes):
     return values
 
 
-def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, settings):
+def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, settings, feedback):
     """The holes (and their traces and intervals) drawn; returns each drawn
     hole's collar index and offset range."""
     hole = samples["hole"]
@@ -397,6 +419,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
         return np.empty(0, dtype=int), np.empty(0), np.empty(0)
     exaggeration = settings.exaggeration
     chainage, offset = network.locate(holes["line"][hole], samples["xyz"][:, :2], extend=True)
+    stop_if_cancelled(feedback)
     view = np.column_stack((chainage, samples["xyz"][:, 2] * exaggeration))
     group = np.cumsum(np.r_[True, hole[1:] != hole[:-1]]) - 1
     drawn = hole[np.flatnonzero(np.r_[True, hole[1:] != hole[:-1]])]
@@ -415,6 +438,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
         F.BOREHOLES.qgs_fields(),
         shapely.linestrings(view, indices=group),
         columns,
+        feedback,
     )
     if sinks[OUTPUT_TRACES][0] is not None:
         map_x, map_y = to_map(samples["xyz"][:, 0], samples["xyz"][:, 1])
@@ -424,6 +448,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
             F.BOREHOLE_TRACES.qgs_fields(),
             shapely.linestrings(trace, indices=group),
             columns,
+            feedback,
         )
     if sinks[OUTPUT_INTERVALS][0] is not None and len(intervals["hole"]):
         _write_intervals(
@@ -435,6 +460,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
             offset,
             labels_of,
             exaggeration,
+            feedback,
         )
     return drawn, low, high
 
@@ -450,7 +476,9 @@ def _warn_wandering(holes, labels_of, drawn, low, high, max_distance, feedback):
             )
 
 
-def _write_intervals(sink, holes, samples, intervals, view, offset, labels_of, exaggeration):
+def _write_intervals(
+    sink, holes, samples, intervals, view, offset, labels_of, exaggeration, feedback
+):
     kept, rows, piece = interval_runs(
         samples["hole"], samples["md"], intervals["hole"], intervals["from"], intervals["to"]
     )
@@ -467,7 +495,7 @@ def _write_intervals(sink, holes, samples, intervals, view, offset, labels_of, e
         F.EXAGGERATION: np.full(len(kept), exaggeration),
     }
     lines = shapely.linestrings(view[rows], indices=piece)
-    write_rows(sink, F.BOREHOLE_INTERVALS.qgs_fields(), lines, columns)
+    write_rows(sink, F.BOREHOLE_INTERVALS.qgs_fields(), lines, columns, feedback)
 
 
 def _point(geometry):

@@ -37,6 +37,7 @@ from .compat.qgis_compat import (
 from .core.sheet_scale import format_scale
 from .framework.base import INPUT, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .inputs.section_lines import read_section_parts, working_crs
 from .inputs.section_views import section_view_layers, sheet_inputs
 from .outputs import fields as F
@@ -346,8 +347,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         """What each page shows; parts that get no page go to SKIPPED."""
         sections = []
         for part in parts:
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             ledger.read += 1
             section = builder.section(part, settings.exaggeration)
             if section is None:
@@ -373,8 +373,7 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
             pages.append("overview")
             layer_sets.append(("Overview", layers))
         for section in sections:
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             subject = (
                 f"Section {section.label}–{section.label}′ · {section.start_name} "
                 f"{section.start_azimuth:03.0f}° to {section.end_name} {section.end_azimuth:03.0f}°"

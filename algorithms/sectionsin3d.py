@@ -3,7 +3,6 @@
 from collections import defaultdict
 
 import numpy as np
-import shapely
 from qgis.core import (
     QgsCoordinateTransform,
     QgsFeature,
@@ -17,8 +16,10 @@ from qgis.core import (
 from .compat.null import plain
 from .compat.qgis_compat import FAST_INSERT, NO_GEOMETRY, SOURCE_ANY_GEOMETRY
 from .core.section_to_map import place_on_map
+from .core.wkb import from_wkb, to_wkb
 from .framework.base import INPUT, LINE_ID_FIELD, SKIPPED, SectionwrightAlgorithm
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .inputs.section_lines import read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.schema import Schema
@@ -96,8 +97,7 @@ class SectionsIn3dAlgorithm(SectionwrightAlgorithm):
         groups = defaultdict(list)
         total = max(view.featureCount(), 1)
         for feature in view.getFeatures():
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             ledger.read += 1
             label, exaggeration = _section_and_exaggeration(feature)
             part = by_label.get(label)
@@ -115,11 +115,10 @@ class SectionsIn3dAlgorithm(SectionwrightAlgorithm):
 
         done = 0
         for (label, exaggeration), features in groups.items():
-            if feedback.isCanceled():
-                break
-            section_view = shapely.from_wkb([bytes(f.geometry().asWkb()) for f in features])
+            stop_if_cancelled(feedback)
+            section_view = from_wkb([bytes(f.geometry().asWkb()) for f in features])
             placed = place_on_map(by_label[label].coords, section_view, exaggeration)
-            wkbs = shapely.to_wkb(placed, output_dimension=3)
+            wkbs = to_wkb(placed)
             for feature, wkb in zip(features, wkbs):
                 if wkb is None:
                     skip(feature, label, NO_GEOMETRY_REASON)

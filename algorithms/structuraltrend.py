@@ -36,6 +36,7 @@ from .core.section_choice import (
     suggested_lines,
 )
 from .core.units import polygon_index_at
+from .core.wkb import from_wkb
 from .framework.base import (
     INPUT,
     LINE_ID_FIELD,
@@ -45,6 +46,7 @@ from .framework.base import (
     sink_results,
 )
 from .framework.ledger import RunLedger
+from .framework.run_guard import stop_if_cancelled
 from .inputs.attitudes import AttitudeSettings, add_attitude_parameters
 from .inputs.section_lines import crs_wkt, read_section_parts, section_label, working_crs
 from .outputs import fields as F
@@ -130,7 +132,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
                 "Attitudes: the attitude layer has no coordinate reference system; set one."
             )
         lines = self.parameterAsSource(parameters, INPUT, context)
-        areas_source = self.parameterAsSource(parameters, AREAS, context)
+        areas_source = self.optional_source(parameters, AREAS, context)
         settings = AttitudeSettings(self, parameters, context)
         if lines is not None:
             work_crs, out_crs = working_crs(lines, context, feedback), lines.sourceCrs()
@@ -167,8 +169,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         ledger.read += len(rows)
         ledger.written += int(np.sum(reasons == ""))
         feedback.setProgress(50)
-        if feedback.isCanceled():
-            return {}
+        stop_if_cancelled(feedback)
 
         to_out = transformer(work_wkt, crs_wkt(out_crs))
         sinks = self._sinks(parameters, context, out_crs)
@@ -180,6 +181,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         for k in np.flatnonzero(too_few) if areas is not None else []:
             skipped_rows.append(("areas", None, f"{TOO_FEW}: {labels[k]}"))
         feedback.setProgress(70)
+        stop_if_cancelled(feedback)
 
         if lines is not None:
             self._check_lines(
@@ -202,6 +204,9 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         without AREAS; unusable ones are added to ``skipped_rows``."""
         if source is None:
             return None
+        if source.featureCount() == 0:
+            feedback.pushInfo("Areas: the layer is empty; one result for the whole layer.")
+            return None
         field = self.parameterAsString(parameters, AREA_FIELD, context)
         if field and source.fields().lookupField(field) < 0:
             raise QgsProcessingException(
@@ -212,8 +217,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
         )
         labels, wkbs = [], []
         for feature in source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             geometry = feature.geometry()
             try:
                 if geometry is None or geometry.isNull() or geometry.isEmpty():
@@ -226,7 +230,7 @@ class StructuralTrendAlgorithm(SectionwrightAlgorithm):
             wkbs.append(bytes(geometry.asWkb()))
         if not labels:
             raise QgsProcessingException("Areas: none of the area polygons can be used.")
-        polygons = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
+        polygons = shapely.force_2d(from_wkb(np.array(wkbs, dtype=object)))
         invalid = ~shapely.is_valid(polygons)
         polygons[invalid] = shapely.make_valid(polygons[invalid])
         return labels, polygons

@@ -18,6 +18,9 @@ sys.path.insert(0, str(HERE))
 import bench_data  # noqa: E402
 import bench_profile  # noqa: E402
 
+sys.path.insert(0, str(HERE.parent / "test_data"))
+import run_parameters as P  # noqa: E402
+
 
 def tables(holes, seed=5):
     from qgis.core import QgsFeature, QgsGeometry, QgsPoint, QgsVectorLayer
@@ -93,27 +96,10 @@ def main():
             result = processing.run(
                 "sectionwright:projectboreholes",
                 {
-                    "INPUT": lines,
-                    "LINE_ID_FIELD": "name",
-                    "COLLARS": collars,
-                    "HOLE_ID_FIELD": "hole",
-                    "AZIMUTH_FIELD": "az",
-                    "INCLINATION_FIELD": "incl",
-                    "DEPTH_FIELD": "depth",
-                    "SURVEYS": surveys,
-                    "SURVEY_HOLE_FIELD": "hole",
-                    "SURVEY_DEPTH_FIELD": "depth",
-                    "SURVEY_AZIMUTH_FIELD": "az",
-                    "SURVEY_INCLINATION_FIELD": "incl",
-                    "INTERVALS": intervals,
-                    "INTERVAL_HOLE_FIELD": "hole",
-                    "INTERVAL_FROM_FIELD": "from",
-                    "INTERVAL_TO_FIELD": "to",
-                    "INTERVAL_CODE_FIELD": "code",
+                    **P.lines(lines),
+                    **P.boreholes(collars, surveys, intervals),
                     "MAX_DISTANCE": 250,
-                    "OUTPUT": "memory:",
-                    "OUTPUT_INTERVALS": "memory:",
-                    "OUTPUT_TRACES": "memory:",
+                    **P.memory("OUTPUT", "OUTPUT_INTERVALS", "OUTPUT_TRACES"),
                 },
             )
             seconds = time.perf_counter() - started

@@ -22,6 +22,9 @@ sys.path.insert(0, str(HERE))
 import bench_data  # noqa: E402
 import bench_profile  # noqa: E402
 
+sys.path.insert(0, str(HERE.parent / "test_data"))
+import run_parameters as P  # noqa: E402
+
 
 def memory_layer(kind, geometries, fields, rows):
     from qgis.core import QgsFeature, QgsVectorLayer
@@ -81,15 +84,10 @@ def main():
             result = processing.run(
                 "sectionwright:geologycrossings",
                 {
-                    "INPUT": lines,
-                    "LINE_ID_FIELD": "name",
+                    **P.lines(lines),
                     "DEM": dem,
-                    "UNITS": units,
-                    "UNIT_FIELD": "unit",
-                    "CONTACTS": contacts,
-                    "CONTACT_TYPE_FIELD": "type",
-                    "OUTPUT": "memory:",
-                    "OUTPUT_INTERVALS": "memory:",
+                    **P.geology(units, contacts),
+                    **P.memory("OUTPUT", "OUTPUT_INTERVALS"),
                 },
             )
             seconds = time.perf_counter() - started

@@ -156,12 +156,13 @@ def touched_tiles(lines, dem):
 
     from sectionwright.algorithms.core.profile import profile_samples
     from sectionwright.algorithms.core.raster_sampling import centre_index
+    from sectionwright.algorithms.core.wkb import from_wkb
 
     layer = QgsVectorLayer(lines)
     inverse = gdal.InvGeoTransform(gdal.Open(dem).GetGeoTransform())
     keys = set()
     for feature in layer.getFeatures():
-        coords = shapely.get_coordinates(shapely.from_wkb(bytes(feature.geometry().asWkb())))
+        coords = shapely.get_coordinates(from_wkb(bytes(feature.geometry().asWkb())))
         _, xy = profile_samples(coords, STEP)
         u, v = centre_index(inverse, xy[:, 0], xy[:, 1])
         for du in (0, 1):
@@ -179,12 +180,11 @@ def run_sampling_core(lines, dem):
     from qgis.core import QgsCoordinateReferenceSystem, QgsRasterLayer, QgsVectorLayer
 
     from sectionwright.algorithms.core.profile import profile_samples
+    from sectionwright.algorithms.core.wkb import from_wkb
     from sectionwright.algorithms.inputs.dem import DemSampler, sample_ahead
 
     positions = [
-        profile_samples(
-            shapely.get_coordinates(shapely.from_wkb(bytes(f.geometry().asWkb()))), STEP
-        )[1]
+        profile_samples(shapely.get_coordinates(from_wkb(bytes(f.geometry().asWkb()))), STEP)[1]
         for f in QgsVectorLayer(lines).getFeatures()
     ]
     started = time.perf_counter()

@@ -151,7 +151,9 @@ def set_attribute_each(sink, fields, columns, xyz):
 def wkb_each(sink, fields, columns, xyz):
     from qgis.core import QgsFeature, QgsGeometry
 
-    wkbs = shapely.to_wkb(shapely.points(xyz), output_dimension=3).tolist()
+    from sectionwright.algorithms.core.wkb import to_wkb
+
+    wkbs = to_wkb(shapely.points(xyz)).tolist()
     features = []
     for row, wkb in zip(python_rows(columns), wkbs):
         geometry = QgsGeometry()

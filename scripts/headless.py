@@ -5,7 +5,9 @@ fails; the binary ``qgis_process.bin`` beside it works. It finds the plugin
 through ``QGIS_PLUGINPATH`` (a folder holding ``sectionwright/``, here a
 link to this checkout), loads it when enabled in the settings of the
 profile that ``QGIS_CUSTOM_CONFIG_PATH`` names (a throwaway one), and runs
-the system Python, so the venv's packages (shapely 2) go on ``PYTHONPATH``.
+the system Python, so the venv's packages (shapely 2) go on ``PYTHONPATH``,
+after whatever ``PYTHONPATH`` the caller set (the newest-shapely leg of
+scripts/test_releases.sh puts its shapely there).
 """
 
 import json
@@ -13,6 +15,7 @@ import os
 import shutil
 import subprocess
 import sysconfig
+import tempfile
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -48,15 +51,19 @@ def environment(plugins, profile):
         QGIS_CUSTOM_CONFIG_PATH=str(profile),
         QT_QPA_PLATFORM="offscreen",
         PROJ_DATA=env.get("PROJ_DATA", "/usr/share/proj"),
-        PYTHONPATH=os.pathsep.join(filter(None, [site_packages, env.get("PYTHONPATH")])),
+        PYTHONPATH=os.pathsep.join(filter(None, [env.get("PYTHONPATH"), site_packages])),
     )
     return env
 
 
-def run(algorithm, parameters, work_dir, timeout=600):
+def run(algorithm, parameters, work_dir=None, timeout=600):
     """Runs ``algorithm`` with ``parameters`` (name → value); returns the
     runner's JSON report (``results``, ``log`` …). Raises on failure with the
-    runner's own message."""
+    runner's own message. The plugin link and the profile go into
+    ``work_dir``, by default a temporary folder removed afterwards."""
+    if work_dir is None:
+        with tempfile.TemporaryDirectory(prefix="sectionwright-headless-") as scratch:
+            return run(algorithm, parameters, scratch, timeout)
     plugins, profile = prepare(work_dir)
     arguments = [f"{name}={value}" for name, value in parameters.items()]
     done = subprocess.run(

@@ -22,131 +22,83 @@ sys.path.insert(0, str(HERE))
 sys.path.insert(0, str(HERE.parent / "test_data"))
 import headless  # noqa: E402
 import make_demo  # noqa: E402
+import run_parameters as P  # noqa: E402
+
+
+def run_step(algorithm, parameters, out, work_dir=None, **layers):
+    """``sectionwright:algorithm`` through qgis_process, writing each output
+    of ``layers`` (output parameter = layer name) into the GeoPackage ``out``."""
+    outputs = {parameter: headless.gpkg_layer(out, name) for parameter, name in layers.items()}
+    return headless.run(f"sectionwright:{algorithm}", {**parameters, **outputs}, work_dir)
 
 
 def run_profile(world, out):
-    return headless.run(
-        "sectionwright:profile",
-        {
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "DEM": f"{world}/dem.tif",
-            "STEP": 10,
-            "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT_LINE": headless.gpkg_layer(out, "profile_line"),
-            "OUTPUT_SECTION": headless.gpkg_layer(out, "profile_section"),
-            "SKIPPED": headless.gpkg_layer(out, "profile_skipped"),
-        },
-        world / ".headless-qgis",
+    return run_step(
+        "profile",
+        {**P.demo_profile(world), "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT_LINE="profile_line",
+        OUTPUT_SECTION="profile_section",
+        SKIPPED="profile_skipped",
     )
 
 
 def run_attitudes(world, out):
-    return headless.run(
-        "sectionwright:projectattitudes",
-        {
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
-            "CONVENTION": 3,
-            "TEXT_FIELD": "attitude",
-            "MAX_DISTANCE": 500,
-            "DEM": f"{world}/dem.tif",
-            "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
-            "UNIT_FIELD": "unit",
-            "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "attitudes"),
-            "OUTPUT_TICKS": headless.gpkg_layer(out, "attitude_ticks"),
-            "OUTPUT_CONNECTORS": headless.gpkg_layer(out, "attitude_connectors"),
-            "SKIPPED": headless.gpkg_layer(out, "attitudes_skipped"),
-        },
-        world / ".headless-qgis",
+    return run_step(
+        "projectattitudes",
+        {**P.demo_projectattitudes(world), **P.demo_units(world), "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT="attitudes",
+        OUTPUT_TICKS="attitude_ticks",
+        OUTPUT_CONNECTORS="attitude_connectors",
+        SKIPPED="attitudes_skipped",
     )
 
 
 def run_domains(world, out):
-    return headless.run(
-        "sectionwright:dipdomains",
-        {
-            "ATTITUDES": f"{out}|layername=attitudes",
-            "ANGLE_TOLERANCE": 10,
-            "OUTPUT": headless.gpkg_layer(out, "attitude_domains"),
-            "OUTPUT_DOMAINS": headless.gpkg_layer(out, "domains"),
-            "SKIPPED": headless.gpkg_layer(out, "domains_skipped"),
-        },
+    return run_step(
+        "dipdomains",
+        {"ATTITUDES": f"{out}|layername=attitudes", "ANGLE_TOLERANCE": 10},
+        out,
         world / ".headless-qgis",
+        OUTPUT="attitude_domains",
+        OUTPUT_DOMAINS="domains",
+        SKIPPED="domains_skipped",
     )
 
 
 def run_trend(world, out):
-    return headless.run(
-        "sectionwright:structuraltrend",
-        {
-            "ATTITUDES": f"{world}/tarrowgill.gpkg|layername=attitudes",
-            "CONVENTION": 3,
-            "TEXT_FIELD": "attitude",
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "MAX_DISTANCE": 500,
-            "OUTPUT": headless.gpkg_layer(out, "trend"),
-            "OUTPUT_LINES": headless.gpkg_layer(out, "trend_lines"),
-            "SKIPPED": headless.gpkg_layer(out, "trend_skipped"),
-        },
+    return run_step(
+        "structuraltrend",
+        P.demo_structuraltrend(world),
+        out,
         world / ".headless-qgis",
+        OUTPUT="trend",
+        OUTPUT_LINES="trend_lines",
+        SKIPPED="trend_skipped",
     )
 
 
 def run_geology(world, out):
-    return headless.run(
-        "sectionwright:geologycrossings",
-        {
-            "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "DEM": f"{world}/dem.tif",
-            "UNITS": f"{world}/tarrowgill.gpkg|layername=units",
-            "UNIT_FIELD": "unit",
-            "CONTACTS": f"{world}/tarrowgill.gpkg|layername=contacts",
-            "CONTACT_TYPE_FIELD": "type",
-            "TRACE_WINDOW": 1000,
-            "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "geology_crossings"),
-            "OUTPUT_INTERVALS": headless.gpkg_layer(out, "geology_strip"),
-            "SKIPPED": headless.gpkg_layer(out, "geology_skipped"),
-        },
-        world / ".headless-qgis",
+    return run_step(
+        "geologycrossings",
+        {**P.demo_geologycrossings(world), "TRACE_WINDOW": 1000, "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT="geology_crossings",
+        OUTPUT_INTERVALS="geology_strip",
+        SKIPPED="geology_skipped",
     )
 
 
 def run_boreholes(world, out):
-    table = f"{world}/tarrowgill.gpkg|layername="
-    return headless.run(
-        "sectionwright:projectboreholes",
-        {
-            "INPUT": table + "sections",
-            "LINE_ID_FIELD": "name",
-            "COLLARS": table + "collars",
-            "HOLE_ID_FIELD": "hole_id",
-            "AZIMUTH_FIELD": "azimuth",
-            "INCLINATION_FIELD": "incl",
-            "DEPTH_FIELD": "depth",
-            "SURVEYS": table + "surveys",
-            "SURVEY_HOLE_FIELD": "hole_id",
-            "SURVEY_DEPTH_FIELD": "depth",
-            "SURVEY_AZIMUTH_FIELD": "azimuth",
-            "SURVEY_INCLINATION_FIELD": "incl",
-            "INTERVALS": table + "intervals",
-            "INTERVAL_HOLE_FIELD": "hole_id",
-            "INTERVAL_FROM_FIELD": "from_m",
-            "INTERVAL_TO_FIELD": "to_m",
-            "INTERVAL_CODE_FIELD": "unit",
-            "MAX_DISTANCE": 600,
-            "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "boreholes"),
-            "OUTPUT_INTERVALS": headless.gpkg_layer(out, "borehole_intervals"),
-            "OUTPUT_TRACES": headless.gpkg_layer(out, "borehole_traces"),
-            "SKIPPED": headless.gpkg_layer(out, "boreholes_skipped"),
-        },
-        world / ".headless-qgis",
+    return run_step(
+        "projectboreholes",
+        {**P.demo_projectboreholes(world), "VERTICAL_EXAGGERATION": 2},
+        out,
+        OUTPUT="boreholes",
+        OUTPUT_INTERVALS="borehole_intervals",
+        OUTPUT_TRACES="borehole_traces",
+        SKIPPED="boreholes_skipped",
     )
 
 
@@ -165,15 +117,12 @@ FENCES = (
 def run_fences(world, out):
     """sectionsin3d on every section view; one report per fence layer."""
     return [
-        headless.run(
-            "sectionwright:sectionsin3d",
-            {
-                "INPUT": f"{world}/tarrowgill.gpkg|layername=sections",
-                "LINE_ID_FIELD": "name",
-                "SECTION_LAYER": f"{out}|layername={view}",
-                "OUTPUT": headless.gpkg_layer(out, fence),
-            },
+        run_step(
+            "sectionsin3d",
+            {**P.demo_lines(world), "SECTION_LAYER": f"{out}|layername={view}"},
+            out,
             world / ".headless-qgis",
+            OUTPUT=fence,
         )
         for view, fence in FENCES
     ]
@@ -181,8 +130,8 @@ def run_fences(world, out):
 
 def run_formlines(world, out):
     """Needs the profile, attitudes and geology steps' layers in ``out``."""
-    return headless.run(
-        "sectionwright:formlines",
+    return run_step(
+        "formlines",
         {
             "ATTITUDES": f"{out}|layername=attitudes",
             "CROSSINGS": f"{out}|layername=geology_crossings",
@@ -191,12 +140,13 @@ def run_formlines(world, out):
             "DEPTH": 1500,
             "SPACING": 50,
             "VERTICAL_EXAGGERATION": 2,
-            "OUTPUT": headless.gpkg_layer(out, "form_lines"),
-            "OUTPUT_AXES": headless.gpkg_layer(out, "axial_surfaces"),
-            "OUTPUT_THICKNESS": headless.gpkg_layer(out, "unit_thickness"),
-            "SKIPPED": headless.gpkg_layer(out, "form_lines_skipped"),
         },
+        out,
         world / ".headless-qgis",
+        OUTPUT="form_lines",
+        OUTPUT_AXES="axial_surfaces",
+        OUTPUT_THICKNESS="unit_thickness",
+        SKIPPED="form_lines_skipped",
     )
 
 

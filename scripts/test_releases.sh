@@ -3,7 +3,14 @@
 # (debootstrap, minbase) with that release's own packages:
 #   trixie  -> QGIS 3.40 LTR (Python 3.13, numpy 2, shapely 2.1)
 #   forky   -> QGIS 3.44
-# Usage: bash scripts/test_releases.sh [trixie] [forky] [-- pytest arguments]
+#   newest-shapely -> the headless (qgis_process) tests, marked `headless`, in
+#              the trixie root with the newest shapely on PyPI that the
+#              root's numpy allows, installed into a folder of its own
+#              (Debian's python3-shapely stays) and put first on PYTHONPATH;
+#              then the same on this machine (QGIS 3.22, GEOS 3.11), where
+#              a GEOS older than the wheel's shows what shapely leaves to
+#              GEOS. The versions are printed at the start.
+# Usage: bash scripts/test_releases.sh [trixie] [forky] [newest-shapely] [-- pytest arguments]
 # Roots are cached in $SECTIONWRIGHT_ROOTS (default /var/cache/sectionwright-roots)
 # and rebuilt when missing or when the package list below changes. Needs root.
 set -euo pipefail
@@ -19,7 +26,7 @@ STAMP="$(printf '%s\n' "${PACKAGES[@]}" "${PIP_PACKAGES[@]}" | sha256sum | cut -
 suites=()
 while [ $# -gt 0 ] && [ "$1" != "--" ]; do suites+=("$1"); shift; done
 [ "${1:-}" = "--" ] && shift
-[ ${#suites[@]} -gt 0 ] || suites=(trixie forky)
+[ ${#suites[@]} -gt 0 ] || suites=(trixie forky newest-shapely)
 
 if ! command -v debootstrap >/dev/null; then
   DEBIAN_FRONTEND=noninteractive apt-get install -y -q --no-install-recommends debootstrap
@@ -99,8 +106,65 @@ run_leg() {
   return $status
 }
 
+# The newest-shapely leg, run by bash inside the environment tested (the
+# trixie root, or this machine with the venv first on PATH):
+#   newest_shapely_inside TARGET CHECKOUT [pytest arguments]
+newest_shapely_inside() {
+  set -e
+  local target="$1" checkout="$2" numpy wanted
+  shift 2
+  numpy="$(python3 -c 'import numpy; print(numpy.__version__)')"
+  # The newest shapely whose requirements this numpy meets; QGIS's numpy
+  # (GDAL is built against it) is never replaced.
+  wanted="$(python3 -m pip install -q --dry-run --ignore-installed --only-binary=:all: \
+    --report - shapely "numpy==$numpy" | python3 -c '
+import json, sys
+report = json.load(sys.stdin)
+print(next(p["metadata"]["version"] for p in report["install"]
+           if p["metadata"]["name"].lower() == "shapely"))')"
+  if [ "$(cat "$target/.version" 2>/dev/null)" != "$wanted" ]; then
+    rm -rf "$target"
+    python3 -m pip install -q --no-deps --only-binary=:all: --target "$target" "shapely==$wanted"
+    echo "$wanted" > "$target/.version"
+  fi
+  export PYTHONPATH="$target" QT_QPA_PLATFORM=offscreen PROJ_DATA=/usr/share/proj
+  export XDG_RUNTIME_DIR=/tmp/runtime-root
+  mkdir -p -m 700 "$XDG_RUNTIME_DIR"
+  python3 -c '
+import os, numpy, shapely
+from qgis.core import Qgis
+print(f"test_releases: newest-shapely on QGIS {Qgis.QGIS_VERSION}: "
+      f"shapely {shapely.__version__} (in {os.path.dirname(os.path.dirname(shapely.__file__))}, "
+      f"built with GEOS {shapely.geos_version_string}), numpy {numpy.__version__}, "
+      f"QGIS GEOS {Qgis.geosVersion()}")'
+  cd "$checkout"
+  python3 -m pytest -p no:cacheprovider -m headless "$@"
+}
+
+run_newest_shapely() {
+  local dir="$CACHE/trixie" started=$SECONDS status=0
+  local leg
+  leg="$(declare -f newest_shapely_inside); newest_shapely_inside \"\$@\""
+  build_root trixie
+  mount_root "$dir"
+  trap 'unmount_root "'"$dir"'"' EXIT
+  in_root "$dir" env PIP_CONFIG_FILE=/dev/null PIP_DISABLE_PIP_VERSION_CHECK=1 PIP_ROOT_USER_ACTION=ignore \
+    PIP_CERT=/etc/ssl/certs/host-ca-bundle.crt SSL_CERT_FILE=/etc/ssl/certs/host-ca-bundle.crt \
+    bash -c "$leg" leg /opt/sectionwright-newest-shapely /checkout "$@" || status=$?
+  unmount_root "$dir"
+  trap - EXIT
+  env PATH="$CHECKOUT/.venv/bin:$PATH" PIP_DISABLE_PIP_VERSION_CHECK=1 PIP_ROOT_USER_ACTION=ignore \
+    bash -c "$leg" leg "$CACHE/bookworm-newest-shapely" "$CHECKOUT" "$@" || status=$?
+  echo "test_releases: newest-shapely finished in $((SECONDS - started)) s with status $status"
+  return $status
+}
+
 failed=0
 for suite in "${suites[@]}"; do
+  if [ "$suite" = newest-shapely ]; then
+    run_newest_shapely "$@" || failed=1
+    continue
+  fi
   build_root "$suite"
   run_leg "$suite" "$@" || failed=1
 done

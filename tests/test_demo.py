@@ -4,12 +4,15 @@ import subprocess
 import sys
 from pathlib import Path
 
+import pytest
 from osgeo import gdal
 from qgis.core import QgsLayoutExporter, QgsProject, QgsWkbTypes
 
 from sectionwright.algorithms.compat.qgis_compat import EXPORT_SUCCESS
 
 ROOT = Path(__file__).resolve().parent.parent
+
+pytestmark = pytest.mark.headless  # run_demo.py runs every step through qgis_process
 
 
 def test_the_demo_makes_sections_sheets_and_a_project(tmp_path):

@@ -5,11 +5,14 @@ import sys
 from pathlib import Path
 
 import numpy as np
+import pytest
 from osgeo import ogr
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent / "scripts"))
 import headless  # noqa: E402
 import run_demo  # noqa: E402
+
+pytestmark = pytest.mark.headless
 
 
 def summary(report):

@@ -191,6 +191,9 @@ def drawing_depths(total_depth, drawn, stations, interval_hole, interval_ends, s
     ...                           np.array([0]), np.array([7.5]), 5.0)
     >>> hole.tolist(), md.tolist()
     ([0, 0, 0, 0, 0], [0.0, 5.0, 7.5, 10.0, 12.0])
+    >>> none = np.array([], int)  # no hole drawn
+    >>> [a.tolist() for a in drawing_depths(np.array([0.0]), none, empty, none, none, 5.0)]
+    [[], []]
     """
     total_depth = np.asarray(total_depth, dtype=float)
     drawn = np.asarray(drawn, dtype=int)
@@ -209,6 +212,8 @@ def drawing_depths(total_depth, drawn, stations, interval_hole, interval_ends, s
     hole, md = hole[keep], md[keep]
     order = np.lexsort((md, hole))
     hole, md = hole[order], md[order]
+    if len(hole) == 0:  # no hole drawn
+        return hole, md
     new = np.r_[True, (hole[1:] != hole[:-1]) | (md[1:] != md[:-1])]
     return hole[new], md[new]
 

@@ -87,6 +87,9 @@ def positions_at_depths(md, inclination, azimuth, hole, offsets, query_hole, que
     >>> positions_at_depths(md, [0.0, 0.0], [0.0, 0.0], [0, 0], off, [0, 0], [50.0, 130.0])
     array([[  0.,   0.,  50.],
            [  0.,   0., 130.]])
+    >>> none = np.empty(0)  # no hole drawn: no stations, no depths asked
+    >>> positions_at_depths(none, none, none, none, np.empty((0, 3)), none, none).shape
+    (0, 3)
     """
     md = np.asarray(md, dtype=float)
     hole = np.asarray(hole)
@@ -113,7 +116,7 @@ def _station_above(md, hole, first, last, query_hole, query_md):
     """Index of the last station of the query's hole at or above its depth.
     Offsetting each hole's depths by a large multiple of its number lets one
     sorted search serve every hole at once (stations sorted by hole, depth)."""
-    scale = 2.0 * (np.max(np.abs(md)) + np.max(np.abs(query_md), initial=0.0) + 1.0)
+    scale = 2.0 * (np.max(np.abs(md), initial=0.0) + np.max(np.abs(query_md), initial=0.0) + 1.0)
     index = np.searchsorted(md + hole * scale, query_md + query_hole * scale, side="right") - 1
     return np.clip(index, first, last)
 

@@ -50,6 +50,12 @@ def unit_intervals(coords, polygons, polygon_units, tree=None):
     >>> parts = unit_intervals(np.array([[0.0, 0], [10, 0]]), squares, np.array([0, 0, 1]))
     >>> parts.start.tolist(), parts.end.tolist(), parts.unit.tolist()
     ([0.0, 6.0, 7.0, 9.0], [6.0, 7.0, 9.0, 10.0], [0, -1, 1, -1])
+
+    A line shorter than the tolerance is one stretch:
+
+    >>> tiny = unit_intervals(np.array([[1.0, 0], [1 + 1e-9, 0]]), squares, np.array([0, 0, 1]))
+    >>> tiny.unit.tolist(), len(tiny.start)
+    ([0], 1)
     """
     coords = np.asarray(coords, dtype=float)
     vertex_ch = vertex_chainage(coords)
@@ -59,6 +65,8 @@ def unit_intervals(coords, polygons, polygon_units, tree=None):
     near = tree.query(line)
     cuts = _chainages_of(line, shapely.intersection(line, shapely.boundary(polygons[near])))
     cuts = _unique_sorted(np.concatenate(([0.0, vertex_ch[-1]], cuts)))
+    if len(cuts) < 2:  # a line shorter than TOLERANCE is one stretch
+        cuts = np.array([0.0, vertex_ch[-1]])
     middles = positions_at(coords, vertex_ch, (cuts[:-1] + cuts[1:]) / 2)
     unit, overlap = _units_at(tree, polygons, polygon_units, middles)
     return _merged(cuts[:-1], cuts[1:], unit, overlap)
@@ -120,6 +128,11 @@ def contact_crossings(coords, contacts, tree=None):
     >>> ch, which, along = contact_crossings(np.array([[0.0, 0], [10, 0]]), contacts)
     >>> ch.tolist(), which.tolist(), along.tolist()
     ([1.0, 3.5, 4.5], [0, 1, 1], [False, False, False])
+
+    A line that meets no contact has no crossings:
+
+    >>> [a.tolist() for a in contact_crossings(np.array([[0.0, 5], [10, 5]]), contacts)]
+    [[], [], []]
     """
     line = shapely.LineString(np.asarray(coords, dtype=float))
     contacts = np.asarray(contacts, dtype=object)
@@ -130,6 +143,8 @@ def contact_crossings(coords, contacts, tree=None):
     along = shapely.get_type_id(parts) != 0
     first_points = shapely.get_point(parts, 0)
     points = np.where(along, first_points, parts)
+    if len(points) == 0:
+        return np.empty(0), np.empty(0, dtype=int), np.empty(0, dtype=bool)
     chainage = shapely.line_locate_point(line, points)
     contact = near[owner]
     order = np.lexsort((chainage, contact))

@@ -20,11 +20,13 @@ def meridian_convergence(crs_wkt, x, y):
     >>> gamma = meridian_convergence(wkt, np.array([500000.0]), np.array([5e6]))
     >>> abs(float(gamma[0])) < 1e-9       # on the central meridian
     True
+    >>> meridian_convergence(wkt, np.array([]), np.array([])).shape  # no positions
+    (0,)
     """
     crs = CRS.from_wkt(crs_wkt)
     x = np.asarray(x, dtype=float)
     y = np.asarray(y, dtype=float)
-    if crs.is_geographic:
+    if crs.is_geographic or x.size == 0:
         return np.zeros(x.shape)
     to_lonlat = Transformer.from_crs(crs, crs.geodetic_crs, always_xy=True)
     lon, lat = to_lonlat.transform(x, y)

@@ -44,14 +44,20 @@ def plane_fits(xyz, group):
     >>> dd, dip, rms, bad = plane_fits(pts, np.zeros(3, int))
     >>> round(float(dd[0]), 6), round(float(dip[0]), 6), bool(bad[0])
     (90.0, 30.0, False)
+
+    No points (every trace off the DEM), no groups:
+
+    >>> [a.shape for a in plane_fits(np.empty((0, 3)), np.empty(0, int))]
+    [(0,), (0,), (0,), (0,)]
     """
     xyz = np.asarray(xyz, dtype=float)
     group = np.asarray(group, dtype=int)
     k = int(group.max()) + 1 if len(group) else 0
     count = np.bincount(group, minlength=k).astype(float)
     safe = np.maximum(count, 1)
-    mean = np.stack([np.bincount(group, xyz[:, i], minlength=k) for i in range(3)], axis=1)
-    mean /= safe[:, None]
+    # bincount of nothing is an integer array, weights or not
+    sums = np.stack([np.bincount(group, xyz[:, i], minlength=k) for i in range(3)], axis=1)
+    mean = sums.astype(float) / safe[:, None]
     centred = xyz - mean[group]
     covariance = np.zeros((k, 3, 3))
     for i in range(3):

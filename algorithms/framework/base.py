@@ -1,6 +1,9 @@
 """What every Sectionwright algorithm shares: naming, help, the parameters
 several algorithms declare (section lines, units, DEM, north reference,
-exaggeration), opening sinks and the SKIPPED output."""
+exaggeration), opening sinks and the SKIPPED output, and a run that stops
+early leaving nothing behind (run_guard)."""
+
+import functools
 
 from qgis.core import (
     QgsProcessingAlgorithm,
@@ -15,11 +18,21 @@ from qgis.core import (
 )
 from qgis.PyQt.QtCore import QCoreApplication
 
-from ..compat.qgis_compat import NUMBER_DOUBLE, SOURCE_LINES, SOURCE_POLYGONS, advanced
+from ..compat.qgis_compat import (
+    NUMBER_DOUBLE,
+    SOURCE_ANY_VECTOR,
+    SOURCE_LINES,
+    SOURCE_POINTS,
+    SOURCE_POLYGONS,
+    advanced,
+    enum_number,
+    geometry_kind,
+)
 from ..core.north import GRID
 from ..inputs.section_lines import OBVIOUS_LABEL_FIELDS, obvious_label_field
 from ..outputs.output_styles import StyleOnLoad, geopackage_of, save_default_style, style_for
 from .help import help_text
+from .run_guard import OutputRecord, ParameterProblem, destination_asked
 
 INPUT = "INPUT"
 LINE_ID_FIELD = "LINE_ID_FIELD"
@@ -35,6 +48,22 @@ DECLINATION = "DECLINATION"
 
 NORTH_REFERENCES = ["Grid north (as stored)", "True north", "Magnetic north"]
 
+# What a source parameter filtered to one geometry accepts: the geometry
+# kind (compat.geometry_kind) and its words. "Any vector" beside a geometry
+# filter adds plain tables (a dialog offers them too).
+GEOMETRY_NEEDED = {
+    enum_number(SOURCE_POINTS): ("point", "a layer of points"),
+    enum_number(SOURCE_LINES): ("line", "a layer of lines"),
+    enum_number(SOURCE_POLYGONS): ("polygon", "a layer of polygons"),
+    enum_number(SOURCE_ANY_VECTOR): ("none", "a table"),
+}
+GEOMETRY_HELD = {
+    "point": "points",
+    "line": "lines",
+    "polygon": "polygons",
+    "none": "no geometry (a plain table)",
+}
+
 
 class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     """Base of the provider's algorithms; subclasses set ``ALGORITHM_ID``,
@@ -45,8 +74,41 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
     DISPLAY_NAME = ""
     GROUP_ID = "sectiondata"
 
+    def __init_subclass__(cls, **kwargs):
+        super().__init_subclass__(**kwargs)
+        if "processAlgorithm" in cls.__dict__:
+            cls.processAlgorithm = _guarded(cls.__dict__["processAlgorithm"])
+
     def tr(self, text):
         return QCoreApplication.translate(type(self).__name__, text)
+
+    def label(self, name):
+        """A parameter's label, as the dialog shows it."""
+        definition = self.parameterDefinition(name)
+        return definition.description() if definition is not None else name
+
+    def parameterAsSink(self, parameters, name, context, *args, **kwargs):
+        """Processing's sink, recorded so that a run that stops early can
+        take its output back; a destination that cannot be written is an
+        error naming the output by its label."""
+        record = self.__dict__.setdefault("output_record", OutputRecord())
+        record.before_sink(destination_asked(parameters.get(name), context))
+        try:
+            sink, sink_id = super().parameterAsSink(parameters, name, context, *args, **kwargs)
+        except QgsProcessingException as error:
+            raise ParameterProblem(name, f"the output cannot be written there ({error}).")
+        record.add(sink)
+        if sink is not None:
+            # Where each output went, for its style (postProcessAlgorithm).
+            self.__dict__.setdefault("destinations", {})[name] = sink_id
+        return sink, sink_id
+
+    def required_sink(self, parameters, name, context, *args, **kwargs):
+        """parameterAsSink for an output that must be written."""
+        sink, sink_id = self.parameterAsSink(parameters, name, context, *args, **kwargs)
+        if sink is None:
+            raise ParameterProblem(name, "choose where to write this output.")
+        return sink, sink_id
 
     def createInstance(self):
         return type(self)()
@@ -65,13 +127,6 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
 
     def shortHelpString(self):
         return self.tr(help_text(self.ALGORITHM_ID))
-
-    def parameterAsSink(self, parameters, name, context, *args, **kwargs):  # noqa: N802
-        """As QGIS's, and remembers where each output went, for its style."""
-        sink, destination = super().parameterAsSink(parameters, name, context, *args, **kwargs)
-        if sink is not None:
-            self.__dict__.setdefault("destinations", {})[name] = destination
-        return sink, destination
 
     def postProcessAlgorithm(self, context, feedback):  # noqa: N802 (QGIS API)
         """Styles the outputs (algorithms/outputs/output_styles.py): on load
@@ -93,11 +148,6 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         if parameters.get(LINE_ID_FIELD):
             return self.parameterAsString(parameters, LINE_ID_FIELD, context)
         return obvious_label_field(source.fields().names()) or ""
-
-    def label_of(self, name):
-        """A parameter's label, as the dialog shows it, for messages."""
-        definition = self.parameterDefinition(name)
-        return definition.description() if definition is not None else name
 
     def add_advanced(self, parameter):
         """Adds a rarely changed parameter, folded under "Advanced"."""
@@ -124,8 +174,42 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         """A feature source parameter, or an error naming it."""
         source = self.parameterAsSource(parameters, name, context)
         if source is None:
-            raise QgsProcessingException(self.invalidSourceError(parameters, name))
+            raise ParameterProblem(name, "the layer given cannot be read.")
+        self._check_geometry(name, source)
         return source
+
+    def optional_source(self, parameters, name, context):
+        """An optional feature source parameter: None when not given."""
+        if self.parameterAsSource(parameters, name, context) is None:
+            return None
+        return self.source(parameters, name, context)
+
+    def _check_geometry(self, name, source):
+        """The dialog filters layers by geometry; a script or qgis_process
+        does not, so a layer of the wrong kind is refused here."""
+        needed = [
+            GEOMETRY_NEEDED[number]
+            for number in map(enum_number, self.parameterDefinition(name).dataTypes())
+            if number in GEOMETRY_NEEDED
+        ]
+        kinds = [kind for kind, _ in needed]
+        held = geometry_kind(source)
+        if kinds and kinds != ["none"] and held not in kinds:
+            wanted = " or ".join(words for _, words in needed)
+            raise ParameterProblem(
+                name, f"this layer holds {GEOMETRY_HELD[held]}; choose {wanted}."
+            )
+
+    def checkParameterValues(self, parameters, context):
+        """Processing's own check, its message naming the parameter by its label."""
+        ok, message = super().checkParameterValues(parameters, context)
+        if ok:
+            return ok, message
+        for definition in self.parameterDefinitions():
+            value = parameters.get(definition.name())
+            if not definition.checkValueIsAcceptable(value, context):
+                return False, f"{definition.description()}: {_unacceptable(definition, value)}"
+        return ok, message
 
     def add_unit_parameters(self):
         self.addParameter(
@@ -168,8 +252,8 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         required DEM that cannot be read is an error naming it."""
         layer = self.parameterAsRasterLayer(parameters, DEM, context)
         if layer is None and required:
-            raise QgsProcessingException(
-                self.tr("DEM: the layer given is not a raster that can be read.")
+            raise ParameterProblem(
+                DEM, self.tr("the layer given is not a raster that can be read.")
             )
         return layer
 
@@ -222,10 +306,46 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         }
         for name in required:
             if sinks[name][0] is None:
-                raise QgsProcessingException(self.invalidSinkError(parameters, name))
+                raise ParameterProblem(name, "choose where to write this output.")
         return sinks
 
 
 def sink_results(sinks):
     """The results of a run: the id of every sink that was made."""
     return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+
+
+def _unacceptable(definition, value):
+    """Why Processing refuses a parameter's value, in words."""
+    if value is None or value == "":
+        return "a value is needed."
+    low = getattr(definition, "minimum", None)
+    high = getattr(definition, "maximum", None)
+    if low is not None and high is not None:
+        bounds = [f"at least {low():g}" if low() > -1e300 else ""]
+        bounds.append(f"at most {high():g}" if high() < 1e300 else "")
+        shown = f"{value:g}" if isinstance(value, (int, float)) else value
+        return f"{shown} is not allowed; the value must be {' and '.join(b for b in bounds if b)}."
+    return f"{value!r} cannot be used here."
+
+
+def _guarded(process_algorithm):
+    """processAlgorithm that, when the run stops early (Cancel, an error),
+    takes back what it wrote, and names a parameter in trouble by its label."""
+
+    @functools.wraps(process_algorithm)
+    def processAlgorithm(self, parameters, context, feedback):
+        self.output_record = OutputRecord()
+        try:
+            results = process_algorithm(self, parameters, context, feedback)
+            self.output_record.release()
+            return results
+        except BaseException as error:
+            self.output_record.withdraw()
+            if isinstance(error, ParameterProblem):
+                raise QgsProcessingException(
+                    f"{self.label(error.parameter)}: {error.message}"
+                ) from None
+            raise
+
+    return processAlgorithm

@@ -18,6 +18,8 @@ class RunLedger:
         self.skipped[reason.split(":")[0]] += 1
 
     def close(self):
+        """The closing lines; the run is done, so progress is 100 %."""
+        self.feedback.setProgress(100)
         skipped = sum(self.skipped.values())
         self.feedback.pushInfo(
             f"Summary: read={self.read} written={self.written} skipped={skipped}"

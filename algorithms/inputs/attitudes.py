@@ -8,7 +8,6 @@ import numpy as np
 import shapely
 from qgis.core import (
     QgsFeatureRequest,
-    QgsProcessingException,
     QgsProcessingParameterEnum,
     QgsProcessingParameterField,
 )
@@ -25,7 +24,9 @@ from ..core.attitudes import (
     read_attitudes,
 )
 from ..core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
+from ..core.wkb import from_wkb
 from ..framework.base import DECLINATION, NORTH_REFERENCE
+from ..framework.run_guard import ParameterProblem, stop_if_cancelled
 
 CONVENTION = "CONVENTION"
 AZIMUTH_FIELD = "AZIMUTH_FIELD"
@@ -114,10 +115,10 @@ class AttitudeSettings:
         }
         for name in NEEDS[self.convention]:
             if not self.fields[name]:
-                raise QgsProcessingException(
-                    f"{algorithm.label_of(name)}: attitudes written as "
-                    f"'{CONVENTIONS[self.convention]}' need "
-                    f"this field; choose it."
+                raise ParameterProblem(
+                    name,
+                    f"attitudes written as '{CONVENTIONS[self.convention]}' need this field; "
+                    "choose it.",
                 )
         self.north = algorithm.parameterAsEnum(parameters, NORTH_REFERENCE, context)
         self.declination = algorithm.parameterAsDouble(parameters, DECLINATION, context)
@@ -126,18 +127,18 @@ class AttitudeSettings:
     def read(self, source, feedback, progress_share=30.0):
         """Every feature's attributes, geometry, point and plane."""
         rows = AttitudeRows()
-        wanted = [self.fields[n] for n in NEEDS[self.convention]]
+        chosen = {n: self.fields[n] for n in NEEDS[self.convention]}
         if self.declination_field:
-            wanted.append(self.declination_field)
-        missing = [n for n in wanted if source.fields().lookupField(n) < 0]
-        if missing:
-            raise QgsProcessingException(f"The attitude layer has no field {missing[0]!r}.")
+            chosen[DECLINATION_FIELD] = self.declination_field
+        for parameter, name in chosen.items():
+            if source.fields().lookupField(name) < 0:
+                raise ParameterProblem(parameter, f"the attitude layer has no field {name!r}.")
+        wanted = list(dict.fromkeys(chosen.values()))  # one field may serve twice
         wkbs = []
         total = max(source.featureCount(), 1)
         features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
         for number, feature in enumerate(features):
-            if feedback.isCanceled():
-                break
+            stop_if_cancelled(feedback)
             rows.fids.append(feature.id())
             rows.attributes.append(feature.attributes())
             geometry = feature.geometry()
@@ -195,7 +196,7 @@ def point_positions(wkbs):
     """
     geometries = np.array([None] * len(wkbs), dtype=object)
     present = np.array([w is not None for w in wkbs], dtype=bool)
-    geometries[present] = shapely.from_wkb([w for w in wkbs if w is not None])
+    geometries[present] = from_wkb([w for w in wkbs if w is not None])
     parts = shapely.get_num_geometries(geometries)
     single = np.where(
         shapely.get_type_id(geometries) == shapely.GeometryType.MULTIPOINT,

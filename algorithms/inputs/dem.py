@@ -6,10 +6,11 @@ from contextlib import contextmanager
 
 import numpy as np
 from osgeo import gdal
-from qgis.core import QgsProcessingException, QgsRectangle
+from qgis.core import QgsRectangle
 
 from ..core.crs import cell_size_on_ground, transformer
 from ..core.raster_sampling import TiledRaster, bilinear, centre_index
+from ..framework.run_guard import ParameterProblem
 from .section_lines import crs_wkt
 
 READERS = 2  # GDAL handles decoding tiles concurrently
@@ -17,6 +18,16 @@ BATCH_SAMPLES = 100_000  # positions sampled together (~20 MB of working arrays)
 PROVIDER_TILE = 256  # window side for sources without a useful block size
 LARGEST_TILE = 1024  # blocks larger than this (strips, whole images) are windowed
 GDAL_CACHE_CAP = 64 * 2**20
+DEM = "DEM"  # the parameter names every algorithm gives its DEM and band
+DEM_BAND = "DEM_BAND"
+# Bands that hold colours or class indices, not heights.
+NOT_HEIGHTS = {
+    gdal.GCI_RedBand: "red",
+    gdal.GCI_GreenBand: "green",
+    gdal.GCI_BlueBand: "blue",
+    gdal.GCI_AlphaBand: "transparency (alpha)",
+    gdal.GCI_PaletteIndex: "palette colour indices",
+}
 
 _NUMPY_TYPES = {
     "Byte": np.uint8,
@@ -52,6 +63,13 @@ class GdalGrid:
     def __init__(self, dataset, band_number, z_factor):
         self.dataset = dataset
         self.band = dataset.GetRasterBand(band_number)
+        colour = NOT_HEIGHTS.get(self.band.GetColorInterpretation())
+        if colour is not None:
+            raise ParameterProblem(
+                DEM,
+                f"band {band_number} of this raster holds {colour} values of an image, not "
+                f"elevations: choose a DEM (one band of heights).",
+            )
         self.shape = (dataset.RasterYSize, dataset.RasterXSize)
         self.geotransform = dataset.GetGeoTransform()
         block_cols, block_rows = self.band.GetBlockSize()
@@ -104,7 +122,7 @@ class ProviderGrid:
 def _data_type_name(data_type):
     name = getattr(data_type, "name", None) or str(data_type).rsplit(".", 1)[-1]
     if name not in _NUMPY_TYPES:
-        raise QgsProcessingException(f"DEM: cells of type {name} cannot be read as elevations.")
+        raise ParameterProblem(DEM, f"cells of type {name} cannot be read as elevations.")
     return name
 
 
@@ -112,10 +130,16 @@ def open_grids(layer, band_number, z_factor):
     """Readers of the DEM band (one per thread for GDAL sources); clear
     errors for a missing band or a layer that is not a raster."""
     if layer is None or not layer.isValid():
-        raise QgsProcessingException("DEM: the layer given is not a raster that can be read.")
+        raise ParameterProblem(DEM, "the layer given is not a raster that can be read.")
     if not 1 <= band_number <= layer.bandCount():
-        raise QgsProcessingException(
-            f"DEM band: the DEM has {layer.bandCount()} band(s); band {band_number} does not exist."
+        raise ParameterProblem(
+            DEM_BAND, f"the DEM has {layer.bandCount()} band(s); band {band_number} does not exist."
+        )
+    if not layer.crs().isValid():
+        raise ParameterProblem(
+            DEM,
+            "the raster has no coordinate reference system. Set one in the layer's "
+            "properties (Source) and run again.",
         )
     if layer.providerType() == "gdal":
         datasets = [

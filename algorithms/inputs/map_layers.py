@@ -6,12 +6,14 @@ from qgis.core import (
     QgsCoordinateTransform,
     QgsCsException,
     QgsFeatureRequest,
-    QgsProcessingException,
 )
 
 from ..compat.null import plain
 from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
 from ..core.units import polygon_index_at
+from ..core.wkb import from_wkb
+from ..framework.run_guard import ParameterProblem
+from .map_crs import require_map_crs
 
 
 def read_features(source, value_field, work_crs, context):
@@ -36,7 +38,7 @@ def read_features(source, value_field, work_crs, context):
         value = plain(feature[value_field]) if value_field else None
         wkbs.append(bytes(geometry.asWkb()))
         values.append(None if value is None or not str(value).strip() else str(value))
-    geometries = shapely.force_2d(shapely.from_wkb(np.array(wkbs, dtype=object)))
+    geometries = shapely.force_2d(from_wkb(np.array(wkbs, dtype=object)))
     return geometries, values, unusable
 
 
@@ -59,10 +61,11 @@ def read_unit_map(source, unit_field, work_crs, context, feedback):
     """Unit polygons of ``source`` in the working CRS. Invalid polygons are
     repaired (shapely's make_valid) and counted in the log; polygons with no
     geometry are left out and counted."""
+    require_map_crs(source.sourceCrs(), "UNITS", "the unit polygons", "the map's unit polygons")
     if not unit_field:
-        raise QgsProcessingException("Unit field: choose the field that names the unit.")
+        raise ParameterProblem("UNIT_FIELD", "choose the field that names the unit.")
     if source.fields().lookupField(unit_field) < 0:
-        raise QgsProcessingException(f"Unit field: the units layer has no field {unit_field!r}.")
+        raise ParameterProblem("UNIT_FIELD", f"the units layer has no field {unit_field!r}.")
     polygons, labels, unusable = read_features(source, unit_field, work_crs, context)
     invalid = ~shapely.is_valid(polygons)
     if invalid.any():

@@ -1,5 +1,6 @@
 """Reading the section lines: working CRS, labels, parts, bad geometry."""
 
+import math
 from dataclasses import dataclass
 from typing import Optional
 
@@ -11,7 +12,7 @@ from qgis.core import (
     QgsCsException,
     QgsFeatureRequest,
     QgsGeometry,
-    QgsProcessingException,
+    QgsPointXY,
 )
 
 from ..compat.null import plain
@@ -24,6 +25,9 @@ from ..compat.qgis_compat import (
 )
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
+from ..core.wkb import from_wkb
+from ..framework.run_guard import ParameterProblem, stop_if_cancelled
+from .map_crs import require_lonlat, require_map_crs
 
 WGS84 = QgsCoordinateReferenceSystem("EPSG:4326")
 
@@ -49,12 +53,7 @@ def working_crs(source, context, feedback, layer=("Section lines", "the section 
     ``layer``: the parameter's label and the layer's name in messages, when
     the layer that sets the CRS is another one."""
     label, name = layer
-    crs = source.sourceCrs()
-    if not crs.isValid():
-        raise QgsProcessingException(
-            f"{label}: {name} have no coordinate reference system. "
-            "Set one in the layer's properties (Source) and run again."
-        )
+    crs = require_map_crs(source.sourceCrs(), label, name, f"{name} drawn on the map")
     if not crs.isGeographic():
         if crs.mapUnits() != UNIT_METERS:
             feedback.pushInfo(
@@ -62,9 +61,15 @@ def working_crs(source, context, feedback, layer=("Section lines", "the section 
                 f"{unit_name(crs.mapUnits())}, the unit of {crs.authid()}."
             )
         return crs
+    extent = source.sourceExtent()
+    require_lonlat(extent, label, name)
     centre = QgsCoordinateTransform(crs, WGS84, context.transformContext()).transform(
-        source.sourceExtent().center()
+        extent.center()
     )
+    if not (math.isfinite(centre.x()) and math.isfinite(centre.y())):
+        # No geometry at all (QGIS 3.44's empty extent is NaN, 3.22's is 0, 0):
+        # nothing will be placed, any zone serves; the one at 0°, 0° as on 3.22.
+        centre = QgsPointXY(0.0, 0.0)
     work = QgsCoordinateReferenceSystem(f"EPSG:{utm_epsg(centre.x(), centre.y())}")
     feedback.pushInfo(
         f"{name[0].upper() + name[1:]} are in a geographic CRS ({crs.authid()}); "
@@ -95,7 +100,7 @@ def _single_parts(geometry, to_working):
         working.transform(to_working)
     except QgsCsException:
         return None, "cannot be transformed to the working CRS"
-    parts = shapely.get_parts(shapely.force_2d(shapely.from_wkb(bytes(working.asWkb()))))
+    parts = shapely.get_parts(shapely.force_2d(from_wkb(bytes(working.asWkb()))))
     return [drop_repeated_vertices(shapely.get_coordinates(p)) for p in parts], ""
 
 
@@ -105,13 +110,14 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
     Unusable parts come back with ``coords`` None and a reason, so that the
     caller accounts for them in SKIPPED.
     """
+    if id_field and source.fields().lookupField(id_field) < 0:
+        raise ParameterProblem("LINE_ID_FIELD", f"the section lines have no field {id_field!r}.")
     to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
     sections = []
     # Degenerate lines are ours to report in SKIPPED, not Processing's to refuse.
     features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
     for feature in features:
-        if feedback.isCanceled():
-            break
+        stop_if_cancelled(feedback)
         label = section_label(feature, id_field)
         geometry = feature.geometry()
         parts, reason = _single_parts(geometry, to_working)

@@ -1,22 +1,28 @@
 """Reading plain table rows (collars, surveys, intervals) into arrays."""
 
 import numpy as np
-from qgis.core import QgsFeatureRequest, QgsProcessingException
+from qgis.core import QgsFeatureRequest
 
 from ..compat.null import plain
 from ..compat.qgis_compat import NO_GEOMETRY_REQUEST
+from ..framework.run_guard import ParameterProblem
 
 
-def read_columns(source, columns, parameter, with_geometry=False):
+def read_columns(source, columns, layer_name, with_geometry=False, field_parameters=None):
     """{column: list of raw values} for the named fields (None for NULL),
-    the feature ids, and the geometries when asked. A field missing from the
-    layer is an error naming ``parameter``'s field parameter."""
+    the feature ids, and the geometries when asked. ``columns`` maps each
+    column to its field name, ``field_parameters`` to the parameter that
+    chose it: a field missing from the layer is an error of that parameter
+    (else of ``layer_name``)."""
     indices = {}
     for key, name in columns.items():
         if name:
             indices[key] = source.fields().lookupField(name)
             if indices[key] < 0:
-                raise QgsProcessingException(f"{key}: the {parameter} layer has no field {name!r}.")
+                raise ParameterProblem(
+                    (field_parameters or {}).get(key, layer_name),
+                    f"the {layer_name} layer has no field {name!r}.",
+                )
     request = QgsFeatureRequest().setSubsetOfAttributes(list(indices.values()))
     if not with_geometry:
         request.setFlags(NO_GEOMETRY_REQUEST)

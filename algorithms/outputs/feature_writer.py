@@ -25,6 +25,7 @@ from qgis.core import QgsFeature, QgsGeometry
 
 from ..compat.null import plain
 from ..compat.qgis_compat import DOUBLE, FAST_INSERT, STRING
+from ..framework.run_guard import stop_if_cancelled
 from .geometry_io import points_z
 
 BATCH = 5000  # rows per addFeatures call and between two looks at Cancel
@@ -36,7 +37,7 @@ WKB_COLLECTION = 7
 
 def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     """Write one feature per row into ``sink``; returns the rows written
-    (fewer than given only when the run was cancelled).
+    (Cancel stops the run: RunCancelled).
 
     ``fields`` (``QgsFields``) are the sink's fields, in its order;
     ``columns`` maps each field's name to its values (numpy array or list,
@@ -44,7 +45,7 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     shapely geometries (None elements: no geometry), a list of WKB
     ``bytes`` (for M values, which shapely 2.0 cannot hold), ``QgsGeometry``
     (as read from a source) or None, or None for a table. Cancel
-    (``feedback.isCanceled()``) is looked at between batches.
+    is looked at between batches.
 
     ``also`` lists further sinks of the same fields as (sink, geometries,
     rows): they take the features of ``rows`` (ascending integer index) with
@@ -63,8 +64,7 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     others = [(other, geometry_wkbs(shapes), np.asarray(rows)) for other, shapes, rows in also]
     written = 0
     for start in range(0, count, BATCH):
-        if feedback is not None and feedback.isCanceled():
-            break
+        stop_if_cancelled(feedback)
         stop = min(start + BATCH, count)
         rows = zip(*(v[start:stop] for v in values)) if values else repeat((), stop - start)
         shapes = repeat(None) if wkbs is None else qgis_geometries(wkbs[start:stop])

@@ -55,13 +55,16 @@ _FLAGS = Field(FLAGS, TEXT, "comma-separated remarks")
 _SOURCE_FID = Field(SOURCE_FID, INTEGER, "feature id of the source feature")
 _REASON = Field(REASON, TEXT, "why the feature was not used")
 _HOLE = Field(HOLE, TEXT, "hole id")
-_OFFSETS = Schema(
+_DIPS_TO = Field(DIPS_TO, TEXT, "end of the line the apparent dip goes down to: start or end")
+# A hole drawn on a section: how far its trace strays from it, and the view's VE.
+_BESIDE_SECTION = Schema(
     Field(OFFSET_MIN, REAL, "smallest signed distance of the trace from the section"),
     Field(OFFSET_MAX, REAL, "largest signed distance of the trace from the section"),
+    _EXAGGERATION,
 )
 
-SKIPPED_SECTIONS = Schema(_SECTION, _SOURCE_FID, _REASON)
 SKIPPED_ROWS = Schema(_SOURCE_FID, _REASON)  # after the source's own fields
+SKIPPED_SECTIONS = Schema(_SECTION) + SKIPPED_ROWS
 
 PROFILE_POINTS = Schema(
     _SECTION,
@@ -98,12 +101,14 @@ CARRIED_ATTITUDES = (
         Field(LINE_AZIMUTH, REAL, "azimuth of the section line, toward its end"),
         Field(LINE_ANGLE, REAL, "acute angle between strike and line"),
         Field(APPARENT_DIP, REAL, "apparent dip in the section, true scale"),
-        Field(DIPS_TO, TEXT, "end of the line the apparent dip goes down to: start or end"),
+        _DIPS_TO,
         Field(PLOT_DIP, REAL, "apparent dip drawn at the run's exaggeration"),
         Field(APPARENT_DIP_SD, REAL, "one standard deviation of the apparent dip"),
         _FLAGS,
     )
 )
+# Dip ticks are in the section view, which carries its exaggeration.
+CARRIED_TICKS = CARRIED_ATTITUDES + Schema(_EXAGGERATION)
 
 CROSSINGS = Schema(
     _SECTION,
@@ -127,8 +132,8 @@ UNIT_INTERVALS = Schema(
     _FLAGS,
 )
 
-_HOLE_DEPTH = Field(DEPTH, REAL, "total depth along the hole")
-BOREHOLES = Schema(_SECTION, _HOLE, _HOLE_DEPTH) + _OFFSETS + Schema(_EXAGGERATION)
+BOREHOLE_TRACES = Schema(_SECTION, _HOLE, Field(DEPTH, REAL, "total depth along the hole"))
+BOREHOLES = BOREHOLE_TRACES + _BESIDE_SECTION
 BOREHOLE_INTERVALS = (
     Schema(
         _SECTION,
@@ -137,10 +142,8 @@ BOREHOLE_INTERVALS = (
         Field(TO, REAL, "depth along the hole where the interval ends"),
         Field(CODE, TEXT, "interval code (lithology, unit …)"),
     )
-    + _OFFSETS
-    + Schema(_EXAGGERATION)
+    + _BESIDE_SECTION
 )
-BOREHOLE_TRACES = Schema(_SECTION, _HOLE, _HOLE_DEPTH)
 SKIPPED_BOREHOLE_ROWS = Schema(
     Field(TABLE, TEXT, "the table of the row: collars, surveys or intervals"),
     _HOLE,
@@ -162,7 +165,6 @@ DIP_SPREAD = "dip_sd"
 REPRESENTATIVE_FID = "rep_fid"
 
 _DOMAIN = Field(DOMAIN, INTEGER, "dip domain, 1, 2 … along the section's chainage")
-_DIPS_TO = Field(DIPS_TO, TEXT, "end of the line the apparent dip goes down to: start or end")
 DOMAIN_POINTS = Schema(
     _DOMAIN,
     Field(DOMAIN_DIP, REAL, "the domain's mean signed apparent dip (+ toward the end)"),
@@ -224,10 +226,8 @@ LINES_CHECKED = Schema(
     Field(OBLIQUE_COUNT, INTEGER, "of those, the ones whose strike is close to the line"),
     Field(ADVICE, TEXT, "one line of advice"),
 )
-SKIPPED_TREND_ROWS = Schema(
-    Field(TABLE, TEXT, "the layer of the row: attitudes, areas or sections"),
-    _SOURCE_FID,
-    _REASON,
+SKIPPED_TREND_ROWS = (
+    Schema(Field(TABLE, TEXT, "the layer of the row: attitudes, areas or sections")) + SKIPPED_ROWS
 )
 
 UNIT_ABOVE = "unit_above"
@@ -265,11 +265,9 @@ UNIT_THICKNESS = Schema(
     Field(CHANGE, REAL, "% difference from the mean of the unit's other occurrences"),
     _FLAGS,
 )
-SKIPPED_FORM_LINE_ROWS = Schema(
-    Field(TABLE, TEXT, "the layer of the feature: attitudes or crossings"),
-    _SECTION,
-    _SOURCE_FID,
-    _REASON,
+SKIPPED_FORM_LINE_ROWS = (
+    Schema(Field(TABLE, TEXT, "the layer of the feature: attitudes or crossings"))
+    + SKIPPED_SECTIONS
 )
 
 # The section sheet's own map layers: the end letters A, A′ of a line.

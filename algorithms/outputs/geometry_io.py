@@ -2,8 +2,9 @@
 written by ``feature_writer.write_rows``)."""
 
 import numpy as np
-import shapely
 from qgis.core import QgsGeometry
+
+from ..core.wkb import to_wkb
 
 WKB_POINT_Z = 1001  # ISO
 POINT_Z_RECORD = np.dtype([("order", "u1"), ("type", "<u4"), ("xyz", "<f8", 3)])
@@ -11,7 +12,7 @@ POINT_Z_RECORD = np.dtype([("order", "u1"), ("type", "<u4"), ("xyz", "<f8", 3)])
 
 def to_qgis(geometry):
     result = QgsGeometry()
-    result.fromWkb(shapely.to_wkb(geometry))
+    result.fromWkb(to_wkb(geometry))
     return result
 
 

@@ -1,5 +1,7 @@
 """SKIPPED rows, written one way by every algorithm."""
 
+import numpy as np
+
 from . import fields as F
 from .feature_writer import write_rows
 
@@ -31,3 +33,27 @@ def skip_features(sink, fields, geometries, attributes, fids, reasons):
     (``fields``: CarriedFields over ``fields.SKIPPED_ROWS``)."""
     columns = fields.columns(attributes, {F.SOURCE_FID: fids, F.REASON: reasons})
     write_skipped(sink, fields.qgs_fields(), geometries, columns)
+
+
+def skip_refused(ledger, sink, fields, reasons, features):
+    """One row per source feature, ``reasons`` "" where it is used: every row
+    counted as read in the ``ledger``, the refused ones counted as skipped and
+    written to SKIPPED (``features``: their geometries, attribute lists and
+    ids, in the rows' order). Returns the indices of the rows used, counted
+    as written."""
+    geometries, attributes, fids = features
+    ledger.read = len(reasons)
+    refused = np.flatnonzero(reasons != "")
+    for reason in reasons[refused]:
+        ledger.skip(reason)
+    skip_features(
+        sink,
+        fields,
+        [geometries[i] for i in refused],
+        [attributes[i] for i in refused],
+        np.asarray(fids)[refused],
+        reasons[refused],
+    )
+    used = np.flatnonzero(reasons == "")
+    ledger.written = len(used)
+    return used

@@ -1,7 +1,5 @@
 """One vertical exaggeration for every section-view layer of a sheet."""
 
-import math
-
 from qgis.core import QgsProcessingException
 
 from ..compat.null import plain
@@ -9,12 +7,10 @@ from ..outputs import fields as F
 
 
 def exaggerations(layer):
-    """The distinct ``ve`` values of a layer; for dip ticks, which carry the
-    attitudes' own fields and no ``ve``, the ratio tan(plot_dip) /
-    tan(app_dip) of ticks neither flat nor vertical (empty when neither)."""
+    """The distinct ``ve`` values of a layer (empty when it has no ``ve``)."""
     index = layer.fields().lookupField(F.EXAGGERATION)
     if index < 0:
-        return _tick_exaggerations(layer)
+        return set()
     values = set()
     for value in map(plain, layer.uniqueValues(index)):
         try:
@@ -46,17 +42,3 @@ def common_exaggeration(named_layers):
         )
     return distinct.pop() if distinct else None
 
-
-def _tick_exaggerations(layer):
-    names = layer.fields().names()
-    if F.PLOT_DIP not in names or F.APPARENT_DIP not in names:
-        return set()
-    found = set()
-    for feature in layer.getFeatures():
-        try:
-            drawn, true = float(plain(feature[F.PLOT_DIP])), float(plain(feature[F.APPARENT_DIP]))
-        except (TypeError, ValueError):
-            continue
-        if 0.5 < true < 89.5 and drawn < 89.9:
-            found.add(round(math.tan(math.radians(drawn)) / math.tan(math.radians(true)), 2))
-    return found

@@ -4,6 +4,7 @@ projectattitudes."""
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 from feedback import LogFeedback
 from layers import attributes, line_layer, point_layer
 from qgis.core import QgsProcessingException, QgsVectorLayer
@@ -172,16 +173,10 @@ def test_demo_sections_each_get_domains_and_one_representative_per_domain(provid
     carried = processing.run(
         "sectionwright:projectattitudes",
         {
-            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "ATTITUDES": f"{demo_dir}/tarrowgill.gpkg|layername=attitudes",
-            "CONVENTION": 3,
-            "TEXT_FIELD": "attitude",
-            "MAX_DISTANCE": 500,
-            "UNITS": f"{demo_dir}/tarrowgill.gpkg|layername=units",
-            "UNIT_FIELD": "unit",
-            "OUTPUT": "memory:",
-            "OUTPUT_TICKS": "memory:",
+            **P.demo_lines(demo_dir),
+            **P.demo_attitudes(demo_dir),
+            **P.demo_units(demo_dir),
+            **P.memory("OUTPUT", "OUTPUT_TICKS"),
         },
     )["OUTPUT"]
     result = run(carried)

@@ -5,50 +5,31 @@ import demo_world as W
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 import shapely
 from feedback import LogFeedback
 from layers import attributes, is_null, point_layer
 from qgis.core import QgsCoordinateReferenceSystem, QgsFeature, QgsGeometry, QgsVectorLayer
 
+from sectionwright.algorithms.core.wkb import from_wkb
 from sectionwright.algorithms.outputs.section_space import SECTION_CRS_WKT, is_section_view
 
 VE = 2.0
 
 
 def _demo_inputs(demo_dir):
-    table = f"{demo_dir}/tarrowgill.gpkg|layername="
-    common = {"INPUT": table + "sections", "LINE_ID_FIELD": "name", "VERTICAL_EXAGGERATION": VE}
+    ve = {"VERTICAL_EXAGGERATION": VE}
     profile = processing.run(
         "sectionwright:profile",
-        dict(
-            common, DEM=f"{demo_dir}/dem.tif", STEP=10, OUTPUT="memory:", OUTPUT_SECTION="memory:"
-        ),
+        {**P.demo_profile(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_SECTION")},
     )
     attitudes = processing.run(
         "sectionwright:projectattitudes",
-        dict(
-            common,
-            ATTITUDES=table + "attitudes",
-            CONVENTION=3,
-            TEXT_FIELD="attitude",
-            MAX_DISTANCE=500,
-            DEM=f"{demo_dir}/dem.tif",
-            OUTPUT="memory:",
-            OUTPUT_TICKS="memory:",
-        ),
+        {**P.demo_projectattitudes(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_TICKS")},
     )
     crossings = processing.run(
         "sectionwright:geologycrossings",
-        dict(
-            common,
-            DEM=f"{demo_dir}/dem.tif",
-            UNITS=table + "units",
-            UNIT_FIELD="unit",
-            CONTACTS=table + "contacts",
-            CONTACT_TYPE_FIELD="type",
-            OUTPUT="memory:",
-            OUTPUT_INTERVALS="memory:",
-        ),
+        {**P.demo_geologycrossings(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_INTERVALS")},
     )
     return {
         "ATTITUDES": attitudes["OUTPUT"],
@@ -106,7 +87,7 @@ def test_every_contact_lies_on_its_form_line(demo):
         if feature["kind"] == "contact":
             assert feature["unit_above"] and feature["unit_below"]
             true_scale = shapely.transform(
-                shapely.from_wkb(bytes(feature.geometry().asWkb())), lambda xy: xy / [1.0, VE]
+                from_wkb(bytes(feature.geometry().asWkb())), lambda xy: xy / [1.0, VE]
             )
             lines.setdefault(feature["section"], []).append(true_scale)
     used = [f for f in inputs["CROSSINGS"].getFeatures() if f.id() not in skipped]
@@ -134,7 +115,7 @@ def test_along_the_fold_axis_the_contacts_are_the_analytic_ones(demo):
             continue
         k = min(W.UNITS.index(feature["unit_above"]), W.UNITS.index(feature["unit_below"]))
         xz = shapely.get_coordinates(
-            shapely.segmentize(shapely.from_wkb(bytes(feature.geometry().asWkb())), 5.0)
+            shapely.segmentize(from_wkb(bytes(feature.geometry().asWkb())), 5.0)
         ) / np.array([1.0, VE])
         ends = [xz[0], xz[-1]]
         top = min(ends, key=lambda p: abs(p[1] - W.ground(*_map_point(line, p[0]))))
@@ -176,7 +157,13 @@ def _section_view_line(coords, section="S1", ve=1.0):
     layer = QgsVectorLayer("LineString?field=section:string&field=ve:double", "profile", "memory")
     layer.setCrs(QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT))
     feature = QgsFeature(layer.fields())
-    feature.setGeometry(QgsGeometry.fromWkt(shapely.LineString(coords).wkt))
+    feature.setGeometry(
+        QgsGeometry.fromWkt(
+            shapely.to_wkt(
+                shapely.LineString(coords), rounding_precision=-1, trim=True, output_dimension=2
+            )
+        )
+    )
     feature.setAttributes([section, ve])
     layer.dataProvider().addFeatures([feature])
     return layer

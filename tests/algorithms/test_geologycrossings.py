@@ -4,6 +4,7 @@ import demo_world as W
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 import shapely
 from feedback import LogFeedback
 from layers import attributes, line_layer, plane_raster, point_layer
@@ -13,16 +14,8 @@ from qgis.core import QgsProcessingContext, QgsVectorLayer
 
 def run(demo_dir, feedback=None, **extra):
     parameters = {
-        "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-        "LINE_ID_FIELD": "name",
-        "DEM": f"{demo_dir}/dem.tif",
-        "UNITS": f"{demo_dir}/tarrowgill.gpkg|layername=units",
-        "UNIT_FIELD": "unit",
-        "CONTACTS": f"{demo_dir}/tarrowgill.gpkg|layername=contacts",
-        "CONTACT_TYPE_FIELD": "type",
-        "OUTPUT": "memory:",
-        "OUTPUT_INTERVALS": "memory:",
-        "SKIPPED": "memory:",
+        **P.demo_geologycrossings(demo_dir),
+        **P.memory("OUTPUT", "OUTPUT_INTERVALS", "SKIPPED"),
     }
     parameters.update(extra)
     return processing.run("sectionwright:geologycrossings", parameters, feedback=feedback)
@@ -170,7 +163,9 @@ def test_trace_window_recovers_a_known_plane(provider, tmp_path):
         (shapely.from_wkt(f.GetGeometryRef().ExportToWkt()) for f in layer), key=lambda g: g.length
     )
     contacts = point_layer(
-        [(trace.wkt, ["fault"])], [("type", "string")], geometry_type="LineString"
+        [(shapely.to_wkt(trace, rounding_precision=-1, trim=True, output_dimension=2), ["fault"])],
+        [("type", "string")],
+        geometry_type="LineString",
     )
     middle = trace.interpolate(0.5, normalized=True)
     section = line_layer(
@@ -239,17 +234,11 @@ def test_bad_geology_input(provider, demo_dir, tmp_path):
     result = processing.run(
         "sectionwright:geologycrossings",
         {
-            "INPUT": lines,
-            "LINE_ID_FIELD": "name",
-            "DEM": f"{demo_dir}/dem.tif",
-            "UNITS": units,
-            "UNIT_FIELD": "unit",
-            "CONTACTS": contacts,
-            "CONTACT_TYPE_FIELD": "type",
+            **P.lines(lines),
+            "DEM": P.demo_dem(demo_dir),
+            **P.geology(units, contacts),
             "TRACE_WINDOW": 50000.0,
-            "OUTPUT": "memory:",
-            "OUTPUT_INTERVALS": "memory:",
-            "SKIPPED": "memory:",
+            **P.memory("OUTPUT", "OUTPUT_INTERVALS", "SKIPPED"),
         },
         feedback=log,
     )

@@ -96,7 +96,11 @@ def test_a_line_layer_is_refused_by_its_label(provider):
     from qgis.core import QgsProcessingException
 
     lines = line_layer(["LINESTRING (0 0, 1 1)"])
-    with pytest.raises(QgsProcessingException, match="Attitudes \\(points or a table\\): give"):
+    with pytest.raises(
+        QgsProcessingException,
+        match="Attitudes \\(points or a table\\): this layer holds lines; "
+        "choose a layer of points or a table",
+    ):
         processing.run(
             "sectionwright:normalizeattitudes",
             {"INPUT": lines, "CONVENTION": 3, "TEXT_FIELD": "name", "OUTPUT": "memory:"},

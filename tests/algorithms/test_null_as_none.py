@@ -8,6 +8,7 @@ reasons and the log must be the same, and the NULLs must have mattered
 
 import processing
 import pytest
+import run_parameters as P
 from feedback import LogFeedback
 from layers import attributes, is_null, line_layer, plane_raster, point_layer
 from qgis.core import QgsFeature, QgsVectorLayer
@@ -88,21 +89,14 @@ def attitudes_case(tmp_path):
     result = processing.run(
         "sectionwright:projectattitudes",
         {
-            "INPUT": lines,
-            "LINE_ID_FIELD": "name",
-            "ATTITUDES": points,
-            "CONVENTION": 0,
-            "AZIMUTH_FIELD": "az",
-            "DIP_FIELD": "dip",
+            **P.lines(lines),
+            **P.numeric_attitudes(points),
             "NORTH_REFERENCE": 2,
             "DECLINATION": 5.0,
             "DECLINATION_FIELD": "decl",
             "UNITS": units,
             "UNIT_FIELD": "unit",
-            "OUTPUT": "memory:",
-            "OUTPUT_TICKS": "memory:",
-            "OUTPUT_CONNECTORS": "memory:",
-            "SKIPPED": "memory:",
+            **P.memory("OUTPUT", "OUTPUT_TICKS", "OUTPUT_CONNECTORS", "SKIPPED"),
         },
         feedback=log,
     )
@@ -172,16 +166,10 @@ def geology_case(tmp_path):
     result = processing.run(
         "sectionwright:geologycrossings",
         {
-            "INPUT": line_layer([EAST_WEST, None], names=["EW", "EMPTY"]),
-            "LINE_ID_FIELD": "name",
+            **P.lines(line_layer([EAST_WEST, None], names=["EW", "EMPTY"])),
             "DEM": dem,
-            "UNITS": units,
-            "UNIT_FIELD": "unit",
-            "CONTACTS": contacts,
-            "CONTACT_TYPE_FIELD": "type",
-            "OUTPUT": "memory:",
-            "OUTPUT_INTERVALS": "memory:",
-            "SKIPPED": "memory:",
+            **P.geology(units, contacts),
+            **P.memory("OUTPUT", "OUTPUT_INTERVALS", "SKIPPED"),
         },
         feedback=log,
     )
@@ -219,27 +207,9 @@ def boreholes_case(tmp_path):
     result = processing.run(
         "sectionwright:projectboreholes",
         {
-            "INPUT": line_layer([EAST_WEST], names=["EW"]),
-            "LINE_ID_FIELD": "name",
-            "COLLARS": collars,
-            "HOLE_ID_FIELD": "hole",
-            "AZIMUTH_FIELD": "az",
-            "INCLINATION_FIELD": "incl",
-            "DEPTH_FIELD": "depth",
-            "SURVEYS": surveys,
-            "SURVEY_HOLE_FIELD": "hole",
-            "SURVEY_DEPTH_FIELD": "depth",
-            "SURVEY_AZIMUTH_FIELD": "az",
-            "SURVEY_INCLINATION_FIELD": "incl",
-            "INTERVALS": intervals,
-            "INTERVAL_HOLE_FIELD": "hole",
-            "INTERVAL_FROM_FIELD": "from",
-            "INTERVAL_TO_FIELD": "to",
-            "INTERVAL_CODE_FIELD": "code",
-            "OUTPUT": "memory:",
-            "OUTPUT_INTERVALS": "memory:",
-            "OUTPUT_TRACES": "memory:",
-            "SKIPPED": "memory:",
+            **P.lines(line_layer([EAST_WEST], names=["EW"])),
+            **P.boreholes(collars, surveys, intervals),
+            **P.memory("OUTPUT", "OUTPUT_INTERVALS", "OUTPUT_TRACES", "SKIPPED"),
         },
         feedback=log,
     )

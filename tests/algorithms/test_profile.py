@@ -7,7 +7,7 @@ from feedback import LogFeedback
 from layers import by_section, is_null, line_layer, plane_raster, write_raster
 from osgeo import gdal
 from pyproj import Transformer
-from qgis.core import QgsProcessingException, QgsProcessingFeedback, QgsVectorLayer
+from qgis.core import QgsProcessingException, QgsVectorLayer
 from scipy import ndimage
 
 from sectionwright.algorithms.compat.qgis_compat import (
@@ -284,14 +284,16 @@ def test_missing_band_and_non_raster_are_clear_errors(provider, plane_dem, demo_
 
 
 def test_cancel_stops_between_sections(provider, plane_dem):
-    class CancelAfterFirst(QgsProcessingFeedback):
+    class CancelAfterFirst(LogFeedback):
         def setProgress(self, progress):
             super().setProgress(progress)
             self.cancel()
 
     lines = line_layer([KINKED] * 5)
-    result = run_profile(lines, plane_dem, feedback=CancelAfterFirst())
-    assert result["OUTPUT_SECTION"].featureCount() == 1
+    feedback = CancelAfterFirst()
+    with pytest.raises(QgsProcessingException, match="Cancelled"):
+        run_profile(lines, plane_dem, feedback=feedback)
+    assert not any(line.startswith("Section 1:") for line in feedback.lines)
 
 
 def test_the_input_layer_is_not_modified(provider, demo_dir):

@@ -4,6 +4,7 @@ import demo_world as W
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 from feedback import LogFeedback
 from layers import attributes, is_null, line_layer, plane_raster, point_layer
 from pyproj import Proj, Transformer
@@ -34,27 +35,32 @@ DESIGN_FIELDS = [
 
 def run(lines, points, feedback=None, **extra):
     parameters = {
-        "INPUT": lines,
-        "LINE_ID_FIELD": "name",
-        "ATTITUDES": points,
-        "CONVENTION": 0,
-        "AZIMUTH_FIELD": "az",
-        "DIP_FIELD": "dip",
-        "OUTPUT": "memory:",
-        "OUTPUT_TICKS": "memory:",
-        "OUTPUT_CONNECTORS": "memory:",
-        "SKIPPED": "memory:",
+        **P.lines(lines),
+        **P.numeric_attitudes(points),
+        **P.memory("OUTPUT", "OUTPUT_TICKS", "OUTPUT_CONNECTORS", "SKIPPED"),
     }
     parameters.update(extra)
     return processing.run("sectionwright:projectattitudes", parameters, feedback=feedback)
 
 
+def demo_run(demo_dir, **extra):
+    """The demo notebook carried up to 600 m onto the demo lines."""
+    parameters = {**P.demo_projectattitudes(demo_dir), "MAX_DISTANCE": 600, **extra}
+    return run(parameters.pop("INPUT"), parameters.pop("ATTITUDES"), **parameters)
+
+
 def numeric_points(rows, epsg="EPSG:32633"):
-    """Points with az/dip fields: rows are (x, y, az, dip)."""
+    """Points with az/dip fields: rows are (x, y, az, dip), or (x, y, z, az,
+    dip) for 3-D points."""
+    three_d = len(rows[0]) == 5
     return point_layer(
-        [(f"POINT({x} {y})", [az, dip]) for x, y, az, dip in rows],
+        [
+            (f"POINT{' Z' if three_d else ''}({' '.join(str(c) for c in xyz)})", [az, dip])
+            for *xyz, az, dip in rows
+        ],
         [("az", "string"), ("dip", "string")],
         epsg=epsg,
+        geometry_type="PointZ" if three_d else "Point",
     )
 
 
@@ -64,14 +70,7 @@ def test_demo_world_apparent_dips_match_the_analytic_structure(provider, demo_di
     # section's azimuth at the attitude: tan α = |∇F · u| (an independent
     # directional-derivative computation, not the tan δ · sin β formula).
     # Recorded attitudes are rounded to whole degrees: tolerance 1°.
-    result = run(
-        f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-        f"{demo_dir}/tarrowgill.gpkg|layername=attitudes",
-        CONVENTION=3,
-        TEXT_FIELD="attitude",
-        MAX_DISTANCE=600,
-        DEM=f"{demo_dir}/dem.tif",
-    )
+    result = demo_run(demo_dir)
     rows = attributes(result["OUTPUT"])
     assert len(rows) >= 30
     source = {
@@ -93,15 +92,7 @@ def test_demo_world_apparent_dips_match_the_analytic_structure(provider, demo_di
 
 def test_every_design_field_is_there_and_the_source_fid_is_not_copied(provider, demo_dir, tmp_path):
     out = tmp_path / "carried.gpkg"
-    result = run(
-        f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-        f"{demo_dir}/tarrowgill.gpkg|layername=attitudes",
-        CONVENTION=3,
-        TEXT_FIELD="attitude",
-        MAX_DISTANCE=600,
-        OUTPUT=str(out),
-        DEM=f"{demo_dir}/dem.tif",
-    )
+    result = demo_run(demo_dir, OUTPUT=str(out))
     layer = QgsVectorLayer(result["OUTPUT"])
     names = layer.fields().names()
     assert names[0] == "fid"  # the GeoPackage's own key
@@ -213,13 +204,8 @@ def test_along_plunge_shifts_elevation(provider):
     # Hand-computed (Groshong 2006, ch. 6): 100 m north of the line at
     # z 500, plunge 30° toward 180: travel 100 m down-plunge, z 442.26.
     line = line_layer([EAST_WEST], names=["EW"])
-    points = point_layer(
-        [
-            (f"POINT Z({X0 + 1500} {Y0 + 1100} 500)", ["120", "40"]),
-            (f"POINT Z({X0 + 1500} {Y0 + 900} 500)", ["120", "40"]),
-        ],
-        [("az", "string"), ("dip", "string")],
-        geometry_type="PointZ",
+    points = numeric_points(
+        [(X0 + 1500, Y0 + 1100, 500, "120", "40"), (X0 + 1500, Y0 + 900, 500, "120", "40")]
     )
     result = run(line, points, PROJECTION=2, PLUNGE_TREND=180.0, PLUNGE=30.0)
     rows = {round(r["offset"]): r for r in attributes(result["OUTPUT"])}
@@ -242,13 +228,8 @@ def test_kinked_line_uses_the_segment_where_the_point_lands(provider):
 
 def test_ticks_are_drawn_at_the_plotted_dip_toward_dips_to(provider):
     line = line_layer([EAST_WEST], names=["EW"])
-    points = point_layer(
-        [
-            (f"POINT Z({X0 + 1500} {Y0 + 1100} 400)", ["90", "30"]),
-            (f"POINT Z({X0 + 2500} {Y0 + 1100} 400)", ["270", "30"]),
-        ],
-        [("az", "string"), ("dip", "string")],
-        geometry_type="PointZ",
+    points = numeric_points(
+        [(X0 + 1500, Y0 + 1100, 400, "90", "30"), (X0 + 2500, Y0 + 1100, 400, "270", "30")]
     )
     result = run(line, points, VERTICAL_EXAGGERATION=2.0, TICK_LENGTH=100.0)
     plot = np.degrees(np.arctan(2 * np.tan(np.radians(30))))  # Groshong 2006, eq. 6.1

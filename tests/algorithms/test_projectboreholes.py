@@ -5,6 +5,7 @@ import make_demo
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 from feedback import LogFeedback
 from layers import attributes, line_layer, point_layer
 from pyproj import Proj, Transformer
@@ -17,44 +18,17 @@ COLLAR_FIELDS = [("hole", "string"), ("az", "string"), ("incl", "string"), ("dep
 
 def run(lines, collars, feedback=None, **extra):
     parameters = {
-        "INPUT": lines,
-        "LINE_ID_FIELD": "name",
-        "COLLARS": collars,
-        "HOLE_ID_FIELD": "hole",
-        "AZIMUTH_FIELD": "az",
-        "INCLINATION_FIELD": "incl",
-        "DEPTH_FIELD": "depth",
-        "OUTPUT": "memory:",
-        "OUTPUT_INTERVALS": "memory:",
-        "OUTPUT_TRACES": "memory:",
-        "SKIPPED": "memory:",
+        **P.lines(lines),
+        **P.boreholes(collars),
+        **P.memory("OUTPUT", "OUTPUT_INTERVALS", "OUTPUT_TRACES", "SKIPPED"),
     }
     parameters.update(extra)
     return processing.run("sectionwright:projectboreholes", parameters, feedback=feedback)
 
 
 def demo_run(demo_dir, **extra):
-    g = f"{demo_dir}/tarrowgill.gpkg|layername="
-    parameters = dict(
-        COLLARS=g + "collars",
-        HOLE_ID_FIELD="hole_id",
-        AZIMUTH_FIELD="azimuth",
-        INCLINATION_FIELD="incl",
-        DEPTH_FIELD="depth",
-        SURVEYS=g + "surveys",
-        SURVEY_HOLE_FIELD="hole_id",
-        SURVEY_DEPTH_FIELD="depth",
-        SURVEY_AZIMUTH_FIELD="azimuth",
-        SURVEY_INCLINATION_FIELD="incl",
-        INTERVALS=g + "intervals",
-        INTERVAL_HOLE_FIELD="hole_id",
-        INTERVAL_FROM_FIELD="from_m",
-        INTERVAL_TO_FIELD="to_m",
-        INTERVAL_CODE_FIELD="unit",
-        MAX_DISTANCE=600.0,
-    )
-    parameters.update(extra)
-    return run(g + "sections", parameters.pop("COLLARS"), **parameters)
+    parameters = {**P.demo_projectboreholes(demo_dir), **extra}
+    return run(parameters.pop("INPUT"), parameters.pop("COLLARS"), **parameters)
 
 
 @pytest.fixture(scope="module")

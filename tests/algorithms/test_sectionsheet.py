@@ -8,6 +8,7 @@ from pathlib import Path
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 from feedback import LogFeedback
 from layers import line_layer, plane_raster
 from osgeo import gdal
@@ -34,55 +35,26 @@ def pdf_pages(path):
 
 @pytest.fixture(scope="module")
 def demo_layers(provider, demo_dir):
-    g = f"{demo_dir}/tarrowgill.gpkg|layername="
-    common = {"INPUT": g + "sections", "LINE_ID_FIELD": "name"}
+    ve = {"VERTICAL_EXAGGERATION": 2}
     profile = processing.run(
         "sectionwright:profile",
-        dict(
-            common,
-            DEM=f"{demo_dir}/dem.tif",
-            STEP=25,
-            VERTICAL_EXAGGERATION=2,
-            OUTPUT="memory:",
-            OUTPUT_SECTION="memory:",
-        ),
+        {**P.demo_profile(demo_dir), "STEP": 25, **ve, **P.memory("OUTPUT", "OUTPUT_SECTION")},
     )
     attitudes = processing.run(
         "sectionwright:projectattitudes",
-        dict(
-            common,
-            ATTITUDES=g + "attitudes",
-            CONVENTION=3,
-            TEXT_FIELD="attitude",
-            MAX_DISTANCE=500,
-            DEM=f"{demo_dir}/dem.tif",
-            VERTICAL_EXAGGERATION=2,
-            OUTPUT="memory:",
-            OUTPUT_TICKS="memory:",
-        ),
+        {**P.demo_projectattitudes(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_TICKS")},
     )
     geology = processing.run(
         "sectionwright:geologycrossings",
-        dict(
-            common,
-            DEM=f"{demo_dir}/dem.tif",
-            UNITS=g + "units",
-            UNIT_FIELD="unit",
-            CONTACTS=g + "contacts",
-            CONTACT_TYPE_FIELD="type",
-            VERTICAL_EXAGGERATION=2,
-            OUTPUT="memory:",
-            OUTPUT_INTERVALS="memory:",
-        ),
+        {**P.demo_geologycrossings(demo_dir), **ve, **P.memory("OUTPUT", "OUTPUT_INTERVALS")},
     )
     return {
-        "INPUT": g + "sections",
-        "LINE_ID_FIELD": "name",
+        **P.demo_lines(demo_dir),
         "PROFILE": profile["OUTPUT_SECTION"],
         "TICKS": attitudes["OUTPUT_TICKS"],
         "INTERVALS": geology["OUTPUT_INTERVALS"],
         "CROSSINGS": geology["OUTPUT"],
-        "MAP_LAYERS": [g + "units"],
+        "MAP_LAYERS": [P.demo_layer(demo_dir, "units")],
         "TITLE": "Tarrowgill test sheet",
     }
 
@@ -246,14 +218,13 @@ def test_an_unwritable_output_is_a_clear_error(demo_layers):
         sheet(demo_layers, "/nonexistent-folder/sheets.pdf")
 
 
+@pytest.mark.headless
 def test_sheets_are_made_headless(provider, demo_dir, tmp_path):
     profile = tmp_path / "profile.gpkg"
     processing.run(
         "sectionwright:profile",
         {
-            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "DEM": f"{demo_dir}/dem.tif",
+            **P.demo_profile(demo_dir),
             "STEP": 50,
             "OUTPUT": "memory:",
             "OUTPUT_SECTION": str(profile),
@@ -262,13 +233,7 @@ def test_sheets_are_made_headless(provider, demo_dir, tmp_path):
     out = tmp_path / "headless.pdf"
     headless.run(
         "sectionwright:sectionsheet",
-        {
-            "INPUT": f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-            "LINE_ID_FIELD": "name",
-            "PROFILE": str(profile),
-            "OUTPUT": str(out),
-        },
-        tmp_path / "qgis",
+        {**P.demo_lines(demo_dir), "PROFILE": str(profile), "OUTPUT": str(out)},
     )
     assert pdf_pages(out) == 4
 
@@ -383,22 +348,11 @@ def full_sheet(demo_layers, tmp_path_factory):
     holes = processing.run(
         "sectionwright:projectboreholes",
         {
-            "INPUT": demo_layers["INPUT"],
-            "LINE_ID_FIELD": "name",
-            "COLLARS": g + "collars",
-            "HOLE_ID_FIELD": "hole_id",
-            "AZIMUTH_FIELD": "azimuth",
-            "INCLINATION_FIELD": "incl",
-            "DEPTH_FIELD": "depth",
-            "INTERVALS": g + "intervals",
-            "INTERVAL_HOLE_FIELD": "hole_id",
-            "INTERVAL_FROM_FIELD": "from_m",
-            "INTERVAL_TO_FIELD": "to_m",
-            "INTERVAL_CODE_FIELD": "unit",
+            **P.lines(demo_layers["INPUT"]),
+            **P.boreholes(g + "collars", intervals=g + "intervals", fields=P.DEMO_HOLES),
             "MAX_DISTANCE": 600.0,
             "VERTICAL_EXAGGERATION": 2.0,
-            "OUTPUT": "memory:",
-            "OUTPUT_INTERVALS": "memory:",
+            **P.memory("OUTPUT", "OUTPUT_INTERVALS"),
         },
     )
     parameters = dict(
@@ -537,20 +491,12 @@ def test_different_exaggerations_are_an_error_naming_the_layers(demo_layers, tmp
 def test_ticks_at_another_exaggeration_are_refused_naming_the_layers(
     demo_layers, demo_dir, tmp_path
 ):
-    # Ticks carry no ve: their exaggeration is tan(plot_dip) / tan(app_dip).
     ticks_at_1 = processing.run(
         "sectionwright:projectattitudes",
         {
-            "INPUT": demo_layers["INPUT"],
-            "LINE_ID_FIELD": "name",
-            "ATTITUDES": f"{demo_dir}/tarrowgill.gpkg|layername=attitudes",
-            "CONVENTION": 3,
-            "TEXT_FIELD": "attitude",
-            "MAX_DISTANCE": 500,
-            "DEM": f"{demo_dir}/dem.tif",
+            **P.demo_projectattitudes(demo_dir),
             "VERTICAL_EXAGGERATION": 1,
-            "OUTPUT": "memory:",
-            "OUTPUT_TICKS": "memory:",
+            **P.memory("OUTPUT", "OUTPUT_TICKS"),
         },
     )["OUTPUT_TICKS"]
     with pytest.raises(QgsProcessingException) as refused:

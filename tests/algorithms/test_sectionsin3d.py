@@ -3,6 +3,7 @@
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 import shapely
 from feedback import LogFeedback
 from layers import attributes, line_layer, plane_raster, point_layer
@@ -121,16 +122,10 @@ def test_holes_in_the_section_plane_coincide_with_their_desurveyed_traces(kinked
     holes = processing.run(
         "sectionwright:projectboreholes",
         {
-            "INPUT": lines,
-            "LINE_ID_FIELD": "name",
-            "COLLARS": collars,
-            "HOLE_ID_FIELD": "hole",
-            "AZIMUTH_FIELD": "az",
-            "INCLINATION_FIELD": "incl",
-            "DEPTH_FIELD": "depth",
+            **P.lines(lines),
+            **P.boreholes(collars),
             "VERTICAL_EXAGGERATION": 2.0,
-            "OUTPUT": "memory:",
-            "OUTPUT_TRACES": "memory:",
+            **P.memory("OUTPUT", "OUTPUT_TRACES"),
         },
     )
     placed = {

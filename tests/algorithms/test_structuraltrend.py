@@ -4,6 +4,7 @@ import demo_world as W
 import numpy as np
 import processing
 import pytest
+import run_parameters as P
 from angles import axial_angle
 from feedback import LogFeedback
 from layers import attributes, is_null, point_layer
@@ -29,13 +30,8 @@ LINE_FIELDS = ["section", "area", "line_az", "best_az", "misfit", "n_near", "n_o
 
 def run(points, feedback=None, **extra):
     parameters = {
-        "ATTITUDES": points,
-        "CONVENTION": 0,
-        "AZIMUTH_FIELD": "az",
-        "DIP_FIELD": "dip",
-        "OUTPUT": "memory:",
-        "OUTPUT_LINES": "memory:",
-        "SKIPPED": "memory:",
+        **P.numeric_attitudes(points),
+        **P.memory("OUTPUT", "OUTPUT_LINES", "SKIPPED"),
     }
     parameters.update(extra)
     return processing.run("sectionwright:structuraltrend", parameters, feedback=feedback)
@@ -74,15 +70,7 @@ def test_demo_fold_axis_recommended_azimuth_and_the_demo_lines(provider, demo_di
     # Ground truth: test_data/demo_world.py (axis 035/08, cylindrical); the
     # notebook rounds attitudes to whole degrees, so within 2°.
     feedback = LogFeedback()
-    result = run(
-        f"{demo_dir}/tarrowgill.gpkg|layername=attitudes",
-        feedback,
-        CONVENTION=3,
-        TEXT_FIELD="attitude",
-        INPUT=f"{demo_dir}/tarrowgill.gpkg|layername=sections",
-        LINE_ID_FIELD="name",
-        MAX_DISTANCE=500,
-    )
+    result = run(P.demo_layer(demo_dir, "attitudes"), feedback, **P.demo_structuraltrend(demo_dir))
     (row,) = attributes(result["OUTPUT"])
     assert list(row) == DESIGN_FIELDS
     assert row["area"] == "all" and row["n"] == 78 and row["pattern"] == "girdle"
@@ -216,7 +204,7 @@ def test_runs_in_a_graphical_model(provider, demo_dir):
     model.addChildAlgorithm(child)
     result = processing.run(
         model,
-        {"points": f"{demo_dir}/tarrowgill.gpkg|layername=attitudes", "trend:trend_out": "memory:"},
+        {"points": P.demo_layer(demo_dir, "attitudes"), "trend:trend_out": "memory:"},
     )
     layer = result["trend:trend_out"]
     layer = QgsVectorLayer(layer) if isinstance(layer, str) else layer
