@@ -22,7 +22,7 @@ from qgis.PyQt.QtWidgets import (
     QWidget,
 )
 
-from ..algorithms.compat.qgis_compat import INFO, viewer_canvas_crs
+from ..algorithms.compat.qgis_compat import INFO
 from ..algorithms.core.sheet_scale import end_names
 from ..algorithms.inputs import section_views as views
 from ..algorithms.outputs.section_space import SECTION_CRS_WKT, add_measuring_operations
@@ -63,13 +63,10 @@ class SectionViewerPanel(QgsDockWidget):
         column.addWidget(self.caption)
         self.canvas = QgsMapCanvas()
         self.canvas.setCanvasColor(QColor("#ffffff"))
-        # From no CRS to the section view (where the release allows it): a
-        # canvas asked to change CRS transforms its extent, and no transform
-        # reaches the section view.
+        # From no CRS to the section view: a canvas asked to change CRS
+        # transforms its extent, and no transform reaches the section view.
         self.canvas.setDestinationCrs(QgsCoordinateReferenceSystem())
-        self.canvas.setDestinationCrs(
-            viewer_canvas_crs(QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT))
-        )
+        self.canvas.setDestinationCrs(QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT))
         self.canvas.setMinimumSize(320, 200)
         column.addWidget(self.canvas, 1)
         self.setWidget(body)

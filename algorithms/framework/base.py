@@ -15,6 +15,7 @@ from qgis.core import (
     QgsProcessingParameterField,
     QgsProcessingParameterNumber,
     QgsProcessingParameterRasterLayer,
+    QgsProcessingUtils,
 )
 from qgis.PyQt.QtCore import QCoreApplication
 
@@ -31,6 +32,7 @@ from ..compat.qgis_compat import (
 from ..core.north import GRID
 from ..inputs.section_lines import OBVIOUS_LABEL_FIELDS, obvious_label_field
 from ..outputs.output_styles import StyleOnLoad, geopackage_of, save_default_style, style_for
+from ..outputs.section_space import add_measuring_operations, is_section_view
 from .help import help_text
 from .run_guard import OutputRecord, ParameterProblem, destination_asked
 
@@ -139,6 +141,7 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
         for name, destination in self.__dict__.get("destinations", {}).items():
             if geopackage_of(destination) and style_for(self.name(), name) is not None:
                 save_default_style(destination, self.name(), name)
+        _prepare_project_for_section_views(context)
         return {}
 
     def label_field(self, parameters, context, source):
@@ -313,6 +316,22 @@ class SectionwrightAlgorithm(QgsProcessingAlgorithm):
 def sink_results(sinks):
     """The results of a run: the id of every sink that was made."""
     return {name: sink_id for name, (sink, sink_id) in sinks.items() if sink is not None}
+
+
+def _prepare_project_for_section_views(context):
+    """The project the outputs load into learns the section view's
+    operations (section_space.add_measuring_operations) before they load:
+    QGIS looks for a transform from a layer it loads to the map."""
+    project = context.project()
+    if project is None:
+        return
+    loading = [
+        QgsProcessingUtils.mapLayerFromString(layer_id, context)
+        for layer_id in context.layersToLoadOnCompletion()
+    ]
+    views = [layer for layer in loading if layer is not None and is_section_view(layer.crs())]
+    if views:
+        add_measuring_operations(project, views)
 
 
 def _unacceptable(definition, value):

@@ -37,13 +37,19 @@ def add_measuring_operations(project, layers=None):
     operation given lays the section view on the equator at the prime
     meridian by an inverse Mercator on the ellipsoid, true to scale there
     in every direction: a length QGIS measures through it is the section's
-    own length in metres (within 2 ppm for a view 10 km high). The section
-    view stays an engineering CRS, and no map CRS gets a transform to it.
-    Returns whether the context changed."""
+    own length in metres (within 2 ppm for a view 10 km high).
+
+    To the project's own (map) CRS the operation is PROJ's no-op: the
+    section view's numbers taken as they are, which is what QGIS does
+    anyway when it has no transform — but without reporting, each time a
+    section-view layer is loaded or made the current layer, that it has
+    none. Section views still never draw on the map: they load into their
+    own group, hidden (output_styles.py). Returns whether the context
+    changed."""
     context = project.transformContext()
     changed = False
     for source in _spellings(project.mapLayers().values() if layers is None else layers):
-        for target, operation in _measuring_targets(project.ellipsoid()):
+        for target, operation in _targets(project):
             if context.calculateCoordinateOperation(source, target) != operation:
                 context.addCoordinateOperation(source, target, operation, False)
                 changed = True
@@ -59,6 +65,19 @@ def _spellings(layers):
         if provider is not None and is_section_view(provider.crs()):
             spellings.setdefault(provider.crs().toWkt(), provider.crs())
     return list(spellings.values())
+
+
+def _targets(project):
+    """(CRS, PROJ pipeline from the section view to it): the map's CRS (a
+    no-op), then the geographic CRSs QGIS measures in (which win where the
+    map itself is geographic)."""
+    targets = {}
+    map_crs = project.crs()
+    if map_crs.isValid() and not is_section_view(map_crs):
+        targets[map_crs.toWkt()] = (map_crs, "+proj=noop")
+    for target, operation in _measuring_targets(project.ellipsoid()):
+        targets[target.toWkt()] = (target, operation)
+    return list(targets.values())
 
 
 def _measuring_targets(project_ellipsoid):

@@ -93,3 +93,26 @@ def test_a_section_view_layer_has_an_extent_in_wgs84_near_the_origin(qgis_app):
     a, e2 = 6_378_137.0, 0.00669437999014
     assert corner.x() == pytest.approx(10_000 / (2 * math.pi * a / 360), rel=1e-9)
     assert corner.y() == pytest.approx(1_000 / (2 * math.pi * a * (1 - e2) / 360), rel=1e-6)
+
+
+@pytest.mark.parametrize("map_crs", ["EPSG:32633", "EPSG:2056", "EPSG:4326"])
+def test_the_map_and_the_section_view_have_a_transform_that_changes_nothing(qgis_app, map_crs):
+    """Loading a section-view layer, or making it the current layer, has
+    desktop QGIS look for a transform to the map's CRS: it finds the no-op
+    (the numbers QGIS would use anyway), in both directions, and no
+    message. A geographic map keeps the measuring operation (above)."""
+    project = _project("EPSG:7030")
+    project.setCrs(QgsCoordinateReferenceSystem(map_crs))
+    assert not QgsCoordinateTransform(
+        section_crs(), project.crs(), project.transformContext()
+    ).isValid()
+    add_measuring_operations(project)
+    there = QgsCoordinateTransform(section_crs(), project.crs(), project.transformContext())
+    back = QgsCoordinateTransform(project.crs(), section_crs(), project.transformContext())
+    assert there.isValid() and back.isValid()
+    if map_crs == "EPSG:4326":
+        assert there.transform(QgsPointXY(111_319.49, 0)).x() == pytest.approx(1.0, abs=1e-6)
+    else:
+        assert there.transform(QgsPointXY(1234.5, 678.9)) == QgsPointXY(1234.5, 678.9)
+        assert back.transform(QgsPointXY(1234.5, 678.9)) == QgsPointXY(1234.5, 678.9)
+    assert not add_measuring_operations(project)
