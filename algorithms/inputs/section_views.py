@@ -58,7 +58,8 @@ def section_labels(layers):
 
 
 def section_expression(label):
-    return f'"{F.SECTION}" = {QgsExpression.quotedValue(label)}'
+    """The filter that keeps the features of section ``label``."""
+    return f"{QgsExpression.quotedColumnRef(F.SECTION)} = {QgsExpression.quotedValue(label)}"
 
 
 def exaggeration(layers, label):

@@ -3,7 +3,6 @@ small styled layers for its sheet."""
 
 import numpy as np
 from qgis.core import (
-    QgsExpression,
     QgsFeature,
     QgsFeatureRequest,
     QgsFields,
@@ -15,6 +14,7 @@ from qgis.core import (
 
 from ..compat.null import plain
 from ..core.sheet_scale import domain_panels
+from ..inputs.section_views import section_expression
 from ..outputs import fields as F
 from ..outputs.section_space import is_section_view, section_crs
 
@@ -29,10 +29,6 @@ def _memory_layer(kind, name, fields, crs):
     layer.dataProvider().addAttributes(fields.toList())
     layer.updateFields()
     return layer
-
-
-def section_expression(label):
-    return f"{QgsExpression.quotedColumnRef(F.SECTION)} = {QgsExpression.quotedValue(label)}"
 
 
 def copy_section(source, label, name, kind, renderer):
