@@ -327,20 +327,23 @@ def _write_carried(sinks, fields, carried_rows, geometry, settings, feedback):
         # A point already on its line travels nowhere: a line of no length is no geometry.
         moved = np.flatnonzero(np.any(source != landing, axis=1))
         connectors = line_wkbs(np.stack((source[moved], landing[moved]), axis=1))
-        also.append((sinks[OUTPUT_CONNECTORS][0], connectors, moved))
-    points = points_z(*landing.T, elevation)
-    write_rows(sinks[OUTPUT][0], fields, points, columns, feedback, also)
-    stop_if_cancelled(feedback)
+        also.append((sinks[OUTPUT_CONNECTORS][0], connectors, moved, []))
     drawn = np.flatnonzero(~np.isnan(elevation))
+    tick_lines = line_wkbs(ticks[carried][drawn])
+    exaggeration = settings.carry.exaggeration
+    # A tick is its point's feature with a line and the exaggeration, unless
+    # a source field named like the exaggeration is carried on the points
+    # but replaced on the ticks.
+    shared = tick_fields.qgs_fields().names() == fields.names() + [F.EXAGGERATION]
+    if shared:
+        also.append((sinks[OUTPUT_TICKS][0], tick_lines, drawn, [exaggeration]))
+    write_rows(sinks[OUTPUT][0], fields, points_z(*landing.T, elevation), columns, feedback, also)
+    if shared:
+        return
+    stop_if_cancelled(feedback)
     tick_columns = {name: [values[i] for i in drawn] for name, values in columns.items()}
-    tick_columns[F.EXAGGERATION] = [settings.carry.exaggeration] * len(drawn)
-    write_rows(
-        sinks[OUTPUT_TICKS][0],
-        tick_fields.qgs_fields(),
-        line_wkbs(ticks[carried][drawn]),
-        tick_columns,
-        feedback,
-    )
+    tick_columns[F.EXAGGERATION] = [exaggeration] * len(drawn)
+    write_rows(sinks[OUTPUT_TICKS][0], tick_fields.qgs_fields(), tick_lines, tick_columns, feedback)
 
 
 def _usable_parts(settings, work_crs, context, feedback):

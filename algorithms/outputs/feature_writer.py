@@ -47,10 +47,12 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     (as read from a source) or None, or None for a table. Cancel
     is looked at between batches.
 
-    ``also`` lists further sinks of the same fields as (sink, geometries,
-    rows): they take the features of ``rows`` (ascending integer index) with
-    those geometries instead (a tick beside each point); their attributes
-    are converted and set once for all sinks.
+    ``also`` lists further sinks as (sink, geometries, rows, appended): they
+    take the features of ``rows`` (ascending integer index) with those
+    geometries instead (a tick beside each point) and the ``appended``
+    values after the fields (the same for every row; their fields follow
+    ``fields`` in that sink); the attributes are converted and set once for
+    all sinks.
     """
     names = fields.names()
     missing = [name for name in names if name not in columns]
@@ -61,7 +63,10 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     count = len(wkbs) if wkbs is not None else len(values[0]) if values else 0
     if any(len(v) != count for v in values):
         raise ValueError("columns and geometries differ in length")
-    others = [(other, geometry_wkbs(shapes), np.asarray(rows)) for other, shapes, rows in also]
+    others = [
+        (other, geometry_wkbs(shapes), np.asarray(rows), appended)
+        for other, shapes, rows, appended in also
+    ]
     written = 0
     for start in range(0, count, BATCH):
         stop_if_cancelled(feedback)
@@ -71,12 +76,12 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
         with collector_paused():
             features = [_feature(row, geometry) for row, geometry in zip(rows, shapes)]
         sink.addFeatures(features, FAST_INSERT)
-        for other, wkbs_of_other, rows_of_other in others:
+        for other, wkbs_of_other, rows_of_other, appended in others:
             low, high = np.searchsorted(rows_of_other, (start, stop))
             shapes_of_other = qgis_geometries(wkbs_of_other[low:high])
             with collector_paused():
                 copies = [
-                    _with_geometry(features[row - start], geometry)
+                    _copy(features[row - start], geometry, len(names), appended)
                     for row, geometry in zip(rows_of_other[low:high].tolist(), shapes_of_other)
                 ]
             other.addFeatures(copies, FAST_INSERT)
@@ -84,10 +89,15 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     return written
 
 
-def _with_geometry(feature, geometry):
-    """A copy of ``feature`` (its attributes shared, not set again)."""
+def _copy(feature, geometry, count, appended):
+    """A copy of ``feature`` (its ``count`` attributes shared, not set
+    again) with another geometry and the ``appended`` values after them."""
     copy = QgsFeature(feature)
     copy.setGeometry(geometry)
+    if appended:
+        copy.resizeAttributes(count + len(appended))
+        for index, value in enumerate(appended, start=count):
+            copy.setAttribute(index, value)
     return copy
 
 
