@@ -175,10 +175,14 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         with bounded_gdal_cache():
             sampler = DemSampler(settings.dem, 1, settings.z_factor, work_crs)
             step = sampler.cell_size(usable[0].coords[0]) if usable else 1.0
-            intervals = [
-                self._intervals(p.coords, polygons, polygon_units, polygon_tree) for p in usable
-            ]
-            crossings = self._crossings(usable, intervals, contacts, kinds, contact_tree)
+            intervals = []
+            for part in usable:
+                stop_if_cancelled(feedback)
+                intervals.append(
+                    self._intervals(part.coords, polygons, polygon_units, polygon_tree)
+                )
+                feedback.setProgress(10.0 * len(intervals) / len(usable))
+            crossings = self._crossings(usable, intervals, contacts, kinds, contact_tree, feedback)
             sampled = self._sample(usable, intervals, crossings, step, sampler, feedback)
             stop_if_cancelled(feedback)
             estimates = (
@@ -209,7 +213,7 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         for (chainage, xy), elevation in sample_ahead(jobs, sampler):
             stop_if_cancelled(feedback)
             sampled.append((chainage, xy, elevation))
-            feedback.setProgress(60.0 * len(sampled) / max(len(parts), 1))
+            feedback.setProgress(20.0 + 40.0 * len(sampled) / max(len(parts), 1))
         return sampled
 
     @staticmethod
@@ -257,9 +261,11 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         return unit_intervals(coords, polygons, polygon_units, tree)
 
     @staticmethod
-    def _crossings(parts, intervals, contacts, kinds, contact_tree):
+    def _crossings(parts, intervals, contacts, kinds, contact_tree, feedback):
         crossings = []
         for index, (part, stretch) in enumerate(zip(parts, intervals)):
+            stop_if_cancelled(feedback)
+            feedback.setProgress(10.0 + 10.0 * index / len(parts))
             for chainage, before, after in zip(*boundary_crossings(stretch)):
                 crossings.append(
                     Crossing(index, float(chainage), UNIT_BOUNDARY, int(before), int(after))

@@ -278,7 +278,7 @@ class ProjectBoreholesAlgorithm(SectionwrightAlgorithm):
         to_map = transformer(crs_wkt(work_crs), crs_wkt(settings.lines.sourceCrs()))
         labels_of = np.array([p.label for p in parts], dtype=object)
         ranges = _write_holes(
-            sinks, network, holes, samples, labels_of, to_map, valid_intervals, settings
+            sinks, network, holes, samples, labels_of, to_map, valid_intervals, settings, feedback
         )
         _warn_wandering(holes, labels_of, *ranges, settings.max_distance, feedback)
         feedback.setProgress(90)
@@ -411,7 +411,7 @@ def _read_table(table, holes):
     return values
 
 
-def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, settings):
+def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, settings, feedback):
     """The holes (and their traces and intervals) drawn; returns each drawn
     hole's collar index and offset range."""
     hole = samples["hole"]
@@ -419,6 +419,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
         return np.empty(0, dtype=int), np.empty(0), np.empty(0)
     exaggeration = settings.exaggeration
     chainage, offset = network.locate(holes["line"][hole], samples["xyz"][:, :2], extend=True)
+    stop_if_cancelled(feedback)
     view = np.column_stack((chainage, samples["xyz"][:, 2] * exaggeration))
     group = np.cumsum(np.r_[True, hole[1:] != hole[:-1]]) - 1
     drawn = hole[np.flatnonzero(np.r_[True, hole[1:] != hole[:-1]])]
@@ -437,6 +438,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
         F.BOREHOLES.qgs_fields(),
         shapely.linestrings(view, indices=group),
         columns,
+        feedback,
     )
     if sinks[OUTPUT_TRACES][0] is not None:
         map_x, map_y = to_map(samples["xyz"][:, 0], samples["xyz"][:, 1])
@@ -446,6 +448,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
             F.BOREHOLE_TRACES.qgs_fields(),
             shapely.linestrings(trace, indices=group),
             columns,
+            feedback,
         )
     if sinks[OUTPUT_INTERVALS][0] is not None and len(intervals["hole"]):
         _write_intervals(
@@ -457,6 +460,7 @@ def _write_holes(sinks, network, holes, samples, labels_of, to_map, intervals, s
             offset,
             labels_of,
             exaggeration,
+            feedback,
         )
     return drawn, low, high
 
@@ -472,7 +476,9 @@ def _warn_wandering(holes, labels_of, drawn, low, high, max_distance, feedback):
             )
 
 
-def _write_intervals(sink, holes, samples, intervals, view, offset, labels_of, exaggeration):
+def _write_intervals(
+    sink, holes, samples, intervals, view, offset, labels_of, exaggeration, feedback
+):
     kept, rows, piece = interval_runs(
         samples["hole"], samples["md"], intervals["hole"], intervals["from"], intervals["to"]
     )
@@ -489,7 +495,7 @@ def _write_intervals(sink, holes, samples, intervals, view, offset, labels_of, e
         F.EXAGGERATION: np.full(len(kept), exaggeration),
     }
     lines = shapely.linestrings(view[rows], indices=piece)
-    write_rows(sink, F.BOREHOLE_INTERVALS.qgs_fields(), lines, columns)
+    write_rows(sink, F.BOREHOLE_INTERVALS.qgs_fields(), lines, columns, feedback)
 
 
 def _point(geometry):
