@@ -115,7 +115,8 @@ class TiledRaster:
                 out[2, whole] = tile[bottom, left]
                 out[3, whole] = tile[bottom, right]
             if len(single):
-                flat[cells.slots[single]] = tile[cells.rows[single] - row0, cells.cols[single] - col0]
+                rows, cols = cells.rows[single] - row0, cells.cols[single] - col0
+                flat[cells.slots[single]] = tile[rows, cols]
 
 
 @dataclass
