@@ -126,7 +126,13 @@ class AttitudeSettings:
         self.declination_field = algorithm.parameterAsString(parameters, DECLINATION_FIELD, context)
 
     def read(self, source, feedback, progress_share=30.0):
-        """Every feature's attributes, geometry, point and plane."""
+        """Every feature's attributes, geometry, point and plane. Every
+        feature leaves a few objects alive: the cycle collector, which
+        would walk them all again and again (half the reading time), rests."""
+        with collector_paused():
+            return self._read(source, feedback, progress_share)
+
+    def _read(self, source, feedback, progress_share):
         rows = AttitudeRows()
         chosen = {n: self.fields[n] for n in NEEDS[self.convention]}
         if self.declination_field:
@@ -138,18 +144,15 @@ class AttitudeSettings:
         wkbs = []
         total = max(source.featureCount(), 1)
         features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
-        # Every feature leaves a few wrappers alive: the collector would
-        # walk them all again and again (half the reading time).
-        with collector_paused():
-            for number, feature in enumerate(features):
-                rows.fids.append(feature.id())
-                rows.attributes.append(feature.attributes())
-                geometry = feature.geometry()
-                rows.geometries.append(geometry)
-                wkbs.append(bytes(geometry.asWkb()) or None)
-                if number % 1000 == 0:
-                    stop_if_cancelled(feedback)
-                    feedback.setProgress(progress_share * number / total)
+        for number, feature in enumerate(features):
+            rows.fids.append(feature.id())
+            rows.attributes.append(feature.attributes())
+            geometry = feature.geometry()
+            rows.geometries.append(geometry)
+            wkbs.append(bytes(geometry.asWkb()) or None)
+            if number % 1000 == 0:
+                stop_if_cancelled(feedback)
+                feedback.setProgress(progress_share * number / total)
         rows.xyz, rows.geometry_reasons = point_positions(wkbs)
         indices = [source.fields().lookupField(name) for name in wanted]
         raw = {
