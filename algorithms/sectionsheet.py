@@ -42,7 +42,7 @@ from .inputs.section_lines import read_section_parts, working_crs
 from .inputs.section_views import section_view_layers, sheet_inputs
 from .outputs import fields as F
 from .outputs import styles
-from .outputs.section_space import is_section_view
+from .outputs.section_space import add_measuring_operations, is_section_view
 from .outputs.skipped import skip_sections
 from .sheet.builder import (
     AXES,
@@ -323,6 +323,10 @@ class SectionSheetAlgorithm(SectionwrightAlgorithm):
         if not sections:
             raise QgsProcessingException("No section could be drawn: see the log.")
         project = context.project() if settings.add_layout and context.project() else QgsProject()
+        # Before the first map item: its render context measures in the section view.
+        add_measuring_operations(
+            project, [*project.mapLayers().values(), *settings.inputs.values()]
+        )
         layout = QgsPrintLayout(project)
         layout.initializeDefaults()
         layout.setName(settings.title)

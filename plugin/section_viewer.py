@@ -22,10 +22,10 @@ from qgis.PyQt.QtWidgets import (
     QWidget,
 )
 
-from ..algorithms.compat.qgis_compat import INFO
+from ..algorithms.compat.qgis_compat import INFO, viewer_canvas_crs
 from ..algorithms.core.sheet_scale import end_names
 from ..algorithms.inputs import section_views as views
-from ..algorithms.outputs.section_space import SECTION_CRS_WKT
+from ..algorithms.outputs.section_space import SECTION_CRS_WKT, add_measuring_operations
 
 TITLE = "Sectionwright section viewer"
 
@@ -63,10 +63,13 @@ class SectionViewerPanel(QgsDockWidget):
         column.addWidget(self.caption)
         self.canvas = QgsMapCanvas()
         self.canvas.setCanvasColor(QColor("#ffffff"))
-        # From no CRS to the section view: a canvas asked to change CRS
-        # transforms its extent, and no transform reaches the section view.
+        # From no CRS to the section view (where the release allows it): a
+        # canvas asked to change CRS transforms its extent, and no transform
+        # reaches the section view.
         self.canvas.setDestinationCrs(QgsCoordinateReferenceSystem())
-        self.canvas.setDestinationCrs(QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT))
+        self.canvas.setDestinationCrs(
+            viewer_canvas_crs(QgsCoordinateReferenceSystem.fromWkt(SECTION_CRS_WKT))
+        )
         self.canvas.setMinimumSize(320, 200)
         column.addWidget(self.canvas, 1)
         self.setWidget(body)
@@ -119,6 +122,9 @@ class SectionViewerPanel(QgsDockWidget):
             self.chooser.blockSignals(True)
             self.chooser.setCurrentText(label)
             self.chooser.blockSignals(False)
+        # The project may be new since the last section: the canvas measures
+        # in the section view with the project's transform context.
+        add_measuring_operations(QgsProject.instance())
         self.shown = views.one_section(self.layers, label)
         self.canvas.setLayers(self.shown)
         extent = views.extent_of(self.shown)

@@ -108,7 +108,11 @@ def keep_memory_layers(project, gpkg):
             raise RuntimeError(f"could not keep {layer.name()} in {gpkg}")
         renderer, labeling = layer.renderer().clone(), layer.labeling()
         labeling = labeling.clone() if labeling is not None else None
+        crs = layer.crs()
         layer.setDataSource(f"{gpkg}|layername={table}", layer.name(), "ogr")
+        # The GeoPackage hands back its own spelling of the CRS; the section
+        # view's is kept, so that its canvas draws the layer untransformed.
+        layer.setCrs(crs)
         layer.setRenderer(renderer)
         if labeling is not None:
             layer.setLabeling(labeling)
@@ -162,8 +166,8 @@ def main(demo):
     project = QgsProject()
     project.setFileName(str(demo / "tarrowgill.qgz"))
     project.setCrs(QgsCoordinateReferenceSystem("EPSG:32633"))
-    # Planar measures: an ellipsoid would make QGIS look for a transform from
-    # the section view to geographic coordinates, and there is none.
+    # Planar measures on the map, as chainage is grid distance. The section
+    # view measures through the operations the sheet adds to the project.
     project.setEllipsoid("NONE")
 
     def add(path, layer_name, name, group, provider_name="ogr", renderer=None):

@@ -9,7 +9,14 @@ later the old names are aliases that QGIS patches in for old scripts
 """
 
 import qgis.core
-from qgis.core import Qgis, QgsFeatureSink, QgsLayoutExporter, QgsUnitTypes, QgsWkbTypes
+from qgis.core import (
+    Qgis,
+    QgsCoordinateReferenceSystem,
+    QgsFeatureSink,
+    QgsLayoutExporter,
+    QgsUnitTypes,
+    QgsWkbTypes,
+)
 
 # Menu actions of the plugin's desktop glue. Qt6 has QAction in QtGui, and
 # so has QGIS 3.44's qgis.PyQt.QtGui for Qt5; 3.22's has it in QtWidgets only.
@@ -94,7 +101,6 @@ FILL_COLOUR_PROPERTY = _scoped(
     "QgsSymbolLayer.PropertyFillColor",
     qgis_namespace=qgis.core.QgsSymbolLayer,
 )
-LABEL_AROUND_POINT = _scoped("LabelPlacement", "AroundPoint", "QgsPalLayerSettings.AroundPoint")
 OBSTACLE_WHOLE_POLYGON = _scoped(
     "LabelObstacleType", "PolygonWhole", "QgsLabelObstacleSettings.ObstacleType.PolygonWhole"
 )
@@ -166,3 +172,14 @@ def save_default_style(layer, name, description):
     if hasattr(layer, "saveStyleToDatabaseV2"):
         return layer.saveStyleToDatabaseV2(name, description, True, "")
     return layer.saveStyleToDatabase(name, description, True, "")
+
+
+def viewer_canvas_crs(section_crs):
+    """The CRS for a canvas that shows the section view: the section view
+    itself; no CRS on QGIS 3.22, whose canvases all draw the project's main
+    annotation layer (in the map's CRS) and so ask for a transform from the
+    map to the section view, which does not exist (nor should it: section
+    views would land on the map). Without a CRS the canvas draws the
+    section-view layers as they are, chainage and elevation unchanged.
+    QGIS 3.40 and 3.44 do not draw that layer there."""
+    return section_crs if Qgis.QGIS_VERSION_INT >= 34000 else QgsCoordinateReferenceSystem()

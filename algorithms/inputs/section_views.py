@@ -91,6 +91,8 @@ def _section_of(layer, label):
     copy = QgsMemoryProviderUtils.createMemoryLayer(
         layer.name(), layer.fields(), layer.wkbType(), layer.crs()
     )
+    # Its extent is worked out in WGS 84 as features come in.
+    copy.setTransformContext(layer.transformContext())
     request = QgsFeatureRequest().setFilterExpression(section_expression(label))
     copy.dataProvider().addFeatures(list(layer.getFeatures(request)))
     copy.updateExtents()

@@ -56,22 +56,27 @@ def test_outputs_run_from_the_desktop_load_styled_and_section_views_hidden(repor
     assert added and all(row["visible"] for row in added.values()), added
 
 
-def test_no_error_from_the_plugin_or_python(report):
+# What is left on QGIS 3.22: when Processing loads a section-view output
+# into a project whose map has a CRS, the desktop looks for a transform from
+# the section view to the map's CRS, which does not exist (nor should it:
+# section views would land on the map). Seen with the viewer closed too;
+# the viewer's own canvas no longer asks (compat.viewer_canvas_crs).
+SECTION_VIEW_LOADED_INTO_THE_MAP = "No transform available between Section view and EPSG:32633"
+
+
+def test_no_error_from_the_plugin_python_or_qgis(report):
     errors = [
-        m
+        m["message"]
         for m in report["messages"]
-        if m["level"] >= CRITICAL and "transform" not in m["message"].lower()
+        if m["level"] >= CRITICAL and m["message"] != SECTION_VIEW_LOADED_INTO_THE_MAP
     ]
     assert errors == []
 
 
 @pytest.mark.xfail(
-    reason="open: QGIS logs 'No transform available between Section view and …' whenever "
-    "a map in the section view is given a render context (QgsRenderContext::fromMapSettings "
-    "sets its QgsDistanceArea's source CRS, which needs a transform to geographic "
-    "coordinates; an engineering CRS has none): the sheets' scale bars while the project "
-    "loads, and the viewer's canvas",
-    strict=False,
+    reason="open on QGIS 3.22: loading a section-view output into the map project "
+    "looks for a transform from the section view to the map's CRS",
+    strict=True,
 )
 def test_no_error_message_at_all(report):
     assert [m["message"] for m in report["messages"] if m["level"] >= CRITICAL] == []
