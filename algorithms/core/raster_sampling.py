@@ -14,6 +14,7 @@ with cell *centres* at whole numbers; the raster's outer edge is at -0.5 and
 """
 
 from concurrent.futures import ThreadPoolExecutor
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -47,6 +48,9 @@ class TiledRaster:
         self.tiles_across = -(-self.cols // self.tile_cols)
         self.tiles_read = 0
 
+    def _key(self, rows, cols):
+        return (rows // self.tile_rows) * self.tiles_across + cols // self.tile_cols
+
     def _read_tile(self, reader, key):
         tile_row, tile_col = divmod(key, self.tiles_across)
         row0 = tile_row * self.tile_rows
@@ -62,36 +66,90 @@ class TiledRaster:
             ),
         )
 
-    def _gather(self, reader, groups, rows, cols, out):
-        for key, pick in groups:
-            row0, col0, tile = self._read_tile(reader, key)
-            out[pick] = tile[rows[pick] - row0, cols[pick] - col0]
+    def corners(self, r0, c0, r1, c1):
+        """Values of the four cells (r0, c0), (r0, c1), (r1, c0), (r1, c1) of
+        each position (integer arrays inside the raster, r1 >= r0, c1 >= c0),
+        as a (4, n) array. Each tile the cells lie in is read once.
 
-    def cells(self, rows, cols):
-        """Values of the cells at integer (rows, cols), all inside the raster."""
-        rows = np.asarray(rows, dtype=np.int64)
-        cols = np.asarray(cols, dtype=np.int64)
-        keys = (rows // self.tile_rows) * self.tiles_across + cols // self.tile_cols
-        order = np.argsort(keys, kind="stable")
-        sorted_keys = keys[order]
-        starts = np.flatnonzero(np.r_[True, sorted_keys[1:] != sorted_keys[:-1]])
-        ends = np.r_[starts[1:], len(order)]
-        groups = [(int(sorted_keys[s]), order[s:e]) for s, e in zip(starts, ends)]
-        self.tiles_read += len(groups)
-        out = np.empty(rows.shape, dtype=float)
-        if len(self.readers) == 1 or len(groups) < 2:
-            self._gather(self.readers[0], groups, rows, cols, out)
+        A position whose four cells share a tile (all but those on a tile's
+        last row or column) is served whole by that tile; only the few that
+        straddle tiles are looked up cell by cell."""
+        n = len(r0)
+        out = np.empty((4, n))
+        key = self._key(r0, c0)
+        straddles = self._key(r1, c1) != key
+        whole = np.flatnonzero(~straddles)
+        split = np.flatnonzero(straddles)
+        cells = _Cells(
+            (r0, c0, r1, c1),
+            np.concatenate((r0[split], r0[split], r1[split], r1[split])),
+            np.concatenate((c0[split], c1[split], c0[split], c1[split])),
+            np.concatenate([split + k * n for k in range(4)]),
+        )
+        jobs = _tile_jobs(key[whole], whole, self._key(cells.rows, cells.cols))
+        self.tiles_read += len(jobs)
+        if len(self.readers) == 1 or len(jobs) < 2:
+            self._fill(self.readers[0], jobs, cells, out)
             return out
         # Each reader has its own handle; readers release Python's lock while
         # they decompress, so tiles decode in parallel.
-        shares = [groups[i :: len(self.readers)] for i in range(len(self.readers))]
+        shares = [jobs[i :: len(self.readers)] for i in range(len(self.readers))]
         with ThreadPoolExecutor(max_workers=len(self.readers)) as pool:
             for done in [
-                pool.submit(self._gather, reader, share, rows, cols, out)
+                pool.submit(self._fill, reader, share, cells, out)
                 for reader, share in zip(self.readers, shares)
             ]:
                 done.result()
         return out
+
+    def _fill(self, reader, jobs, cells, out):
+        r0, c0, r1, c1 = cells.corners
+        flat = out.reshape(-1)
+        for key, whole, single in jobs:
+            row0, col0, tile = self._read_tile(reader, key)
+            if len(whole):
+                top, bottom = r0[whole] - row0, r1[whole] - row0
+                left, right = c0[whole] - col0, c1[whole] - col0
+                out[0, whole] = tile[top, left]
+                out[1, whole] = tile[top, right]
+                out[2, whole] = tile[bottom, left]
+                out[3, whole] = tile[bottom, right]
+            if len(single):
+                rows, cols = cells.rows[single] - row0, cells.cols[single] - col0
+                flat[cells.slots[single]] = tile[rows, cols]
+
+
+@dataclass
+class _Cells:
+    """The positions' corner cells, and the cells looked up one by one:
+    their rows, columns and places in the flattened (4, n) result."""
+
+    corners: tuple
+    rows: np.ndarray
+    cols: np.ndarray
+    slots: np.ndarray
+
+
+def _grouped(keys):
+    """{key: indices} per distinct key."""
+    if not len(keys):
+        return {}
+    order = np.argsort(keys, kind="stable")
+    sorted_keys = keys[order]
+    starts = np.flatnonzero(np.r_[True, sorted_keys[1:] != sorted_keys[:-1]])
+    ends = np.r_[starts[1:], len(order)]
+    return {int(sorted_keys[s]): order[s:e] for s, e in zip(starts, ends)}
+
+
+def _tile_jobs(whole_keys, whole, single_keys):
+    """(tile key, positions served whole, single cells) per tile needed."""
+    by_tile = {key: whole[pick] for key, pick in _grouped(whole_keys).items()}
+    singles = _grouped(single_keys)
+    empty = np.empty(0, dtype=np.int64)
+    return [
+        (key, by_tile.get(key, empty), singles.get(key, empty))
+        for key in sorted(by_tile.keys() | singles.keys())
+    ]
 
 
 def _corner_indices(position, count):
@@ -125,15 +183,15 @@ def bilinear(u, v, raster):
         return z
     c0, c1, fx = _corner_indices(u[inside], raster.cols)
     r0, r1, fy = _corner_indices(v[inside], raster.rows)
-    rows = np.concatenate((r0, r0, r1, r1))
-    cols = np.concatenate((c0, c1, c0, c1))
-    weights = np.concatenate(((1 - fx) * (1 - fy), fx * (1 - fy), (1 - fx) * fy, fx * fy))
-    values = raster.cells(rows, cols)
-    carries = weights > 0
-    missing = carries & np.isnan(values)
-    terms = np.where(carries, values, 0.0) * weights
-    n = len(r0)
-    total = terms.reshape(4, n).sum(axis=0)
-    total[missing.reshape(4, n).any(axis=0)] = np.nan
+    values = raster.corners(r0, c0, r1, c1)
+    weights = np.stack(((1 - fx) * (1 - fy), fx * (1 - fy), (1 - fx) * fy, fx * fy))
+    total = (values * weights).sum(axis=0)
+    # NaN where a cell has no data; it counts only where it carries weight.
+    doubtful = np.flatnonzero(np.isnan(total))
+    if len(doubtful):
+        kept, carries = values[:, doubtful], weights[:, doubtful] > 0
+        redone = (np.where(carries, kept, 0.0) * weights[:, doubtful]).sum(axis=0)
+        redone[(carries & np.isnan(kept)).any(axis=0)] = np.nan
+        total[doubtful] = redone
     z[inside] = total
     return z

@@ -27,6 +27,7 @@ from ..core.north import GRID, MAGNETIC, TRUE, meridian_convergence, to_grid
 from ..core.wkb import from_wkb
 from ..framework.base import DECLINATION, NORTH_REFERENCE
 from ..framework.run_guard import ParameterProblem, stop_if_cancelled
+from ..outputs.feature_writer import collector_paused
 
 CONVENTION = "CONVENTION"
 AZIMUTH_FIELD = "AZIMUTH_FIELD"
@@ -125,7 +126,13 @@ class AttitudeSettings:
         self.declination_field = algorithm.parameterAsString(parameters, DECLINATION_FIELD, context)
 
     def read(self, source, feedback, progress_share=30.0):
-        """Every feature's attributes, geometry, point and plane."""
+        """Every feature's attributes, geometry, point and plane. Every
+        feature leaves a few objects alive: the cycle collector, which
+        would walk them all again and again (half the reading time), rests."""
+        with collector_paused():
+            return self._read(source, feedback, progress_share)
+
+    def _read(self, source, feedback, progress_share):
         rows = AttitudeRows()
         chosen = {n: self.fields[n] for n in NEEDS[self.convention]}
         if self.declination_field:
@@ -138,13 +145,13 @@ class AttitudeSettings:
         total = max(source.featureCount(), 1)
         features = source.getFeatures(QgsFeatureRequest(), SKIP_GEOMETRY_CHECKS)
         for number, feature in enumerate(features):
-            stop_if_cancelled(feedback)
             rows.fids.append(feature.id())
             rows.attributes.append(feature.attributes())
             geometry = feature.geometry()
             rows.geometries.append(geometry)
             wkbs.append(bytes(geometry.asWkb()) or None)
             if number % 1000 == 0:
+                stop_if_cancelled(feedback)
                 feedback.setProgress(progress_share * number / total)
         rows.xyz, rows.geometry_reasons = point_positions(wkbs)
         indices = [source.fields().lookupField(name) for name in wanted]
@@ -194,15 +201,56 @@ def point_positions(wkbs):
     ([[1.0, 2.0, 3.0], [4.0, 5.0, nan]], ['', '', 'empty geometry', 'multi-part point', \
 'null geometry'])
     """
+    xyz = np.full((len(wkbs), 3), np.nan)
+    reasons = np.full(len(wkbs), "", dtype=object)
+    rest = np.flatnonzero(~_plain_points(wkbs, xyz))
+    if len(rest):
+        xyz[rest], reasons[rest] = _positions_by_geos([wkbs[i] for i in rest])
+    return xyz, reasons
+
+
+# ISO WKB of single points as QGIS writes them: {length: {type: z column}}
+# (None: no z); 1 byte order, 4 bytes type, then 2-4 doubles.
+_PLAIN_POINTS = {21: {1: None}, 29: {1001: 2, 2001: None}, 37: {3001: 2}}
+
+
+def _plain_points(wkbs, xyz):
+    """Reads, by numpy, the rows whose WKB is a little-endian single point
+    with finite coordinates (nearly always all of them) into ``xyz``; True
+    for those rows. The rest (null, empty, multi-points …) is GEOS's.
+
+    >>> import struct
+    >>> wkbs = [struct.pack("<BIddd", 1, 1001, 1, 2, 3), struct.pack("<BIdd", 1, 1, 4, 5)]
+    >>> _plain_points(wkbs + [None], np.full((3, 3), np.nan)).tolist()
+    [True, True, False]
+    """
+    lengths = np.fromiter((0 if w is None else len(w) for w in wkbs), np.int64, len(wkbs))
+    done = np.zeros(len(wkbs), dtype=bool)
+    for length, z_columns in _PLAIN_POINTS.items():
+        rows = np.flatnonzero(lengths == length)
+        if not len(rows):
+            continue
+        raw = np.frombuffer(b"".join([wkbs[i] for i in rows]), np.uint8).reshape(-1, length)
+        kinds = raw[:, 1:5].copy().view("<u4")[:, 0]
+        coords = raw[:, 5:].copy().view("<f8")
+        finite = (raw[:, 0] == 1) & np.isfinite(coords).all(axis=1)
+        for kind, z_column in z_columns.items():
+            pick = finite & (kinds == kind)
+            xyz[rows[pick], :2] = coords[pick, :2]
+            if z_column is not None:
+                xyz[rows[pick], 2] = coords[pick, z_column]
+            done[rows[pick]] = True
+    return done
+
+
+def _positions_by_geos(wkbs):
     geometries = np.array([None] * len(wkbs), dtype=object)
     present = np.array([w is not None for w in wkbs], dtype=bool)
     geometries[present] = from_wkb([w for w in wkbs if w is not None])
     parts = shapely.get_num_geometries(geometries)
-    single = np.where(
-        shapely.get_type_id(geometries) == shapely.GeometryType.MULTIPOINT,
-        shapely.get_geometry(geometries, 0),
-        geometries,
-    )
+    single = geometries.copy()
+    multi = shapely.get_type_id(geometries) == shapely.GeometryType.MULTIPOINT
+    single[multi] = shapely.get_geometry(geometries[multi], 0)
     empty = present & shapely.is_empty(geometries)
     reasons = np.select(
         [~present, empty, present & (parts != 1)],

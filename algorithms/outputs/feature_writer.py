@@ -5,7 +5,7 @@ alternatives side by side).
 What makes it fast: the geometries of a whole batch go to QGIS as one
 GeometryCollection WKB, parsed in C++ and split by ``asGeometryCollection``;
 attribute values are converted per column by numpy, not per value; Python's
-cycle collector rests while a batch's features are made; the features of a
+cycle collector rests while the rows are written; the features of a
 batch go to the sink in one ``addFeatures`` call; a second sink of the same
 rows takes copies that share the attributes. What is left per row is making
 the ``QgsFeature`` itself (a few µs, more with many fields). Text that QGIS
@@ -47,11 +47,19 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     (as read from a source) or None, or None for a table. Cancel
     is looked at between batches.
 
-    ``also`` lists further sinks of the same fields as (sink, geometries,
-    rows): they take the features of ``rows`` (ascending integer index) with
-    those geometries instead (a tick beside each point); their attributes
-    are converted and set once for all sinks.
+    ``also`` lists further sinks as (sink, geometries, rows, appended): they
+    take the features of ``rows`` (ascending integer index) with those
+    geometries instead (a tick beside each point) and the ``appended``
+    values after the fields (the same for every row; their fields follow
+    ``fields`` in that sink); the attributes are converted and set once for
+    all sinks. Python's cycle collector rests throughout: the rows make no
+    cycles, and between batches it would walk every live row again.
     """
+    with collector_paused():
+        return _write_rows(sink, fields, geometries, columns, feedback, also)
+
+
+def _write_rows(sink, fields, geometries, columns, feedback, also):
     names = fields.names()
     missing = [name for name in names if name not in columns]
     if missing:
@@ -61,33 +69,39 @@ def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
     count = len(wkbs) if wkbs is not None else len(values[0]) if values else 0
     if any(len(v) != count for v in values):
         raise ValueError("columns and geometries differ in length")
-    others = [(other, geometry_wkbs(shapes), np.asarray(rows)) for other, shapes, rows in also]
+    others = [
+        (other, geometry_wkbs(shapes), np.asarray(rows), appended)
+        for other, shapes, rows, appended in also
+    ]
     written = 0
     for start in range(0, count, BATCH):
         stop_if_cancelled(feedback)
         stop = min(start + BATCH, count)
         rows = zip(*(v[start:stop] for v in values)) if values else repeat((), stop - start)
         shapes = repeat(None) if wkbs is None else qgis_geometries(wkbs[start:stop])
-        with collector_paused():
-            features = [_feature(row, geometry) for row, geometry in zip(rows, shapes)]
+        features = [_feature(row, geometry) for row, geometry in zip(rows, shapes)]
         sink.addFeatures(features, FAST_INSERT)
-        for other, wkbs_of_other, rows_of_other in others:
+        for other, wkbs_of_other, rows_of_other, appended in others:
             low, high = np.searchsorted(rows_of_other, (start, stop))
             shapes_of_other = qgis_geometries(wkbs_of_other[low:high])
-            with collector_paused():
-                copies = [
-                    _with_geometry(features[row - start], geometry)
-                    for row, geometry in zip(rows_of_other[low:high].tolist(), shapes_of_other)
-                ]
+            copies = [
+                _copy(features[row - start], geometry, len(names), appended)
+                for row, geometry in zip(rows_of_other[low:high].tolist(), shapes_of_other)
+            ]
             other.addFeatures(copies, FAST_INSERT)
         written += stop - start
     return written
 
 
-def _with_geometry(feature, geometry):
-    """A copy of ``feature`` (its attributes shared, not set again)."""
+def _copy(feature, geometry, count, appended):
+    """A copy of ``feature`` (its ``count`` attributes shared, not set
+    again) with another geometry and the ``appended`` values after them."""
     copy = QgsFeature(feature)
     copy.setGeometry(geometry)
+    if appended:
+        copy.resizeAttributes(count + len(appended))
+        for index, value in enumerate(appended, start=count):
+            copy.setAttribute(index, value)
     return copy
 
 
@@ -202,6 +216,5 @@ def qgis_geometries(items):
     else:
         collection = QgsGeometry()
         collection.fromWkb(struct.pack("<BII", 1, WKB_COLLECTION, len(wkbs)) + b"".join(wkbs))
-        with collector_paused():
-            parsed = iter(collection.asGeometryCollection() if wkbs else ())
+        parsed = iter(collection.asGeometryCollection() if wkbs else ())
     return [next(parsed) if isinstance(w, bytes) else w for w in items]
