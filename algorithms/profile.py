@@ -30,6 +30,7 @@ from .framework.base import (
     sink_results,
 )
 from .framework.ledger import RunLedger
+from .framework.parameter_names import DEM_BAND
 from .framework.run_guard import stop_if_cancelled
 from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
@@ -39,7 +40,6 @@ from .outputs.geometry_io import points_z
 from .outputs.section_space import section_crs
 from .outputs.skipped import skip_sections
 
-DEM_BAND = "DEM_BAND"
 STEP = "STEP"
 OUTPUT = "OUTPUT"
 OUTPUT_LINE = "OUTPUT_LINE"

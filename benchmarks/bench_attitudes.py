@@ -72,10 +72,10 @@ def shapely_reference(coords, xy):
     return len(first)
 
 
-def through_processing(coords, xy, dip_direction, dip, z=None):
-    """processing.run on memory layers; with ``z`` the points are 3-D, so
-    that every carried attitude has an elevation and gets its dip tick."""
-    import processing
+def layers(coords, xy, dip_direction, dip, z=None):
+    """Memory layers of the section lines and the attitude points; with
+    ``z`` the points are 3-D, so that every carried attitude has an
+    elevation and gets its dip tick."""
     from qgis.core import QgsFeature, QgsGeometry, QgsPoint, QgsPointXY, QgsVectorLayer
 
     lines = QgsVectorLayer("LineString?crs=EPSG:32633&field=name:string", "l", "memory")
@@ -97,22 +97,32 @@ def through_processing(coords, xy, dip_direction, dip, z=None):
         f.setAttributes([a, d])
         features.append(f)
     points.dataProvider().addFeatures(features)
+    return lines, points
+
+
+def parameters(lines, points):
+    """projectattitudes on the benchmark layers, temporary outputs."""
+    return {
+        "INPUT": lines,
+        "LINE_ID_FIELD": "name",
+        "ATTITUDES": points,
+        "CONVENTION": 0,
+        "AZIMUTH_FIELD": "az",
+        "DIP_FIELD": "dip",
+        "MAX_DISTANCE": REACH,
+        "OUTPUT": "memory:",
+        "OUTPUT_TICKS": "memory:",
+    }
+
+
+def through_processing(coords, xy, dip_direction, dip, z=None):
+    """processing.run on memory layers (see layers)."""
+    import processing
+
+    lines, points = layers(coords, xy, dip_direction, dip, z)
 
     def run():
-        result = processing.run(
-            "sectionwright:projectattitudes",
-            {
-                "INPUT": lines,
-                "LINE_ID_FIELD": "name",
-                "ATTITUDES": points,
-                "CONVENTION": 0,
-                "AZIMUTH_FIELD": "az",
-                "DIP_FIELD": "dip",
-                "MAX_DISTANCE": REACH,
-                "OUTPUT": "memory:",
-                "OUTPUT_TICKS": "memory:",
-            },
-        )
+        result = processing.run("sectionwright:projectattitudes", parameters(lines, points))
         return result["OUTPUT"].featureCount()
 
     return run

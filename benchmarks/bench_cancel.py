@@ -7,7 +7,8 @@ the run (the target, issue 10: under a second).
 
 Workloads: profile, 50 lines of 15 km on the 5 m DEM every 1 m (750,000
 samples, points asked for); geologycrossings, the full map sheet of
-bench_geology.py; projectboreholes, 2,000 holes of bench_boreholes.py.
+bench_geology.py; projectboreholes, 2,000 holes of bench_boreholes.py;
+projectattitudes, 100,000 attitudes onto 1,000 lines of bench_attitudes.py.
 """
 
 import sys
@@ -17,6 +18,7 @@ from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
+import bench_attitudes  # noqa: E402
 import bench_boreholes  # noqa: E402
 import bench_data  # noqa: E402
 import bench_geology  # noqa: E402
@@ -33,6 +35,7 @@ def workloads(data):
     lines = str(data / "lines.fgb")
     units, contacts, geology_lines = bench_geology.geology(1.0)
     hole_lines, collars, surveys, intervals = bench_boreholes.tables(2000)
+    attitude_layers = bench_attitudes.layers(*bench_attitudes.scenario(100_000, 1_000))
     return {
         "profile": {
             **P.lines(lines),
@@ -52,6 +55,7 @@ def workloads(data):
             "MAX_DISTANCE": 250,
             **P.memory("OUTPUT", "OUTPUT_INTERVALS", "OUTPUT_TRACES"),
         },
+        "projectattitudes": bench_attitudes.parameters(*attitude_layers),
     }
 
 

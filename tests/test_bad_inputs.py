@@ -132,6 +132,12 @@ CASES = {
         SECTION_LINES + "the section lines have no coordinate reference system",
         layers={"sections": LINES_NO_CRS},
     ),
+    "profile: a step that is not a number": Case(
+        "profile",
+        "error",
+        "Sampling step (lines' CRS units; 0 = the DEM's cell size): 'ten' is not a number.",
+        {"STEP": "ten"},
+    ),
     "profile: a section view as section lines": Case(
         "profile",
         "error",

@@ -8,6 +8,7 @@ gone while the GeoPackage's other layers stay.
 """
 
 import gc
+from pathlib import Path
 
 import processing
 import pytest
@@ -97,3 +98,23 @@ def test_a_cancelled_run_drops_only_its_own_layers_from_an_existing_geopackage(
     assert [dataset.GetLayer(i).GetName() for i in range(dataset.GetLayerCount())] == [
         "earlier_work"
     ]
+
+
+def test_a_cancelled_run_leaves_the_files_beside_its_outputs_alone(provider, ordinary, tmp_path):
+    """Only the files an output's own format writes, and only those the run
+    created, are taken back: a Shapefile of the same name beside a new
+    GeoPackage output keeps all its parts."""
+    parameters = RUNS["profile"].parameters(ordinary, file_outputs(tmp_path), tmp_path)
+    outputs = [v for v in parameters.values() if isinstance(v, str) and v.endswith(".gpkg")]
+    neighbours = [
+        Path(output).with_suffix(suffix)
+        for output in outputs
+        for suffix in (".shp", ".dbf", ".shx", ".prj")
+    ]
+    for neighbour in neighbours:
+        neighbour.write_bytes(b"the user's own file")
+    with pytest.raises(QgsProcessingException, match="Cancelled"):
+        processing.run("sectionwright:profile", parameters, feedback=CancelMidRun())
+    free_the_failed_run()
+    assert outputs and all(not Path(output).exists() for output in outputs)
+    assert all(n.read_bytes() == b"the user's own file" for n in neighbours)

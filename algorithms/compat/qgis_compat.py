@@ -105,6 +105,7 @@ WKT2_2019 = _scoped(
     "CrsWktVariant", "Wkt2_2019", "QgsCoordinateReferenceSystem.WktVariant.WKT2_2019"
 )
 
+
 def enum_number(value):
     """The number of an enum member, plain int or scoped enum alike."""
     return int(getattr(value, "value", value))

@@ -34,19 +34,20 @@ from ..inputs.section_lines import OBVIOUS_LABEL_FIELDS, obvious_label_field
 from ..outputs.output_styles import StyleOnLoad, geopackage_of, save_default_style, style_for
 from ..outputs.section_space import add_measuring_operations, is_section_view
 from .help import help_text
+from .parameter_names import (  # noqa: F401 (algorithms import them from here)
+    DECLINATION,
+    DEM,
+    INPUT,
+    LINE_ID_FIELD,
+    MAX_DISTANCE,
+    NORTH_REFERENCE,
+    SKIPPED,
+    UNIT_FIELD,
+    UNITS,
+    VERTICAL_EXAGGERATION,
+    Z_FACTOR,
+)
 from .run_guard import OutputRecord, ParameterProblem, destination_asked
-
-INPUT = "INPUT"
-LINE_ID_FIELD = "LINE_ID_FIELD"
-SKIPPED = "SKIPPED"
-VERTICAL_EXAGGERATION = "VERTICAL_EXAGGERATION"
-UNITS = "UNITS"
-UNIT_FIELD = "UNIT_FIELD"
-DEM = "DEM"
-Z_FACTOR = "Z_FACTOR"
-MAX_DISTANCE = "MAX_DISTANCE"
-NORTH_REFERENCE = "NORTH_REFERENCE"
-DECLINATION = "DECLINATION"
 
 NORTH_REFERENCES = ["Grid north (as stored)", "True north", "Magnetic north"]
 
@@ -341,11 +342,21 @@ def _unacceptable(definition, value):
     low = getattr(definition, "minimum", None)
     high = getattr(definition, "maximum", None)
     if low is not None and high is not None:
+        if not _is_number(value):
+            return f"{value!r} is not a number."
         bounds = [f"at least {low():g}" if low() > -1e300 else ""]
         bounds.append(f"at most {high():g}" if high() < 1e300 else "")
         shown = f"{value:g}" if isinstance(value, (int, float)) else value
         return f"{shown} is not allowed; the value must be {' and '.join(b for b in bounds if b)}."
     return f"{value!r} cannot be used here."
+
+
+def _is_number(value):
+    try:
+        float(value)
+    except (TypeError, ValueError):
+        return False
+    return True
 
 
 def _guarded(process_algorithm):

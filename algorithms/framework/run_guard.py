@@ -21,8 +21,9 @@ from qgis.PyQt import sip
 
 CANCELLED = "Cancelled: the run stopped and wrote no output."
 # Files beside a data file that belong to it (Shapefile parts, SQLite journals).
-COMPANIONS = (".shx", ".dbf", ".prj", ".cpg", ".qix", ".qmd")
+SHAPEFILE_PARTS = (".shx", ".dbf", ".prj", ".cpg", ".qix", ".qmd")
 SQLITE_COMPANIONS = ("-wal", "-shm", "-journal")
+SQLITE_SUFFIXES = (".gpkg", ".sqlite", ".db")
 
 
 class RunCancelled(QgsProcessingException):
@@ -81,7 +82,7 @@ class OutputRecord:
 
     def __init__(self):
         self.sinks = []
-        self.created_files = set()
+        self.created_files = {}  # path: the files of it that were not there before
         self.layers_in_old_files = []
 
     def before_sink(self, destination):
@@ -91,7 +92,7 @@ class OutputRecord:
         if Path(path).exists():
             self.layers_in_old_files.append((path, layer))
         else:
-            self.created_files.add(path)
+            self.created_files[path] = [f for f in _files_of(Path(path)) if not f.exists()]
 
     def add(self, sink):
         if sink is not None:
@@ -109,19 +110,24 @@ class OutputRecord:
             if not sip.isdeleted(sink):
                 sip.delete(sink)  # the sink is ours (Processing hands it over): closes the file
         self.sinks = []
-        for path in self.created_files:
-            _remove_file(Path(path))
+        for files in self.created_files.values():
+            for file in files:
+                if file.is_file():
+                    file.unlink()
         for path, layer in self.layers_in_old_files:
             if path not in self.created_files:
                 _drop_layer(path, layer)
 
 
-def _remove_file(path):
-    candidates = [path, *(path.with_suffix(s) for s in COMPANIONS)]
-    candidates += [Path(f"{path}{s}") for s in SQLITE_COMPANIONS]
-    for candidate in candidates:
-        if candidate.is_file():
-            candidate.unlink()
+def _files_of(path):
+    """A data file and the files its format writes beside it: a
+    Shapefile's parts, an SQLite database's journals."""
+    suffix = path.suffix.lower()
+    if suffix == ".shp":
+        return [path, *(path.with_suffix(s) for s in SHAPEFILE_PARTS)]
+    if suffix in SQLITE_SUFFIXES:
+        return [path, *(Path(f"{path}{s}") for s in SQLITE_COMPANIONS)]
+    return [path]
 
 
 def _drop_layer(path, layer):

@@ -10,6 +10,7 @@ from qgis.core import QgsRectangle
 
 from ..core.crs import cell_size_on_ground, transformer
 from ..core.raster_sampling import TiledRaster, bilinear, centre_index
+from ..framework.parameter_names import DEM, DEM_BAND
 from ..framework.run_guard import ParameterProblem
 from .section_lines import crs_wkt
 
@@ -18,8 +19,6 @@ BATCH_SAMPLES = 250_000  # positions sampled together (~40 MB of working arrays)
 PROVIDER_TILE = 256  # window side for sources without a useful block size
 LARGEST_TILE = 1024  # blocks larger than this (strips, whole images) are windowed
 GDAL_CACHE_CAP = 64 * 2**20
-DEM = "DEM"  # the parameter names every algorithm gives its DEM and band
-DEM_BAND = "DEM_BAND"
 # Bands that hold colours or class indices, not heights.
 NOT_HEIGHTS = {
     gdal.GCI_RedBand: "red",
@@ -84,7 +83,7 @@ class GdalGrid:
 
     def read_window(self, row0, col0, nrows, ncols):
         raw = self.band.ReadAsArray(col0, row0, ncols, nrows)
-        # Our tile cache holds the decoded tile: GDAL's copy is not needed.
+        # Each tile is decoded once per batch: GDAL's copy is not needed.
         self.band.FlushCache()
         return cell_values(raw, self.nodata)
 

@@ -36,7 +36,11 @@ def _undefined(crs):
 def require_lonlat(extent, parameter, what):
     """A layer in a geographic CRS whose coordinates are no longitudes and
     latitudes has the wrong CRS set (projected coordinates, degrees CRS)."""
-    if extent.xMinimum() < -180.5 or extent.xMaximum() > 360.5 or abs(extent.yMinimum()) > 90.5:
+    if (
+        extent.xMinimum() < -180.5
+        or extent.xMaximum() > 360.5
+        or max(abs(extent.yMinimum()), abs(extent.yMaximum())) > 90.5
+    ):
         raise ParameterProblem(
             parameter,
             f"{what} are in a geographic CRS (degrees) but their coordinates reach "

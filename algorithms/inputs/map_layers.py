@@ -12,6 +12,7 @@ from ..compat.null import plain
 from ..compat.qgis_compat import SKIP_GEOMETRY_CHECKS
 from ..core.units import polygon_index_at
 from ..core.wkb import from_wkb
+from ..framework.parameter_names import UNIT_FIELD, UNITS
 from ..framework.run_guard import ParameterProblem
 from .map_crs import require_map_crs
 
@@ -61,11 +62,11 @@ def read_unit_map(source, unit_field, work_crs, context, feedback):
     """Unit polygons of ``source`` in the working CRS. Invalid polygons are
     repaired (shapely's make_valid) and counted in the log; polygons with no
     geometry are left out and counted."""
-    require_map_crs(source.sourceCrs(), "UNITS", "the unit polygons", "the map's unit polygons")
+    require_map_crs(source.sourceCrs(), UNITS, "the unit polygons", "the map's unit polygons")
     if not unit_field:
-        raise ParameterProblem("UNIT_FIELD", "choose the field that names the unit.")
+        raise ParameterProblem(UNIT_FIELD, "choose the field that names the unit.")
     if source.fields().lookupField(unit_field) < 0:
-        raise ParameterProblem("UNIT_FIELD", f"the units layer has no field {unit_field!r}.")
+        raise ParameterProblem(UNIT_FIELD, f"the units layer has no field {unit_field!r}.")
     polygons, labels, unusable = read_features(source, unit_field, work_crs, context)
     invalid = ~shapely.is_valid(polygons)
     if invalid.any():

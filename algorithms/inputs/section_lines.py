@@ -26,6 +26,7 @@ from ..compat.qgis_compat import (
 from ..core.crs import utm_epsg
 from ..core.lines import drop_repeated_vertices
 from ..core.wkb import from_wkb
+from ..framework.parameter_names import LINE_ID_FIELD
 from ..framework.run_guard import ParameterProblem, stop_if_cancelled
 from .map_crs import require_lonlat, require_map_crs
 
@@ -111,7 +112,7 @@ def read_section_parts(source, id_field, work_crs, context, feedback):
     caller accounts for them in SKIPPED.
     """
     if id_field and source.fields().lookupField(id_field) < 0:
-        raise ParameterProblem("LINE_ID_FIELD", f"the section lines have no field {id_field!r}.")
+        raise ParameterProblem(LINE_ID_FIELD, f"the section lines have no field {id_field!r}.")
     to_working = QgsCoordinateTransform(source.sourceCrs(), work_crs, context.transformContext())
     sections = []
     # Degenerate lines are ours to report in SKIPPED, not Processing's to refuse.

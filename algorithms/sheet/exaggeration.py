@@ -41,4 +41,3 @@ def common_exaggeration(named_layers):
             "mixed ones would put features at wrong elevations."
         )
     return distinct.pop() if distinct else None
-
