@@ -19,21 +19,7 @@ def algorithms(provider):
     return {a.name(): a for a in all_algorithms()}
 
 
-@pytest.mark.parametrize(
-    "name",
-    [
-        "profile",
-        "projectattitudes",
-        "normalizeattitudes",
-        "geologycrossings",
-        "projectboreholes",
-        "sectionsheet",
-        "structuraltrend",
-        "dipdomains",
-        "formlines",
-        "sectionsin3d",
-    ],
-)
+@pytest.mark.parametrize("name", [algorithm.name() for algorithm in all_algorithms()])
 def test_help_is_whole_blocks_with_choices_by_label(algorithms, name):
     text = algorithms[name].shortHelpString()
     for line in text.splitlines():

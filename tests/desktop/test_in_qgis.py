@@ -18,15 +18,11 @@ from qgis.core import (
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[2] / "scripts"))
 import run_demo  # noqa: E402
+import run_parameters as P  # noqa: E402
 
-ALGORITHMS = (
-    "profile",
-    "projectattitudes",
-    "normalizeattitudes",
-    "geologycrossings",
-    "projectboreholes",
-    "sectionsheet",
-)
+from sectionwright.algorithms import all_algorithms  # noqa: E402
+
+ALGORITHMS = [algorithm.name() for algorithm in all_algorithms()]
 
 
 @pytest.fixture
@@ -105,13 +101,15 @@ def test_every_dialog_opens(qgis_iface, provider, name):
 
 
 def _runs(world):
-    table = f"{world}/tarrowgill.gpkg|layername="
-    common = {"INPUT": table + "sections", "LINE_ID_FIELD": "name", "VERTICAL_EXAGGERATION": 2}
+    """Each algorithm as a geologist runs it from its dialog on the demo
+    world (run_parameters.py), every output temporary."""
     out = "TEMPORARY_OUTPUT"
+    view = {"VERTICAL_EXAGGERATION": 2}
+    notebook = {k: v for k, v in P.demo_attitudes(world).items() if k != "MAX_DISTANCE"}
     return {
         "profile": dict(
-            common,
-            DEM=f"{world}/dem.tif",
+            P.demo_profile(world),
+            **view,
             STEP=50,
             OUTPUT_LINE=out,
             OUTPUT=out,
@@ -119,53 +117,22 @@ def _runs(world):
             SKIPPED=out,
         ),
         "projectattitudes": dict(
-            common,
-            ATTITUDES=table + "attitudes",
-            CONVENTION=3,
-            TEXT_FIELD="attitude",
-            MAX_DISTANCE=500,
-            DEM=f"{world}/dem.tif",
+            P.demo_projectattitudes(world),
+            **view,
             OUTPUT=out,
             OUTPUT_TICKS=out,
             OUTPUT_CONNECTORS=out,
             SKIPPED=out,
         ),
-        "normalizeattitudes": {
-            "INPUT": table + "attitudes",
-            "CONVENTION": 3,
-            "TEXT_FIELD": "attitude",
-            "OUTPUT": out,
-            "SKIPPED": out,
-        },
+        "normalizeattitudes": dict(
+            notebook, INPUT=notebook.pop("ATTITUDES"), OUTPUT=out, SKIPPED=out
+        ),
         "geologycrossings": dict(
-            common,
-            DEM=f"{world}/dem.tif",
-            UNITS=table + "units",
-            UNIT_FIELD="unit",
-            CONTACTS=table + "contacts",
-            CONTACT_TYPE_FIELD="type",
-            OUTPUT=out,
-            OUTPUT_INTERVALS=out,
-            SKIPPED=out,
+            P.demo_geologycrossings(world), **view, OUTPUT=out, OUTPUT_INTERVALS=out, SKIPPED=out
         ),
         "projectboreholes": dict(
-            common,
-            COLLARS=table + "collars",
-            HOLE_ID_FIELD="hole_id",
-            AZIMUTH_FIELD="azimuth",
-            INCLINATION_FIELD="incl",
-            DEPTH_FIELD="depth",
-            SURVEYS=table + "surveys",
-            SURVEY_HOLE_FIELD="hole_id",
-            SURVEY_DEPTH_FIELD="depth",
-            SURVEY_AZIMUTH_FIELD="azimuth",
-            SURVEY_INCLINATION_FIELD="incl",
-            INTERVALS=table + "intervals",
-            INTERVAL_HOLE_FIELD="hole_id",
-            INTERVAL_FROM_FIELD="from_m",
-            INTERVAL_TO_FIELD="to_m",
-            INTERVAL_CODE_FIELD="unit",
-            MAX_DISTANCE=600,
+            P.demo_projectboreholes(world),
+            **view,
             OUTPUT=out,
             OUTPUT_INTERVALS=out,
             OUTPUT_TRACES=out,
@@ -186,7 +153,7 @@ def _renderer_xml(layer):
     )
 
 
-@pytest.mark.parametrize("name", [n for n in ALGORITHMS if n != "sectionsheet"])
+@pytest.mark.parametrize("name", sorted(_runs("world")))
 def test_run_and_load_results_styles_every_output(
     canvas_as_in_qgis, provider, demo_dir, name, errors
 ):
