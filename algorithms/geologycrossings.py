@@ -37,7 +37,7 @@ from .framework.base import (
 )
 from .framework.ledger import RunLedger
 from .framework.run_guard import ParameterProblem, stop_if_cancelled
-from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
+from .inputs.dem import DemSampler, ElevationsAhead, bounded_gdal_cache
 from .inputs.map_crs import require_map_crs
 from .inputs.map_layers import read_features, read_unit_map
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
@@ -210,10 +210,11 @@ class GeologyCrossingsAlgorithm(SectionwrightAlgorithm):
         """[(chainage, xy, elevation)] per part, in order."""
         jobs = self._sample_jobs(parts, intervals, crossings, step)
         sampled = []
-        for (chainage, xy), elevation in sample_ahead(jobs, sampler):
-            stop_if_cancelled(feedback)
-            sampled.append((chainage, xy, elevation))
-            feedback.setProgress(20.0 + 40.0 * len(sampled) / max(len(parts), 1))
+        with ElevationsAhead(jobs, sampler) as elevations:
+            for (chainage, xy), elevation in elevations:
+                stop_if_cancelled(feedback)
+                sampled.append((chainage, xy, elevation))
+                feedback.setProgress(20.0 + 40.0 * len(sampled) / max(len(parts), 1))
         return sampled
 
     @staticmethod

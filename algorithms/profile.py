@@ -32,7 +32,7 @@ from .framework.base import (
 from .framework.ledger import RunLedger
 from .framework.parameter_names import DEM_BAND
 from .framework.run_guard import stop_if_cancelled
-from .inputs.dem import DemSampler, bounded_gdal_cache, sample_ahead
+from .inputs.dem import DemSampler, ElevationsAhead, bounded_gdal_cache
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.feature_writer import multi_line_wkb, write_rows
@@ -142,12 +142,14 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         if step <= 0:
             step = self._cell_step(sampler, lines, work_crs, context)
             feedback.pushInfo(f"Sampling step: {step:.3f} (the DEM's cell size).")
-        sinks = self._sinks(parameters, context, lines)
         parts = read_section_parts(lines, settings.id_field, work_crs, context, feedback)
         to_map = transformer(crs_wkt(work_crs), crs_wkt(lines.sourceCrs()))
         ledger = RunLedger(feedback)
-        with bounded_gdal_cache():
-            sampled = sample_ahead(self._sample_jobs(parts, step), sampler)
+        jobs = self._sample_jobs(parts, step)
+        with bounded_gdal_cache(), ElevationsAhead(jobs, sampler) as sampled:
+            # The outputs are opened (a GeoPackage takes a while to create)
+            # while the first batch of the DEM is being read.
+            writer = ProfileWriter(self._sinks(parameters, context, lines), settings)
             for index, ((part, chainage, xy), elevation) in enumerate(sampled):
                 stop_if_cancelled(feedback)
                 ledger.read += 1
@@ -155,11 +157,10 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                     part.reason = "no DEM coverage"
                 if part.reason:
                     ledger.skip(part.reason)
-                    skip_sections(sinks[SKIPPED][0], [part])
+                    writer.skip(part)
                     feedback.pushInfo(f"Section {part.label} skipped: {part.reason}.")
                 else:
-                    map_xy = np.column_stack(to_map(*xy.T))
-                    self._write_part(sinks, part.label, chainage, elevation, map_xy, settings)
+                    writer.add(part.label, chainage, elevation, np.column_stack(to_map(*xy.T)))
                     ledger.written += 1
                     feedback.pushInfo(
                         f"Section {part.label}: length {chainage[-1]:.1f}, "
@@ -167,8 +168,9 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                         f"{int(np.isnan(elevation).sum())} without elevation."
                     )
                 feedback.setProgress(100.0 * (index + 1) / max(len(parts), 1))
+            writer.flush(feedback)
         ledger.close()
-        return sink_results(sinks)
+        return sink_results(writer.sinks)
 
     def _sinks(self, parameters, context, lines):
         specs = (
@@ -178,36 +180,6 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             (SKIPPED, F.SKIPPED_SECTIONS.qgs_fields(), lines.wkbType(), lines.sourceCrs()),
         )
         return self.open_sinks(parameters, context, specs, required=(OUTPUT_SECTION,))
-
-    @staticmethod
-    def _write_part(sinks, label, chainage, elevation, map_xy, settings):
-        """The outputs of one section part: its line on the map, its samples
-        (when asked for) and its line in the section view."""
-        valid = elevation[~np.isnan(elevation)]
-        summary = {
-            F.SECTION: [label],
-            F.LENGTH: [chainage[-1]],
-            F.MIN_ELEVATION: [valid.min()],
-            F.MAX_ELEVATION: [valid.max()],
-            F.EXAGGERATION: [settings.exaggeration],
-        }
-        line_sink = sinks[OUTPUT_LINE][0]
-        if line_sink is not None:
-            line = multi_line_wkb(draped_runs(map_xy, chainage, elevation), 4)
-            write_rows(line_sink, F.PROFILE_LINES.qgs_fields(), [line], summary)
-        points_sink = sinks[OUTPUT][0]
-        if points_sink is not None:
-            samples = {
-                F.SECTION: [label] * len(chainage),
-                F.CHAINAGE: chainage,
-                F.ELEVATION: elevation,
-                F.X: map_xy[:, 0],
-                F.Y: map_xy[:, 1],
-            }
-            points = points_z(map_xy[:, 0], map_xy[:, 1], elevation)
-            write_rows(points_sink, F.PROFILE_POINTS.qgs_fields(), points, samples)
-        view = multi_line_wkb(section_runs(chainage, elevation, settings.exaggeration), 2)
-        write_rows(sinks[OUTPUT_SECTION][0], F.PROFILE_SECTIONS.qgs_fields(), [view], summary)
 
     @staticmethod
     def _sample_jobs(parts, step):
@@ -226,3 +198,63 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
             source.sourceCrs(), work_crs, context.transformContext()
         ).transform(source.sourceExtent().center())
         return sampler.cell_size((centre.x(), centre.y()))
+
+
+class ProfileWriter:
+    """The outputs of a run's sections: each section's samples (when asked
+    for) as it comes, its lines on the map and in the section view in
+    groups of ``GROUP`` sections (one ``write_rows`` call per output and
+    group rather than two per section)."""
+
+    GROUP = 500  # sections
+
+    def __init__(self, sinks, settings):
+        self.sinks = sinks
+        self.exaggeration = settings.exaggeration
+        self._summaries, self._lines, self._views = [], [], []
+
+    def skip(self, part):
+        skip_sections(self.sinks[SKIPPED][0], [part])
+
+    def add(self, label, chainage, elevation, map_xy):
+        """One section part: its line on the map, its samples (when asked
+        for) and its line in the section view."""
+        valid = elevation[~np.isnan(elevation)]
+        self._summaries.append((label, chainage[-1], valid.min(), valid.max()))
+        if self.sinks[OUTPUT_LINE][0] is not None:
+            self._lines.append(multi_line_wkb(draped_runs(map_xy, chainage, elevation), 4))
+        runs = section_runs(chainage, elevation, self.exaggeration)
+        self._views.append(multi_line_wkb(runs, 2))
+        if self.sinks[OUTPUT][0] is not None:
+            self._write_points(label, chainage, elevation, map_xy)
+        if len(self._summaries) >= self.GROUP:
+            self.flush()
+
+    def flush(self, feedback=None):
+        if not self._summaries:
+            return
+        label, length, low, high = (list(column) for column in zip(*self._summaries))
+        summary = {
+            F.SECTION: label,
+            F.LENGTH: length,
+            F.MIN_ELEVATION: low,
+            F.MAX_ELEVATION: high,
+            F.EXAGGERATION: [self.exaggeration] * len(label),
+        }
+        if self._lines:
+            line_sink = self.sinks[OUTPUT_LINE][0]
+            write_rows(line_sink, F.PROFILE_LINES.qgs_fields(), self._lines, summary, feedback)
+        view_sink = self.sinks[OUTPUT_SECTION][0]
+        write_rows(view_sink, F.PROFILE_SECTIONS.qgs_fields(), self._views, summary, feedback)
+        self._summaries, self._lines, self._views = [], [], []
+
+    def _write_points(self, label, chainage, elevation, map_xy):
+        samples = {
+            F.SECTION: [label] * len(chainage),
+            F.CHAINAGE: chainage,
+            F.ELEVATION: elevation,
+            F.X: map_xy[:, 0],
+            F.Y: map_xy[:, 1],
+        }
+        points = points_z(map_xy[:, 0], map_xy[:, 1], elevation)
+        write_rows(self.sinks[OUTPUT][0], F.PROFILE_POINTS.qgs_fields(), points, samples)

@@ -181,7 +181,7 @@ def run_sampling_core(lines, dem):
 
     from sectionwright.algorithms.core.profile import profile_samples
     from sectionwright.algorithms.core.wkb import from_wkb
-    from sectionwright.algorithms.inputs.dem import DemSampler, sample_ahead
+    from sectionwright.algorithms.inputs.dem import DemSampler, ElevationsAhead
 
     positions = [
         profile_samples(shapely.get_coordinates(from_wkb(bytes(f.geometry().asWkb()))), STEP)[1]
@@ -189,7 +189,7 @@ def run_sampling_core(lines, dem):
     ]
     started = time.perf_counter()
     sampler = DemSampler(QgsRasterLayer(dem), 1, 1.0, QgsCoordinateReferenceSystem("EPSG:32633"))
-    elevations = [z for _, z in sample_ahead(enumerate(positions), sampler)]
+    elevations = [z for _, z in ElevationsAhead(enumerate(positions), sampler)]
     run_sampling_core.seconds = time.perf_counter() - started
     xy = np.concatenate(positions)
     return lambda: np.column_stack((xy, np.concatenate(elevations)))

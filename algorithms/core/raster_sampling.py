@@ -72,59 +72,78 @@ class TiledRaster:
         as a (4, n) array. Each tile the cells lie in is read once.
 
         A position whose four cells share a tile (all but those on a tile's
-        last row or column) is served whole by that tile; only the few that
-        straddle tiles are looked up cell by cell."""
+        last row or column) is served whole by that tile in one gather per
+        tile; only the few that straddle tiles are looked up cell by cell."""
         n = len(r0)
         out = np.empty((4, n))
         key = self._key(r0, c0)
         straddles = self._key(r1, c1) != key
-        whole = np.flatnonzero(~straddles)
+        whole = _WholeCells.of(self, np.flatnonzero(~straddles), key, (r0, c0, r1, c1))
         split = np.flatnonzero(straddles)
         cells = _Cells(
-            (r0, c0, r1, c1),
             np.concatenate((r0[split], r0[split], r1[split], r1[split])),
             np.concatenate((c0[split], c1[split], c0[split], c1[split])),
             np.concatenate([split + k * n for k in range(4)]),
         )
-        jobs = _tile_jobs(key[whole], whole, self._key(cells.rows, cells.cols))
+        jobs = _tile_jobs(whole, self._key(cells.rows, cells.cols))
         self.tiles_read += len(jobs)
         if len(self.readers) == 1 or len(jobs) < 2:
-            self._fill(self.readers[0], jobs, cells, out)
+            self._fill(self.readers[0], jobs, whole, cells, out)
             return out
         # Each reader has its own handle; readers release Python's lock while
         # they decompress, so tiles decode in parallel.
         shares = [jobs[i :: len(self.readers)] for i in range(len(self.readers))]
         with ThreadPoolExecutor(max_workers=len(self.readers)) as pool:
             for done in [
-                pool.submit(self._fill, reader, share, cells, out)
+                pool.submit(self._fill, reader, share, whole, cells, out)
                 for reader, share in zip(self.readers, shares)
             ]:
                 done.result()
         return out
 
-    def _fill(self, reader, jobs, cells, out):
-        r0, c0, r1, c1 = cells.corners
+    def _fill(self, reader, jobs, whole, cells, out):
         flat = out.reshape(-1)
-        for key, whole, single in jobs:
+        for key, (low, high), single in jobs:
             row0, col0, tile = self._read_tile(reader, key)
-            if len(whole):
-                top, bottom = r0[whole] - row0, r1[whole] - row0
-                left, right = c0[whole] - col0, c1[whole] - col0
-                out[0, whole] = tile[top, left]
-                out[1, whole] = tile[top, right]
-                out[2, whole] = tile[bottom, left]
-                out[3, whole] = tile[bottom, right]
+            if high > low:
+                out[:, whole.positions[low:high]] = tile.reshape(-1)[whole.offsets[:, low:high]]
             if len(single):
                 rows, cols = cells.rows[single] - row0, cells.cols[single] - col0
                 flat[cells.slots[single]] = tile[rows, cols]
 
+    def tile_width(self, tile_col):
+        """Columns of the tiles in column ``tile_col`` (narrower at the right edge)."""
+        return np.minimum(self.tile_cols, self.cols - tile_col * self.tile_cols)
+
+
+@dataclass
+class _WholeCells:
+    """The positions served whole by one tile, ordered by tile: their tile
+    keys, where each key's run starts and ends, and the offsets of their
+    four cells in the flattened tile."""
+
+    positions: np.ndarray
+    keys: np.ndarray
+    offsets: np.ndarray  # (4, m)
+
+    @classmethod
+    def of(cls, raster, whole, key, corners):
+        positions = whole[np.argsort(key[whole], kind="stable")]
+        r0, c0, r1, c1 = (a[positions] for a in corners)
+        tile_col, col = np.divmod(c0, raster.tile_cols)
+        width = raster.tile_width(tile_col)
+        top = (r0 % raster.tile_rows) * width + col
+        bottom = top + (r1 - r0) * width
+        right = c1 - c0
+        offsets = np.stack((top, top + right, bottom, bottom + right))
+        return cls(positions, key[positions], offsets)
+
 
 @dataclass
 class _Cells:
-    """The positions' corner cells, and the cells looked up one by one:
-    their rows, columns and places in the flattened (4, n) result."""
+    """The cells looked up one by one: their rows, columns and places in
+    the flattened (4, n) result."""
 
-    corners: tuple
     rows: np.ndarray
     cols: np.ndarray
     slots: np.ndarray
@@ -141,14 +160,18 @@ def _grouped(keys):
     return {int(sorted_keys[s]): order[s:e] for s, e in zip(starts, ends)}
 
 
-def _tile_jobs(whole_keys, whole, single_keys):
-    """(tile key, positions served whole, single cells) per tile needed."""
-    by_tile = {key: whole[pick] for key, pick in _grouped(whole_keys).items()}
+def _tile_jobs(whole, single_keys):
+    """(tile key, (first, end) of its run in ``whole``, single cells) per
+    tile needed."""
+    keys = whole.keys
+    starts = np.flatnonzero(np.r_[True, keys[1:] != keys[:-1]]) if len(keys) else keys
+    ends = np.r_[starts[1:], len(keys)].astype(np.int64)
+    runs = {int(keys[s]): (int(s), int(e)) for s, e in zip(starts, ends)}
     singles = _grouped(single_keys)
     empty = np.empty(0, dtype=np.int64)
     return [
-        (key, by_tile.get(key, empty), singles.get(key, empty))
-        for key in sorted(by_tile.keys() | singles.keys())
+        (key, runs.get(key, (0, 0)), singles.get(key, empty))
+        for key in sorted(runs.keys() | singles.keys())
     ]
 
 

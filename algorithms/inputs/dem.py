@@ -15,6 +15,7 @@ from ..framework.run_guard import ParameterProblem
 from .section_lines import crs_wkt
 
 READERS = 2  # GDAL handles decoding tiles concurrently
+READER_THREAD = "sectionwright-dem"  # the thread that reads ahead
 BATCH_SAMPLES = 250_000  # positions sampled together (~40 MB of working arrays)
 PROVIDER_TILE = 256  # window side for sources without a useful block size
 LARGEST_TILE = 1024  # blocks larger than this (strips, whole images) are windowed
@@ -219,20 +220,45 @@ def _sample_batch(sampler, batch):
     return results
 
 
-def sample_ahead(jobs, sampler):
-    """Elevations for ``(key, xy)`` jobs, yielding ``(key, elevations)`` in
-    order (``None`` for a job whose xy is None).
+class ElevationsAhead:
+    """Elevations for ``(key, xy)`` jobs: iterating yields ``(key,
+    elevations)`` in order (``None`` for a job whose xy is None).
 
     Jobs are sampled in batches of about ``BATCH_SAMPLES`` positions, so a
     tile that several lines cross is decoded once per batch, and the next
-    batch is read while the caller writes the current one's features.
+    batch is made and read while the caller writes the current one's
+    features. The first batch starts at once, so that the caller can open
+    its outputs meanwhile; as a context manager it waits for the batch in
+    hand when the caller leaves early (an error, Cancel). ``jobs`` is
+    consumed on the reading thread: it must not touch QGIS objects.
     """
-    with ThreadPoolExecutor(max_workers=1) as worker:
-        pending = None
-        for batch in _batched(jobs):
-            future = worker.submit(_sample_batch, sampler, batch)
-            if pending is not None:
-                yield from pending.result()
-            pending = future
-        if pending is not None:
-            yield from pending.result()
+
+    def __init__(self, jobs, sampler):
+        self._sampler = sampler
+        self._batches = _batched(jobs)
+        self._worker = ThreadPoolExecutor(max_workers=1, thread_name_prefix=READER_THREAD)
+        self._pending = self._worker.submit(self._sample_next)
+
+    def _sample_next(self):
+        batch = next(self._batches, None)
+        return None if batch is None else _sample_batch(self._sampler, batch)
+
+    def __iter__(self):
+        try:
+            while True:
+                results = self._pending.result()
+                if results is None:
+                    return
+                self._pending = self._worker.submit(self._sample_next)
+                yield from results
+        finally:
+            self.close()
+
+    def close(self):
+        self._worker.shutdown(wait=True, cancel_futures=True)
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        self.close()

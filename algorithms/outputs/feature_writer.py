@@ -33,6 +33,7 @@ WKB_LINE_STRING = 2
 WKB_MULTI_LINE_STRING = 5
 WKB_DIMENSION_OFFSET = {2: 0, 3: 1000, 4: 3000}  # ISO codes; columns x y, x y z, x y z m
 WKB_COLLECTION = 7
+LARGE_WKB = 1024  # bytes a geometry, on average, above which each is parsed alone
 
 
 def write_rows(sink, fields, geometries, columns, feedback=None, also=()):
@@ -206,15 +207,19 @@ def multi_line_wkb(runs, columns):
 
 
 def qgis_geometries(items):
-    """QgsGeometry (or None) per item: WKB bytes are parsed by QGIS in one
-    call, QgsGeometry objects pass as they are."""
+    """QgsGeometry (or None) per item: QgsGeometry objects pass as they are;
+    small WKBs (points, short lines) are parsed by QGIS in one call, large
+    ones each on its own (splitting a collection would copy them again)."""
     wkbs = [w for w in items if isinstance(w, bytes)]
-    if len(wkbs) == 1:
-        single = QgsGeometry()
-        single.fromWkb(wkbs[0])
-        parsed = iter([single])
+    if len(wkbs) == 1 or sum(map(len, wkbs)) > LARGE_WKB * len(wkbs):
+        parsed = iter([_parsed(w) for w in wkbs])
     else:
-        collection = QgsGeometry()
-        collection.fromWkb(struct.pack("<BII", 1, WKB_COLLECTION, len(wkbs)) + b"".join(wkbs))
+        collection = _parsed(struct.pack("<BII", 1, WKB_COLLECTION, len(wkbs)) + b"".join(wkbs))
         parsed = iter(collection.asGeometryCollection() if wkbs else ())
     return [next(parsed) if isinstance(w, bytes) else w for w in items]
+
+
+def _parsed(wkb):
+    geometry = QgsGeometry()
+    geometry.fromWkb(wkb)
+    return geometry

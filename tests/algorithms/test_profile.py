@@ -1,5 +1,7 @@
 """sectionwright:profile through processing.run."""
 
+import threading
+
 import numpy as np
 import processing
 import pytest
@@ -10,6 +12,7 @@ from pyproj import Transformer
 from qgis.core import QgsProcessingException, QgsVectorLayer
 from scipy import ndimage
 
+from sectionwright.algorithms import profile
 from sectionwright.algorithms.compat.qgis_compat import (
     MULTI_LINE_STRING,
     MULTI_LINE_STRING_ZM,
@@ -274,6 +277,53 @@ def test_bad_lines_go_to_skipped_with_reasons(provider, plane_dem):
     assert log[-1] == (
         "Skipped: empty geometry=1, no DEM coverage=1, null geometry=1, zero-length line=1"
     )
+
+
+def test_sections_written_in_groups_come_out_as_when_written_at_once(
+    provider, plane_dem, monkeypatch
+):
+    x, y = ORIGIN_X, ORIGIN_Y
+    wkts = [
+        KINKED,
+        f"LINESTRING({x + 200} {y + 300}, {x + 1700} {y + 900})",
+        None,
+        f"LINESTRING({x + 1500} {y + 100}, {x + 300} {y + 1900})",
+        f"LINESTRING({x + 50} {y + 1000}, {x + 1950} {y + 1010}, {x + 1900} {y + 200})",
+        f"LINESTRING({x + 900} {y + 50}, {x + 1000} {y + 1950})",
+    ]
+
+    def outputs():
+        result = run_profile(line_layer(wkts), plane_dem)
+        return {
+            name: [(f.attributes(), f.geometry().asWkt(6)) for f in result[name].getFeatures()]
+            for name in ("OUTPUT_LINE", "OUTPUT_SECTION", "OUTPUT", "SKIPPED")
+        }
+
+    at_once = outputs()
+    monkeypatch.setattr(profile.ProfileWriter, "GROUP", 2)
+    in_groups = outputs()
+    assert in_groups == at_once
+    assert [row[0][0] for row in at_once["OUTPUT_LINE"]] == ["L0", "L1", "L3", "L4", "L5"]
+    assert [row[0][0] for row in at_once["SKIPPED"]] == ["L2"]
+
+
+def test_the_outputs_are_opened_while_the_dem_is_being_read(provider, plane_dem, monkeypatch):
+    reading = threading.Event()
+    elevations = profile.DemSampler.elevations
+    open_sinks = profile.ProfileAlgorithm._sinks
+
+    def elevations_reading(self, xy):
+        reading.set()
+        return elevations(self, xy)
+
+    def sinks_once_reading(self, *args):
+        assert reading.wait(10), "the outputs were opened before the DEM was read"
+        return open_sinks(self, *args)
+
+    monkeypatch.setattr(profile.DemSampler, "elevations", elevations_reading)
+    monkeypatch.setattr(profile.ProfileAlgorithm, "_sinks", sinks_once_reading)
+    result = run_profile(line_layer([KINKED]), plane_dem)
+    assert result["OUTPUT_LINE"].featureCount() == 1
 
 
 def test_missing_band_and_non_raster_are_clear_errors(provider, plane_dem, demo_dir):

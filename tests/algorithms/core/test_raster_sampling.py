@@ -82,6 +82,14 @@ def test_tile_layout_does_not_change_values(grid):
         np.testing.assert_allclose(bilinear(u, v, cache_for(grid, shape)), reference)
 
 
+def test_a_raster_one_cell_wide_or_high_is_read_along_its_length():
+    column = np.arange(12.0)[:, None] * 10.0
+    v = np.array([0.0, 2.5, 10.75])
+    z = bilinear(np.zeros(3), v, cache_for(column, (5, 5)))
+    np.testing.assert_allclose(z, v * 10.0)
+    np.testing.assert_allclose(bilinear(v, np.zeros(3), cache_for(column.T, (5, 5))), v * 10.0)
+
+
 def test_each_tile_is_read_once_per_call_whatever_the_order(grid):
     raster = cache_for(grid, (4, 4))
     rng = np.random.default_rng(5)

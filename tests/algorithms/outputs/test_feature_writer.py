@@ -133,6 +133,18 @@ def test_lines_and_wkb_with_m(qgis_app):
     assert not features[1].hasGeometry()
 
 
+def test_large_and_small_geometries_keep_their_order_among_ready_ones(qgis_app):
+    ready = qgis_geometries([multi_line_wkb([np.zeros((2, 2))], 2)])[0]
+    long_line = multi_line_wkb([np.column_stack((np.arange(500.0), np.ones(500)))], 2)
+    point = struct.pack("<BIdd", 1, 1, 3.0, 4.0)
+    for items in ([long_line, None, ready, long_line], [point, None, ready, point]):
+        parsed = qgis_geometries(items)
+        assert parsed[1] is None and parsed[2] is ready
+        expected = from_wkb(items[0])
+        for geometry in (parsed[0], parsed[3]):
+            assert shapely.equals_exact(from_wkb(bytes(geometry.asWkb())), expected, 0.0)
+
+
 @pytest.mark.parametrize("columns", [2, 3, 4])
 def test_multi_line_wkb_is_read_alike_by_shapely_and_qgis(qgis_app, columns):
     runs = [np.arange(3 * columns, dtype=float).reshape(3, columns), np.ones((2, columns))]
