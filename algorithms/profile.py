@@ -32,7 +32,7 @@ from .framework.base import (
 from .framework.ledger import RunLedger
 from .framework.parameter_names import DEM_BAND
 from .framework.run_guard import stop_if_cancelled
-from .inputs.dem import DemSampler, ElevationsAhead, bounded_gdal_cache
+from .inputs.dem import BATCH_SAMPLES, DemSampler, ElevationsAhead, bounded_gdal_cache
 from .inputs.section_lines import crs_wkt, read_section_parts, working_crs
 from .outputs import fields as F
 from .outputs.feature_writer import multi_line_wkb, write_rows
@@ -149,7 +149,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
         with bounded_gdal_cache(), ElevationsAhead(jobs, sampler) as sampled:
             # The outputs are opened (a GeoPackage takes a while to create)
             # while the first batch of the DEM is being read.
-            writer = ProfileWriter(self._sinks(parameters, context, lines), settings)
+            writer = ProfileWriter(self._sinks(parameters, context, lines), settings, feedback)
             for index, ((part, chainage, xy), elevation) in enumerate(sampled):
                 stop_if_cancelled(feedback)
                 ledger.read += 1
@@ -168,7 +168,7 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
                         f"{int(np.isnan(elevation).sum())} without elevation."
                     )
                 feedback.setProgress(100.0 * (index + 1) / max(len(parts), 1))
-            writer.flush(feedback)
+            writer.flush()
         ledger.close()
         return sink_results(writer.sinks)
 
@@ -203,15 +203,19 @@ class ProfileAlgorithm(SectionwrightAlgorithm):
 class ProfileWriter:
     """The outputs of a run's sections: each section's samples (when asked
     for) as it comes, its lines on the map and in the section view in
-    groups of ``GROUP`` sections (one ``write_rows`` call per output and
-    group rather than two per section)."""
+    groups (one ``write_rows`` call per output and group rather than two
+    per section) of ``GROUP`` sections or ``GROUP_SAMPLES`` vertices,
+    whichever comes first, so that what waits is bounded like a DEM batch."""
 
     GROUP = 500  # sections
+    GROUP_SAMPLES = BATCH_SAMPLES
 
-    def __init__(self, sinks, settings):
+    def __init__(self, sinks, settings, feedback):
         self.sinks = sinks
         self.exaggeration = settings.exaggeration
+        self.feedback = feedback
         self._summaries, self._lines, self._views = [], [], []
+        self._waiting = 0  # samples in the lines not yet written
 
     def skip(self, part):
         skip_sections(self.sinks[SKIPPED][0], [part])
@@ -227,10 +231,11 @@ class ProfileWriter:
         self._views.append(multi_line_wkb(runs, 2))
         if self.sinks[OUTPUT][0] is not None:
             self._write_points(label, chainage, elevation, map_xy)
-        if len(self._summaries) >= self.GROUP:
+        self._waiting += len(chainage)
+        if len(self._summaries) >= self.GROUP or self._waiting >= self.GROUP_SAMPLES:
             self.flush()
 
-    def flush(self, feedback=None):
+    def flush(self):
         if not self._summaries:
             return
         label, length, low, high = (list(column) for column in zip(*self._summaries))
@@ -243,10 +248,13 @@ class ProfileWriter:
         }
         if self._lines:
             line_sink = self.sinks[OUTPUT_LINE][0]
-            write_rows(line_sink, F.PROFILE_LINES.qgs_fields(), self._lines, summary, feedback)
+            fields = F.PROFILE_LINES.qgs_fields()
+            write_rows(line_sink, fields, self._lines, summary, self.feedback)
         view_sink = self.sinks[OUTPUT_SECTION][0]
-        write_rows(view_sink, F.PROFILE_SECTIONS.qgs_fields(), self._views, summary, feedback)
+        fields = F.PROFILE_SECTIONS.qgs_fields()
+        write_rows(view_sink, fields, self._views, summary, self.feedback)
         self._summaries, self._lines, self._views = [], [], []
+        self._waiting = 0
 
     def _write_points(self, label, chainage, elevation, map_xy):
         samples = {
@@ -257,4 +265,6 @@ class ProfileWriter:
             F.Y: map_xy[:, 1],
         }
         points = points_z(map_xy[:, 0], map_xy[:, 1], elevation)
-        write_rows(self.sinks[OUTPUT][0], F.PROFILE_POINTS.qgs_fields(), points, samples)
+        write_rows(
+            self.sinks[OUTPUT][0], F.PROFILE_POINTS.qgs_fields(), points, samples, self.feedback
+        )

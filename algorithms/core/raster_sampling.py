@@ -94,11 +94,18 @@ class TiledRaster:
         # they decompress, so tiles decode in parallel.
         shares = [jobs[i :: len(self.readers)] for i in range(len(self.readers))]
         with ThreadPoolExecutor(max_workers=len(self.readers)) as pool:
-            for done in [
+            futures = [
                 pool.submit(self._fill, reader, share, whole, cells, out)
                 for reader, share in zip(self.readers, shares)
-            ]:
-                done.result()
+            ]
+            try:
+                for done in futures:
+                    done.result()
+            finally:
+                # A failed future holds its traceback, which holds this frame:
+                # let go of both, or the readers' GDAL handles wait for the
+                # cycle collector (which frees them in any order).
+                done = futures = None
         return out
 
     def _fill(self, reader, jobs, whole, cells, out):
@@ -118,9 +125,8 @@ class TiledRaster:
 
 @dataclass
 class _WholeCells:
-    """The positions served whole by one tile, ordered by tile: their tile
-    keys, where each key's run starts and ends, and the offsets of their
-    four cells in the flattened tile."""
+    """The positions served whole by one tile, ordered by tile, with their
+    tile keys and the offsets of their four cells in the flattened tile."""
 
     positions: np.ndarray
     keys: np.ndarray
@@ -149,24 +155,25 @@ class _Cells:
     slots: np.ndarray
 
 
+def _runs(sorted_keys):
+    """{key: (first, end)} of each run of equal keys in a sorted array."""
+    if not len(sorted_keys):
+        return {}
+    starts = np.flatnonzero(np.r_[True, sorted_keys[1:] != sorted_keys[:-1]])
+    ends = np.r_[starts[1:], len(sorted_keys)]
+    return {int(sorted_keys[s]): (int(s), int(e)) for s, e in zip(starts, ends)}
+
+
 def _grouped(keys):
     """{key: indices} per distinct key."""
-    if not len(keys):
-        return {}
     order = np.argsort(keys, kind="stable")
-    sorted_keys = keys[order]
-    starts = np.flatnonzero(np.r_[True, sorted_keys[1:] != sorted_keys[:-1]])
-    ends = np.r_[starts[1:], len(order)]
-    return {int(sorted_keys[s]): order[s:e] for s, e in zip(starts, ends)}
+    return {key: order[s:e] for key, (s, e) in _runs(keys[order]).items()}
 
 
 def _tile_jobs(whole, single_keys):
     """(tile key, (first, end) of its run in ``whole``, single cells) per
     tile needed."""
-    keys = whole.keys
-    starts = np.flatnonzero(np.r_[True, keys[1:] != keys[:-1]]) if len(keys) else keys
-    ends = np.r_[starts[1:], len(keys)].astype(np.int64)
-    runs = {int(keys[s]): (int(s), int(e)) for s, e in zip(starts, ends)}
+    runs = _runs(whole.keys)
     singles = _grouped(single_keys)
     empty = np.empty(0, dtype=np.int64)
     return [

@@ -230,7 +230,9 @@ class ElevationsAhead:
     features. The first batch starts at once, so that the caller can open
     its outputs meanwhile; as a context manager it waits for the batch in
     hand when the caller leaves early (an error, Cancel). ``jobs`` is
-    consumed on the reading thread: it must not touch QGIS objects.
+    consumed on the reading thread: it must not touch QGIS objects (the
+    sampler's reads run there too, as they always have: through GDAL
+    handles of their own, or a non-GDAL raster's data provider).
     """
 
     def __init__(self, jobs, sampler):
@@ -245,7 +247,7 @@ class ElevationsAhead:
 
     def __iter__(self):
         try:
-            while True:
+            while self._pending is not None:
                 results = self._pending.result()
                 if results is None:
                     return
@@ -256,6 +258,11 @@ class ElevationsAhead:
 
     def close(self):
         self._worker.shutdown(wait=True, cancel_futures=True)
+        # A failed batch's future holds its traceback, which holds the
+        # caller's frame and so this object: break the cycle, or the DEM's
+        # handles and the run's sinks wait for the cycle collector, which
+        # frees them in any order (GDAL crashes on that).
+        self._pending = None
 
     def __enter__(self):
         return self

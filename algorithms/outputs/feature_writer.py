@@ -211,11 +211,13 @@ def qgis_geometries(items):
     small WKBs (points, short lines) are parsed by QGIS in one call, large
     ones each on its own (splitting a collection would copy them again)."""
     wkbs = [w for w in items if isinstance(w, bytes)]
+    if not wkbs:
+        return list(items)
     if len(wkbs) == 1 or sum(map(len, wkbs)) > LARGE_WKB * len(wkbs):
         parsed = iter([_parsed(w) for w in wkbs])
     else:
         collection = _parsed(struct.pack("<BII", 1, WKB_COLLECTION, len(wkbs)) + b"".join(wkbs))
-        parsed = iter(collection.asGeometryCollection() if wkbs else ())
+        parsed = iter(collection.asGeometryCollection())
     return [next(parsed) if isinstance(w, bytes) else w for w in items]
 
 

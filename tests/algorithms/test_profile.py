@@ -279,8 +279,9 @@ def test_bad_lines_go_to_skipped_with_reasons(provider, plane_dem):
     )
 
 
+@pytest.mark.parametrize("limit", [("GROUP", 2), ("GROUP_SAMPLES", 100)])
 def test_sections_written_in_groups_come_out_as_when_written_at_once(
-    provider, plane_dem, monkeypatch
+    provider, plane_dem, monkeypatch, limit
 ):
     x, y = ORIGIN_X, ORIGIN_Y
     wkts = [
@@ -300,7 +301,7 @@ def test_sections_written_in_groups_come_out_as_when_written_at_once(
         }
 
     at_once = outputs()
-    monkeypatch.setattr(profile.ProfileWriter, "GROUP", 2)
+    monkeypatch.setattr(profile.ProfileWriter, *limit)
     in_groups = outputs()
     assert in_groups == at_once
     assert [row[0][0] for row in at_once["OUTPUT_LINE"]] == ["L0", "L1", "L3", "L4", "L5"]

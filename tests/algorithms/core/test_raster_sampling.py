@@ -1,5 +1,8 @@
 """Bilinear interpolation between cell centres, tile by tile."""
 
+import gc
+import weakref
+
 import numpy as np
 import pytest
 from scipy import ndimage
@@ -102,6 +105,27 @@ def test_several_readers_give_the_same_values(grid):
     u, v = rng.uniform(-0.5, 30.5, 4000), rng.uniform(-0.5, 22.5, 4000)
     one = bilinear(u, v, cache_for(grid, (3, 3)))
     np.testing.assert_array_equal(bilinear(u, v, cache_for(grid, (3, 3), readers=3)), one)
+
+
+def test_a_reader_that_fails_leaves_nothing_for_the_cycle_collector(grid):
+    # A failed reader's traceback holds the frame that waited for it: unless
+    # that is let go, the raster and its readers' GDAL handles wait for the
+    # cycle collector, which frees them in any order.
+    def failing(row0, col0, nrows, ncols):
+        raise OSError("tile cannot be decoded")
+
+    raster = TiledRaster([failing, failing], grid.shape, (4, 4))
+    left = weakref.ref(raster)
+    collecting = gc.isenabled()
+    gc.disable()
+    try:
+        with pytest.raises(OSError):
+            bilinear(np.arange(20.0), np.arange(20.0), raster)
+        del raster
+        assert left() is None
+    finally:
+        if collecting:
+            gc.enable()
 
 
 def test_only_tiles_near_the_positions_are_read():

@@ -1,6 +1,9 @@
 """ElevationsAhead: the DEM read on its own thread, one batch ahead."""
 
+import gc
 import threading
+import time
+import weakref
 
 import numpy as np
 
@@ -12,10 +15,10 @@ class RecordingSampler:
     """Elevation = x + y; records the threads that sample and lets a test
     hold a batch until it says go."""
 
-    def __init__(self):
+    def __init__(self, hold=()):
         self.started = threading.Event()
         self.go = threading.Event()
-        self.go.set()
+        self.hold = set(hold)  # batch numbers (from 1) that wait for go
         self.threads = set()
         self.batches = 0
 
@@ -23,7 +26,8 @@ class RecordingSampler:
         self.threads.add(threading.get_ident())
         self.batches += 1
         self.started.set()
-        assert self.go.wait(10)
+        if self.batches in self.hold:
+            assert self.go.wait(10)
         return xy[:, 0] + xy[:, 1]
 
 
@@ -58,10 +62,60 @@ def test_the_first_batch_is_read_before_anyone_asks_and_off_the_callers_thread()
 
 def test_leaving_early_waits_for_the_batch_in_hand_and_reads_no_more(monkeypatch):
     monkeypatch.setattr(dem, "BATCH_SAMPLES", 4)
-    sampler = RecordingSampler()
+    sampler = RecordingSampler(hold={2})  # the batch in hand as the caller leaves
     with ElevationsAhead(jobs(6, 4), sampler) as ahead:
-        assert next(iter(ahead))[0] == 0
-        sampler.go.clear()  # the next batch is held while the caller leaves
-        threading.Timer(0.2, sampler.go.set).start()
-    assert not [t for t in threading.enumerate() if t.name.startswith(dem.READER_THREAD)]
-    assert sampler.batches <= 2  # the first, and the one in hand
+        results = iter(ahead)
+        assert next(results)[0] == 0
+        assert wait_until(lambda: sampler.batches == 2)  # the next batch is in hand
+        threading.Timer(0.3, sampler.go.set).start()
+    assert sampler.go.is_set()  # leaving waited for it
+    assert not reader_threads()
+    assert sampler.batches == 2  # the first, and the one in hand
+
+
+def test_an_error_before_iterating_leaves_no_reader_behind():
+    sampler = RecordingSampler(hold={1})
+    threading.Timer(0.3, sampler.go.set).start()
+    try:
+        with ElevationsAhead(jobs(3, 4), sampler):
+            raise OSError("the output cannot be written there")
+    except OSError:
+        pass
+    assert sampler.go.is_set() and not reader_threads()
+
+
+def test_a_failing_batch_leaves_nothing_for_the_cycle_collector():
+    # The failed future's traceback holds the caller's frame: unless it is
+    # let go, the DEM's handles (and a run's sinks) are freed by the cycle
+    # collector in any order, which crashed GDAL.
+    def failing_jobs():
+        yield 0, np.zeros((2, 2))
+        raise MemoryError("samples")
+
+    collecting = gc.isenabled()
+    gc.disable()
+    try:
+        with ElevationsAhead(failing_jobs(), RecordingSampler()) as ahead:
+            left = weakref.ref(ahead)
+            try:
+                list(ahead)
+            except MemoryError:
+                pass
+        del ahead
+        assert left() is None
+    finally:
+        if collecting:
+            gc.enable()
+
+
+def reader_threads():
+    return [t for t in threading.enumerate() if t.name.startswith(dem.READER_THREAD)]
+
+
+def wait_until(condition, seconds=10.0):
+    deadline = time.monotonic() + seconds
+    while not condition():
+        if time.monotonic() > deadline:
+            return False
+        time.sleep(0.01)
+    return True
