@@ -13,6 +13,7 @@ with cell *centres* at whole numbers; the raster's outer edge is at -0.5 and
 ``n - 0.5``.
 """
 
+import threading
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
 
@@ -38,6 +39,10 @@ def centre_index(inverse_geotransform, x, y):
     return u, v
 
 
+class ReadingStopped(Exception):
+    """The reads were stopped (TiledRaster.stopping) before they were done."""
+
+
 class TiledRaster:
     """A raster's cells gathered tile by tile through one or more readers."""
 
@@ -47,6 +52,10 @@ class TiledRaster:
         self.tile_rows, self.tile_cols = (max(1, int(n)) for n in tile_shape)
         self.tiles_across = -(-self.cols // self.tile_cols)
         self.tiles_read = 0
+        # Set from another thread to stop the reads under way after their
+        # current tile (ReadingStopped): a run that ends early does not wait
+        # for a whole batch.
+        self.stopping = threading.Event()
 
     def _key(self, rows, cols):
         return (rows // self.tile_rows) * self.tiles_across + cols // self.tile_cols
@@ -111,6 +120,8 @@ class TiledRaster:
     def _fill(self, reader, jobs, whole, cells, out):
         flat = out.reshape(-1)
         for key, (low, high), single in jobs:
+            if self.stopping.is_set():
+                raise ReadingStopped()
             row0, col0, tile = self._read_tile(reader, key)
             if high > low:
                 out[:, whole.positions[low:high]] = tile.reshape(-1)[whole.offsets[:, low:high]]

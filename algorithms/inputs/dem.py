@@ -186,6 +186,14 @@ class DemSampler:
         u, v = centre_index(self.inverse_geotransform, x, y)
         return bilinear(u, v, self.raster) * self.grid.scale + self.grid.offset
 
+    def stop_reading(self):
+        """Makes reads under way on other threads stop after their current
+        tile (they raise ReadingStopped)."""
+        self.raster.stopping.set()
+
+    def resume_reading(self):
+        self.raster.stopping.clear()
+
     def cell_size(self, centre_working):
         """The DEM's cell size measured in the working CRS at a position."""
         x, y = self.to_dem(np.array([centre_working[0]]), np.array([centre_working[1]]))
@@ -228,8 +236,9 @@ class ElevationsAhead:
     tile that several lines cross is decoded once per batch, and the next
     batch is made and read while the caller writes the current one's
     features. The first batch starts at once, so that the caller can open
-    its outputs meanwhile; as a context manager it waits for the batch in
-    hand when the caller leaves early (an error, Cancel). ``jobs`` is
+    its outputs meanwhile; as a context manager, when the caller leaves
+    early (an error, Cancel), it stops the batch in hand after its current
+    tile and waits for that. ``jobs`` is
     consumed on the reading thread: it must not touch QGIS objects (the
     sampler's reads run there too, as they always have: through GDAL
     handles of their own, or a non-GDAL raster's data provider).
@@ -257,7 +266,14 @@ class ElevationsAhead:
             self.close()
 
     def close(self):
+        """Ends the reading: a batch in hand stops after its current tile,
+        those queued behind it are dropped."""
+        unfinished = self._pending is not None and not self._pending.done()
+        if unfinished:
+            self._sampler.stop_reading()
         self._worker.shutdown(wait=True, cancel_futures=True)
+        if unfinished:
+            self._sampler.resume_reading()
         # A failed batch's future holds its traceback, which holds the
         # caller's frame and so this object: break the cycle, or the DEM's
         # handles and the run's sinks wait for the cycle collector, which

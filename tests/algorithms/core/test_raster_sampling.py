@@ -7,7 +7,12 @@ import numpy as np
 import pytest
 from scipy import ndimage
 
-from sectionwright.algorithms.core.raster_sampling import TiledRaster, bilinear, centre_index
+from sectionwright.algorithms.core.raster_sampling import (
+    ReadingStopped,
+    TiledRaster,
+    bilinear,
+    centre_index,
+)
 
 
 def cache_for(grid, tile_shape=(7, 5), readers=1):
@@ -126,6 +131,22 @@ def test_a_reader_that_fails_leaves_nothing_for_the_cycle_collector(grid):
     finally:
         if collecting:
             gc.enable()
+
+
+@pytest.mark.parametrize("readers", [1, 2])
+def test_reads_stopped_from_another_thread_end_after_their_current_tile(grid, readers):
+    raster = cache_for(grid, (4, 4), readers=readers)
+    read = raster.readers[0]
+
+    def read_then_stop(*window):
+        if len(raster.reads) == 2:
+            raster.stopping.set()  # as ElevationsAhead.close does from its thread
+        return read(*window)
+
+    raster.readers = [read_then_stop] * readers
+    with pytest.raises(ReadingStopped):
+        bilinear(np.arange(20.0), np.arange(20.0), raster)
+    assert len(raster.reads) <= 2 + readers  # each reader finishes the tile in hand
 
 
 def test_only_tiles_near_the_positions_are_read():

@@ -21,6 +21,14 @@ class RecordingSampler:
         self.hold = set(hold)  # batch numbers (from 1) that wait for go
         self.threads = set()
         self.batches = 0
+        self.stop_asked = self.resumed = False
+
+    def stop_reading(self):
+        self.stop_asked = True
+        self.go.set()  # a held batch ends at once, as a stopped read does
+
+    def resume_reading(self):
+        self.resumed = True
 
     def elevations(self, xy):
         self.threads.add(threading.get_ident())
@@ -60,28 +68,34 @@ def test_the_first_batch_is_read_before_anyone_asks_and_off_the_callers_thread()
     assert caller not in sampler.threads and caller not in consumed_on
 
 
-def test_leaving_early_waits_for_the_batch_in_hand_and_reads_no_more(monkeypatch):
+def test_leaving_early_stops_the_batch_in_hand_and_reads_no_more(monkeypatch):
     monkeypatch.setattr(dem, "BATCH_SAMPLES", 4)
     sampler = RecordingSampler(hold={2})  # the batch in hand as the caller leaves
     with ElevationsAhead(jobs(6, 4), sampler) as ahead:
         results = iter(ahead)
         assert next(results)[0] == 0
-        assert wait_until(lambda: sampler.batches == 2)  # the next batch is in hand
-        threading.Timer(0.3, sampler.go.set).start()
-    assert sampler.go.is_set()  # leaving waited for it
+        assert wait_until(lambda: sampler.batches == 2)
+    assert sampler.stop_asked and sampler.resumed
     assert not reader_threads()
     assert sampler.batches == 2  # the first, and the one in hand
 
 
+def test_reading_to_the_end_stops_nothing():
+    sampler = RecordingSampler()
+    with ElevationsAhead(jobs(3, 4), sampler) as ahead:
+        assert len(list(ahead)) == 3
+    assert not sampler.stop_asked
+
+
 def test_an_error_before_iterating_leaves_no_reader_behind():
     sampler = RecordingSampler(hold={1})
-    threading.Timer(0.3, sampler.go.set).start()
     try:
         with ElevationsAhead(jobs(3, 4), sampler):
+            assert sampler.started.wait(10)
             raise OSError("the output cannot be written there")
     except OSError:
         pass
-    assert sampler.go.is_set() and not reader_threads()
+    assert sampler.stop_asked and not reader_threads()
 
 
 def test_a_failing_batch_leaves_nothing_for_the_cycle_collector():
