@@ -236,12 +236,14 @@ class ElevationsAhead:
     tile that several lines cross is decoded once per batch, and the next
     batch is made and read while the caller writes the current one's
     features. The first batch starts at once, so that the caller can open
-    its outputs meanwhile; as a context manager, when the caller leaves
+    its outputs meanwhile. As a context manager, when the caller leaves
     early (an error, Cancel), it stops the batch in hand after its current
-    tile and waits for that. ``jobs`` is
-    consumed on the reading thread: it must not touch QGIS objects (the
-    sampler's reads run there too, as they always have: through GDAL
-    handles of their own, or a non-GDAL raster's data provider).
+    tile and waits for that.
+
+    ``jobs`` is consumed on the reading thread: it must not touch QGIS
+    objects (the sampler's reads run there too, as they always have:
+    through GDAL handles of their own, or a non-GDAL raster's data
+    provider).
     """
 
     def __init__(self, jobs, sampler):
